@@ -1,0 +1,5 @@
+"""``python -m converter`` runs the gradeline command."""
+
+from converter.cli import main
+
+raise SystemExit(main())

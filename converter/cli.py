@@ -1,0 +1,253 @@
+"""Command-line interface: parse arguments, call the library, write output.
+
+No geometry lives here. Every :class:`~converter.errors.GradelineError` is
+caught once in :func:`main` and printed as one line; exit codes are 0 (ok),
+1 (findings, for review/check), 2 (bad input or usage).
+"""
+
+from __future__ import annotations
+
+import argparse
+import sys
+from collections.abc import Sequence
+from typing import Any
+
+from converter import __version__, landxml, tables
+from converter.errors import GradelineError, UsageError
+from converter.labels import length_text
+from converter.outputs import csv_text, json_text, refuse_overwrite, write_atomic
+from converter.selection import ProfileContext, select, solve_profile
+
+__all__ = ["main"]
+
+PROG = "gradeline"
+
+
+class _Parser(argparse.ArgumentParser):
+    def error(self, message: str) -> None:  # one line, exit 2
+        self.exit(2, f"{self.prog}: {message} (see --help)\n")
+
+
+def _emit(text: str, output: str | None, inputs: Sequence[str]) -> None:
+    if output is None or output == "-":
+        sys.stdout.write(text)
+        return
+    refuse_overwrite(output, inputs)
+    try:
+        write_atomic(output, text)
+    except OSError as err:
+        raise UsageError(f"cannot write {output!r} ({err.strerror})") from None
+
+
+def _add_common(p: argparse.ArgumentParser, *, profile: bool = True) -> None:
+    p.add_argument("file", metavar="FILE", help="LandXML file")
+    p.add_argument("--alignment", metavar="NAME", help="alignment (needed when the file has several)")
+    if profile:
+        p.add_argument("--profile", metavar="NAME", help="finished-grade profile (ProfAlign) name")
+
+
+def _add_output(p: argparse.ArgumentParser) -> None:
+    p.add_argument("--format", choices=("csv", "json"), default="csv", help="output format (default csv)")
+    p.add_argument("-o", "--output", metavar="PATH", help="write here instead of standard output")
+
+
+def _payload(ctx: ProfileContext, columns: Sequence[str], rows: list[dict[str, Any]]) -> dict[str, Any]:
+    return {
+        "file": ctx.document.path,
+        "alignment": ctx.alignment.name,
+        "profile": ctx.profile.name,
+        "linear_unit": ctx.document.units.linear,
+        "columns": list(columns),
+        "rows": [{c: r.get(c) for c in columns} for r in rows],
+    }
+
+
+def _render(ctx: ProfileContext, fmt: str, columns: Sequence[str], rows: list[dict[str, Any]]) -> str:
+    if fmt == "json":
+        return json_text(_payload(ctx, columns, rows))
+    return csv_text(rows, columns)
+
+
+def cmd_table(args: argparse.Namespace) -> int:
+    ctx = select(args.file, args.alignment, args.profile)
+    geom = ctx.geometry
+    if args.at is not None:
+        texts = [t for t in args.at.split(",") if t.strip()]
+        if not texts:
+            raise UsageError("--at needs at least one station")
+        at = [ctx.stationing.internal_of(t, geom.start, geom.end) for t in texts]
+        stations, tags = tables.table_stations(geom, ctx.stationing, at=at)
+    else:
+        stations, tags = tables.table_stations(geom, ctx.stationing, interval=args.interval)
+    rows = tables.station_rows(geom, ctx.stationing, stations, tags)
+    _emit(_render(ctx, args.format, tables.STATION_COLUMNS, rows), args.output, [args.file])
+    return 0
+
+
+def cmd_curves(args: argparse.Namespace) -> int:
+    ctx = select(args.file, args.alignment, args.profile)
+    rows = tables.curve_rows(ctx.geometry, ctx.stationing)
+    _emit(_render(ctx, args.format, tables.CURVE_COLUMNS, rows), args.output, [args.file])
+    return 0
+
+
+def _info(path: str) -> dict[str, Any]:
+    doc = landxml.read(path)
+    u = doc.units
+    out: dict[str, Any] = {
+        "file": path,
+        "project": doc.project,
+        "units": {
+            "linear": u.linear,
+            "symbol": u.symbol,
+            "station_length": u.station_length,
+            "angular": u.angular,
+            "direction": u.direction,
+        },
+        "alignments": [],
+    }
+    for al in doc.alignments:
+        entry: dict[str, Any] = {
+            "name": al.name,
+            "description": al.description,
+            "sta_start": al.sta_start,
+            "length": al.length,
+            "station_equations": len(al.equations),
+            "profiles": [],
+            "grounds": [],
+        }
+        for prof in al.profiles:
+            ctx = solve_profile(doc, al, prof)
+            kinds = [c.curve_type for c in ctx.geometry.curves]
+            entry["profiles"].append(
+                {
+                    "name": prof.name,
+                    "start": ctx.geometry.start,
+                    "end": ctx.geometry.end,
+                    "start_label": ctx.stationing.label(ctx.geometry.start),
+                    "end_label": ctx.stationing.label(ctx.geometry.end),
+                    "pvis": len(prof.pvis),
+                    "curves": len(kinds),
+                    "crest": kinds.count("crest"),
+                    "sag": kinds.count("sag"),
+                }
+            )
+        for gr in al.grounds:
+            pts = [s for p in gr.pieces for s in p.stations]
+            entry["grounds"].append(
+                {
+                    "name": gr.name,
+                    "points": len(pts),
+                    "pieces": len(gr.pieces),
+                    "start": min(pts) if pts else None,
+                    "end": max(pts) if pts else None,
+                }
+            )
+        out["alignments"].append(entry)
+    return out
+
+
+def _info_text(info: dict[str, Any], doc_units_symbol: str) -> str:
+    u = info["units"]
+    lines = [info["file"]]
+    if info["project"]:
+        lines.append(f"project: {info['project']}")
+    lines.append(
+        f"units: {u['linear']} ({u['symbol']}), stations of {u['station_length']:g} "
+        f"{u['symbol']}; angles in {u['angular']}, directions in {u['direction']}"
+    )
+    if not info["alignments"]:
+        lines.append("no alignments")
+    for al in info["alignments"]:
+        length = "" if al["length"] is None else f", length {al['length']:.3f} {u['symbol']}"
+        eqs = al["station_equations"]
+        lines.append(
+            f"alignment {al['name']!r}: staStart {al['sta_start']:.3f}{length}"
+            + (f", {eqs} station equation{'s' if eqs != 1 else ''}" if eqs else "")
+        )
+        for p in al["profiles"]:
+            lines.append(
+                f"  profile {p['name']!r}: {p['start_label']} to {p['end_label']}, "
+                f"{p['pvis']} PVIs, {p['curves']} vertical curves "
+                f"({p['crest']} crest, {p['sag']} sag)"
+            )
+        for g in al["grounds"]:
+            lines.append(
+                f"  ground {g['name']!r}: {g['points']} points in {g['pieces']} "
+                f"piece{'s' if g['pieces'] != 1 else ''}"
+            )
+    return "\n".join(lines) + "\n"
+
+
+def cmd_info(args: argparse.Namespace) -> int:
+    info = _info(args.file)
+    text = json_text(info) if args.json else _info_text(info, info["units"]["symbol"])
+    sys.stdout.write(text)
+    return 0
+
+
+def build_parser() -> argparse.ArgumentParser:
+    """The argument parser of the ``gradeline`` command."""
+    parser = _Parser(
+        prog=PROG,
+        description=(
+            "Compute and draft highway vertical geometry from LandXML. Computed "
+            "geometry is for review: verify it against the governing agency's "
+            "standards; design decisions rest with the responsible licensed engineer."
+        ),
+    )
+    parser.add_argument("--version", action="version", version=f"{PROG} {__version__}")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
+    sub.required = True
+
+    p = sub.add_parser("info", help="units, alignments, station ranges, profiles, curve counts")
+    p.add_argument("file", metavar="FILE", help="LandXML file")
+    p.add_argument("--json", action="store_true", help="write JSON instead of text")
+    p.set_defaults(func=cmd_info)
+
+    p = sub.add_parser(
+        "table",
+        help="finished-grade elevation and grade at regular stations and key points",
+        description=(
+            "Rows at every multiple of --interval plus every key point (START, BVC, "
+            "PVI, HIGH/LOW, EVC, END), or exactly at the --at stations. grade is in "
+            "percent; offset is finished grade minus tangent elevation."
+        ),
+    )
+    _add_common(p)
+    group = p.add_mutually_exclusive_group(required=True)
+    group.add_argument("--interval", type=float, metavar="D", help="row every D file units of station")
+    group.add_argument(
+        "--at",
+        metavar="STATIONS",
+        help="comma-separated stations, e.g. 12+50,13+00 (after a station equation "
+        "that repeats labels, add the region: 12+50@2)",
+    )
+    _add_output(p)
+    p.set_defaults(func=cmd_table)
+
+    p = sub.add_parser("curves", help="one row per vertical curve: PVI, grades, A, L, K, BVC/EVC, high/low point")
+    _add_common(p)
+    _add_output(p)
+    p.set_defaults(func=cmd_curves)
+    return parser
+
+
+def main(argv: Sequence[str] | None = None) -> int:
+    """Run the ``gradeline`` command; return its exit code."""
+    parser = build_parser()
+    args = parser.parse_args(argv)
+    try:
+        return int(args.func(args))
+    except GradelineError as err:
+        sys.stderr.write(f"{PROG}: {err}\n")
+        return 2
+    except BrokenPipeError:
+        return 0
+    except KeyboardInterrupt:
+        sys.stderr.write(f"{PROG}: interrupted\n")
+        return 130
+
+
+if __name__ == "__main__":  # pragma: no cover
+    raise SystemExit(main())
