@@ -269,7 +269,7 @@ def parse_bytes(data: bytes, path: str = "<input>") -> Document:
         # libxml2 messages end with the position; keep the reason only
         msg = msg.split(", line ")[0]
         raise InputError(
-            f"not well-formed XML ({msg}); the file may be truncated or not XML",
+            f"not well-formed ({msg}); the file may be truncated or not XML at all",
             SourceRef(path, line),
             "XML",
         ) from None

@@ -173,6 +173,9 @@ class Stationing:
             float(self.label_value(internal)), self.station_length, self.decimals
         )
 
+    def _fmt(self, labelled: float) -> str:
+        return format_station(labelled, self.station_length, self.decimals)
+
     def labels(self, internal: ArrayLike) -> list[str]:
         """Label texts of an array of internal stations."""
         values = self.label_value(internal)
@@ -186,8 +189,7 @@ class Stationing:
         for k in range(len(starts)):
             internal = labelled - offsets[k]
             a, b = max(starts[k], lo), min(ends[k], hi)
-            last = k == len(starts) - 1
-            if a <= internal < b or (internal == b and (last or b == hi)):
+            if a <= internal <= b and not any(abs(f[1] - internal) < 1e-9 for f in found):
                 found.append((k + 1, float(internal)))
         return found
 
@@ -213,6 +215,14 @@ class Stationing:
             found = [f for f in found if f[0] == want]
         rng = f"{self.label(lo)} to {self.label(hi)}"
         if not found:
+            for eq in self.equations:
+                if lo <= eq.internal <= hi and min(eq.back, eq.ahead) < labelled < max(
+                    eq.back, eq.ahead
+                ):
+                    raise UsageError(
+                        f"station {body.strip()} falls in the gap of the station equation "
+                        f"back {self._fmt(eq.back)} = ahead {self._fmt(eq.ahead)}"
+                    )
             raise UsageError(f"station {body.strip()} is not on the profile ({rng})")
         if len(found) > 1:
             options = ", ".join(f"{body.strip()}@{r}" for r, _ in found)

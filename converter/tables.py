@@ -66,6 +66,21 @@ CURVE_COLUMNS = (
 Row = dict[str, Any]
 
 
+def _merge_keys(
+    keys: Sequence[vertical.KeyPoint], equations: Sequence[float]
+) -> list[vertical.KeyPoint]:
+    """Key points plus station-equation points tagged ``EQUATION``."""
+    out = list(keys)
+    for s in equations:
+        near = [i for i, k in enumerate(out) if abs(k.station - s) <= vertical.JOIN_TOLERANCE]
+        if near:
+            k = out[near[0]]
+            out[near[0]] = vertical.KeyPoint(k.station, k.tags + ("EQUATION",))
+        else:
+            out.append(vertical.KeyPoint(s, ("EQUATION",)))
+    return sorted(out, key=lambda k: k.station)
+
+
 def table_stations(
     geom: VerticalGeometry,
     stationing: Stationing,
@@ -75,10 +90,14 @@ def table_stations(
     """Stations of a station/elevation table and the key-point tag of each.
 
     With ``interval`` the rows are every labelled multiple of it plus every key
-    point (START, BVC, PVI, HIGH/LOW, EVC, END); with ``at`` they are exactly
+    point (START, BVC, PVI, HIGH/LOW, EVC, END, and EQUATION where a station
+    equation sits); with ``at`` they are exactly
     the given internal stations, tagged where they hit a key point.
     """
-    keys = vertical.key_points(geom)
+    keys = _merge_keys(
+        vertical.key_points(geom),
+        [e.internal for e in stationing.equations if geom.start <= e.internal <= geom.end],
+    )
     key_st = np.array([k.station for k in keys])
     if at is not None:
         stations = np.asarray(at, dtype=np.float64).reshape(-1)

@@ -1,0 +1,64 @@
+"""Station and curve table rows."""
+
+from __future__ import annotations
+
+import numpy as np
+import pytest
+
+from converter import tables
+from converter.selection import select
+from converter.stations import Stationing
+from converter.units import Units
+from converter.vertical import solve
+from tests.conftest import CASES, METRIC_SAMPLE, US_SAMPLE
+
+FT = Stationing(Units("foot"))
+
+
+def test_interval_rows_include_every_key_point():
+    geom = solve(CASES["crest"])
+    stations, tags = tables.table_stations(geom, FT, interval=100.0)
+    c = geom.curves[0]
+    for s in (0.0, c.bvc_station, c.pvi_station, c.turning_station, c.evc_station, 1000.0):
+        assert np.min(np.abs(stations - s)) < 1e-9
+    assert tags[0] == "START" and tags[-1] == "END"
+    assert "HIGH" in tags
+    assert np.all(np.diff(stations) > 0)
+
+
+def test_offset_is_grade_minus_tangent():
+    geom = solve(CASES["sag"])
+    rows = tables.station_rows(geom, FT, [350.0, 500.0, 650.0])
+    # middle ordinate at the PVI: A L / 800 (common practice)
+    c = geom.curves[0]
+    assert rows[1]["offset"] == pytest.approx(c.a_pct * c.length / 800)
+    for r in rows:
+        assert r["elevation"] == pytest.approx(r["tangent_elevation"] + r["offset"])
+    assert rows[0]["offset"] == pytest.approx(0.0, abs=1e-12)
+
+
+def test_rows_have_exact_columns():
+    geom = solve(CASES["crest"])
+    rows = tables.station_rows(geom, FT, [100.0])
+    assert tuple(rows[0]) == tables.STATION_COLUMNS
+    crow = tables.curve_rows(geom, FT)[0]
+    assert tuple(crow) == tables.CURVE_COLUMNS
+
+
+def test_curve_rows_us_sample():
+    ctx = select(US_SAMPLE, "Orrin Vale Bypass")
+    rows = tables.curve_rows(ctx.geometry, ctx.stationing)
+    assert [r["type"] for r in rows] == ["crest", "sag", "crest", "sag", "crest"]
+    unsym = rows[2]
+    assert unsym["length_in"] == 300.0 and unsym["length_out"] == 500.0
+    assert unsym["K"] == pytest.approx(800.0 / 5.0)
+    assert unsym["pvi_label"] == "34+50.00"
+
+
+def test_metric_table_tags_the_equation():
+    ctx = select(METRIC_SAMPLE)
+    stations, tags = tables.table_stations(ctx.geometry, ctx.stationing, interval=100.0)
+    i = tags.index("EQUATION")
+    assert stations[i] == 1200.0
+    labels = ctx.stationing.labels(stations)
+    assert "2+450.000" == labels[-1]
