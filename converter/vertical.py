@@ -138,6 +138,7 @@ class VerticalGeometry:
     cy: NDArray[np.float64]
     r: NDArray[np.float64]
     sign: NDArray[np.float64]
+    lookup: _PieceLookup = field(repr=False)
 
     @property
     def start(self) -> float:
@@ -153,6 +154,47 @@ class VerticalGeometry:
     def grades(self) -> NDArray[np.float64]:
         """Grade of each tangent between consecutive PVIs (ratios)."""
         return np.diff(self.pvi_elevations) / np.diff(self.pvi_stations)
+
+
+@dataclass(frozen=True, eq=False)
+class _PieceLookup:
+    """Uniform-grid index from a station to its piece.
+
+    A binary search per station (``np.searchsorted``) costs a cache-unfriendly
+    branch per level; a grid of buckets, each remembering the piece at its left
+    edge, gets the piece with one multiply and a short forward correction.
+    """
+
+    lo: float
+    inv_width: float
+    table: NDArray[np.intp]
+    next_start: NDArray[np.float64]
+
+    @classmethod
+    def build(cls, starts: NDArray[np.float64], end: float) -> _PieceLookup:
+        n = len(starts)
+        buckets = int(min(max(8 * n, 16), 1 << 20))
+        width = (end - starts[0]) / buckets
+        edges = starts[0] + width * np.arange(buckets)
+        table = np.searchsorted(starts, edges, side="right") - 1
+        np.clip(table, 0, n - 1, out=table)
+        nxt = np.append(starts[1:], np.inf)
+        for arr in (table, nxt):
+            arr.flags.writeable = False
+        return cls(float(starts[0]), 1.0 / width, table.astype(np.intp), nxt)
+
+    def locate(self, s: NDArray[np.float64]) -> NDArray[np.intp]:
+        """Index of the piece holding each (finite) station, clipped to the ends."""
+        b = s - self.lo
+        b *= self.inv_width
+        bi = b.astype(np.intp)
+        np.clip(bi, 0, len(self.table) - 1, out=bi)
+        idx = self.table[bi]
+        todo = np.flatnonzero(self.next_start[idx] <= s)
+        while todo.size:
+            idx[todo] += 1
+            todo = todo[self.next_start[idx[todo]] <= s[todo]]
+        return idx
 
 
 def _plain(value: float) -> str:
@@ -280,12 +322,13 @@ def solve(profile: Profile, label: Callable[[float], str] | None = None) -> Vert
 
     st.flags.writeable = False
     el.flags.writeable = False
+    starts = ro(cols[0])
     return VerticalGeometry(
         profile=profile,
         curves=tuple(curves),
         pvi_stations=st,
         pvi_elevations=el,
-        starts=ro(cols[0]),
+        starts=starts,
         y0=ro(cols[1]),
         g0=ro(cols[2]),
         c=ro(cols[3]),
@@ -294,6 +337,7 @@ def solve(profile: Profile, label: Callable[[float], str] | None = None) -> Vert
         cy=ro(cols[6]),
         r=ro(cols[7]),
         sign=ro(cols[8]),
+        lookup=_PieceLookup.build(starts, float(st[-1])),
     )
 
 
@@ -402,23 +446,41 @@ def evaluate(
     """
     s_in = np.asarray(stations, dtype=np.float64)
     s = s_in.reshape(-1)
-    idx = np.clip(np.searchsorted(geom.starts, s, side="right") - 1, 0, len(geom.starts) - 1)
+    outside = ~((s >= geom.start) & (s <= geom.end))  # NaN counts as outside
+    any_outside = bool(outside.any())
+    if any_outside:
+        s = np.where(outside, geom.start, s)
+    idx = geom.lookup.locate(s)
     d = s - geom.starts[idx]
     c = geom.c[idx]
     g0 = geom.g0[idx]
-    z = geom.y0[idx] + d * (g0 + c * d)
-    g = g0 + 2.0 * c * d
-    circ = geom.circular[idx]
-    if circ.any():
-        ci = idx[circ]
-        dx = s[circ] - geom.cx[ci]
-        root = np.sqrt(np.maximum(geom.r[ci] ** 2 - dx * dx, 0.0))
-        z[circ] = geom.cy[ci] - geom.sign[ci] * root
-        g[circ] = geom.sign[ci] * dx / root
-    outside = (s < geom.start) | (s > geom.end) | np.isnan(s)
-    if outside.any():
-        z = np.where(outside, np.nan, z)
-        g = np.where(outside, np.nan, g)
+    # z = y0 + d*(g0 + c*d) and g = g0 + 2*c*d, in place to spare temporaries
+    cd = c * d
+    z = cd + g0
+    z *= d
+    z += geom.y0[idx]
+    g = cd
+    g *= 2.0
+    g += g0
+    on_arc = np.flatnonzero(geom.circular[idx])
+    if on_arc.size:
+        ci = idx[on_arc]
+        dx = s[on_arc]
+        dx -= geom.cx[ci]
+        root = geom.r[ci]
+        root *= root
+        root -= dx * dx
+        np.maximum(root, 0.0, out=root)
+        np.sqrt(root, out=root)
+        sign = geom.sign[ci]
+        dx *= sign
+        dx /= root
+        g[on_arc] = dx
+        root *= sign
+        z[on_arc] = geom.cy[ci] - root
+    if any_outside:
+        z[outside] = np.nan
+        g[outside] = np.nan
     return z.reshape(s_in.shape), g.reshape(s_in.shape)
 
 
