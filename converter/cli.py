@@ -12,11 +12,10 @@ import sys
 from collections.abc import Sequence
 from typing import Any
 
-from converter import __version__, landxml, tables
+from converter import __version__, horizontal, landxml, tables
 from converter.errors import GradelineError, UsageError
-from converter.labels import length_text
 from converter.outputs import csv_text, json_text, refuse_overwrite, write_atomic
-from converter.selection import ProfileContext, select, solve_profile
+from converter.selection import AlignmentContext, select, solve_alignment
 
 __all__ = ["main"]
 
@@ -51,18 +50,32 @@ def _add_output(p: argparse.ArgumentParser) -> None:
     p.add_argument("-o", "--output", metavar="PATH", help="write here instead of standard output")
 
 
-def _payload(ctx: ProfileContext, columns: Sequence[str], rows: list[dict[str, Any]]) -> dict[str, Any]:
+def _warn(ctx: AlignmentContext) -> None:
+    """Print horizontal-geometry findings as warnings (they do not stop the table)."""
+    if ctx.horizontal is None:
+        return
+    for f in ctx.horizontal.findings:
+        element = next((g.element for g in ctx.horizontal.elements if g.index == f.index), "")
+        err = GradelineError(f.message, f.source, element)
+        sys.stderr.write(f"{PROG}: warning: {err}\n")
+
+
+def _payload(ctx: AlignmentContext, columns: Sequence[str], rows: list[dict[str, Any]]) -> dict[str, Any]:
+    units = ctx.document.units
     return {
         "file": ctx.document.path,
         "alignment": ctx.alignment.name,
-        "profile": ctx.profile.name,
-        "linear_unit": ctx.document.units.linear,
+        "profile": ctx.profile.name if ctx.profile else None,
+        "linear_unit": units.linear,
+        "angular_unit": units.angular,
+        "direction_unit": units.direction,
+        "direction_convention": ctx.horizontal.convention if ctx.horizontal else None,
         "columns": list(columns),
         "rows": [{c: r.get(c) for c in columns} for r in rows],
     }
 
 
-def _render(ctx: ProfileContext, fmt: str, columns: Sequence[str], rows: list[dict[str, Any]]) -> str:
+def _render(ctx: AlignmentContext, fmt: str, columns: Sequence[str], rows: list[dict[str, Any]]) -> str:
     if fmt == "json":
         return json_text(_payload(ctx, columns, rows))
     return csv_text(rows, columns)
@@ -70,23 +83,24 @@ def _render(ctx: ProfileContext, fmt: str, columns: Sequence[str], rows: list[di
 
 def cmd_table(args: argparse.Namespace) -> int:
     ctx = select(args.file, args.alignment, args.profile)
-    geom = ctx.geometry
     if args.at is not None:
         texts = [t for t in args.at.split(",") if t.strip()]
         if not texts:
             raise UsageError("--at needs at least one station")
-        at = [ctx.stationing.internal_of(t, geom.start, geom.end) for t in texts]
-        stations, tags = tables.table_stations(geom, ctx.stationing, at=at)
+        at = [ctx.stationing.internal_of(t, ctx.start, ctx.end) for t in texts]
+        stations, tags = tables.table_stations(ctx, at=at)
     else:
-        stations, tags = tables.table_stations(geom, ctx.stationing, interval=args.interval)
-    rows = tables.station_rows(geom, ctx.stationing, stations, tags)
+        stations, tags = tables.table_stations(ctx, interval=args.interval)
+    rows = tables.station_rows(ctx, stations, tags)
+    _warn(ctx)
     _emit(_render(ctx, args.format, tables.STATION_COLUMNS, rows), args.output, [args.file])
     return 0
 
 
 def cmd_curves(args: argparse.Namespace) -> int:
     ctx = select(args.file, args.alignment, args.profile)
-    rows = tables.curve_rows(ctx.geometry, ctx.stationing)
+    rows = tables.curve_rows(ctx)
+    _warn(ctx)
     _emit(_render(ctx, args.format, tables.CURVE_COLUMNS, rows), args.output, [args.file])
     return 0
 
@@ -116,8 +130,27 @@ def _info(path: str) -> dict[str, Any]:
             "profiles": [],
             "grounds": [],
         }
+        ctx = solve_alignment(doc, al, None, need_profile=False) if al.horizontal else None
+        if ctx is not None and ctx.horizontal is not None:
+            h = ctx.horizontal
+            kinds = [g.kind for g in h.elements]
+            entry["horizontal"] = {
+                "start": h.start,
+                "end": h.end,
+                "start_label": ctx.stationing.label(h.start),
+                "end_label": ctx.stationing.label(h.end),
+                "length": h.end - h.start,
+                "lines": kinds.count("line"),
+                "curves": kinds.count("arc"),
+                "spirals": sum(k in horizontal.SPIRAL_TYPES for k in kinds),
+                "direction_convention": h.convention,
+                "direction_convention_text": horizontal.CONVENTIONS[h.convention],
+                "stated_directions_matched": list(h.convention_matches),
+                "findings": len(h.findings),
+            }
         for prof in al.profiles:
-            ctx = solve_profile(doc, al, prof)
+            ctx = solve_alignment(doc, al, prof)
+            assert ctx.geometry is not None
             kinds = [c.curve_type for c in ctx.geometry.curves]
             entry["profiles"].append(
                 {
@@ -147,6 +180,10 @@ def _info(path: str) -> dict[str, Any]:
     return out
 
 
+def _count(n: int, word: str) -> str:
+    return f"{n} {word}" + ("" if n == 1 else "s")
+
+
 def _info_text(info: dict[str, Any], doc_units_symbol: str) -> str:
     u = info["units"]
     lines = [info["file"]]
@@ -165,10 +202,23 @@ def _info_text(info: dict[str, Any], doc_units_symbol: str) -> str:
             f"alignment {al['name']!r}: staStart {al['sta_start']:.3f}{length}"
             + (f", {eqs} station equation{'s' if eqs != 1 else ''}" if eqs else "")
         )
+        hz = al.get("horizontal")
+        if hz:
+            matched, stated = hz["stated_directions_matched"]
+            conv = hz["direction_convention_text"]
+            how = (f"{matched} of {stated} stated directions match" if stated
+                   else "no stated directions; assumed")
+            lines.append(
+                f"  horizontal: {hz['start_label']} to {hz['end_label']}, "
+                f"{_count(hz['lines'], 'line')}, {_count(hz['curves'], 'curve')}, "
+                f"{_count(hz['spirals'], 'spiral')}; directions {conv} in "
+                f"{u['direction']} ({how})"
+                + (f"; {hz['findings']} geometry findings" if hz["findings"] else "")
+            )
         for p in al["profiles"]:
             lines.append(
                 f"  profile {p['name']!r}: {p['start_label']} to {p['end_label']}, "
-                f"{p['pvis']} PVIs, {p['curves']} vertical curves "
+                f"{p['pvis']} PVIs, {_count(p['curves'], 'vertical curve')} "
                 f"({p['crest']} crest, {p['sag']} sag)"
             )
         for g in al["grounds"]:

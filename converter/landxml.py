@@ -21,6 +21,12 @@ from converter.model import (
     Document,
     GroundPiece,
     GroundProfile,
+    HCurve,
+    HElement,
+    HIrregular,
+    HLine,
+    HorizontalAlignment,
+    HSpiral,
     Profile,
     PVISpec,
     SourceRef,
@@ -169,6 +175,8 @@ class _Reader:
                 key=lambda e: e.internal,
             )
         )
+        coord = _child(el, "CoordGeom")
+        horizontal = self.coord_geom(coord) if coord is not None else None
         profiles: list[Profile] = []
         grounds: list[GroundProfile] = []
         for prof_el in _children(el, "Profile"):
@@ -189,8 +197,92 @@ class _Reader:
             profiles=tuple(profiles),
             grounds=tuple(grounds),
             equations=equations,
+            horizontal=horizontal,
             source=self.src(el),
         )
+
+    # -- horizontal geometry ------------------------------------------------
+    _STATED = {
+        "Line": ("staStart", "length", "dir"),
+        "Curve": ("staStart", "length", "radius", "chord", "delta", "dirStart", "dirEnd",
+                  "external", "midOrd", "tangent"),
+        "Spiral": ("staStart", "length", "radiusStart", "radiusEnd", "theta", "totalX",
+                   "totalY", "tanLong", "tanShort", "dirStart", "dirEnd", "constant"),
+        "IrregularLine": ("staStart", "length", "dir"),
+    }
+
+    def point(self, el: etree._Element, name: str, required: bool = True):
+        p = _child(el, name)
+        if p is None:
+            if required:
+                raise self.fail(el, f"missing required {name} point")
+            return None
+        values = self.numbers(p, f"{name} coordinate")
+        if len(values) not in (2, 3):
+            raise self.fail(p, f"expected 'northing easting [elevation]', found {len(values)} values")
+        return (values[0], values[1])
+
+    def stated(self, el: etree._Element, kind: str) -> tuple[tuple[str, float], ...]:
+        out = []
+        for name in self._STATED[kind]:
+            raw = el.get(name)
+            if raw is None or raw.strip() == "":
+                continue
+            if name in ("radiusStart", "radiusEnd") and raw.strip().upper() in ("INF", "INFINITY"):
+                out.append((name, math.inf))
+                continue
+            out.append((name, self.number(el, raw.strip(), name)))
+        return tuple(out)
+
+    def radius_attr(self, el: etree._Element, name: str) -> float:
+        raw = el.get(name)
+        if raw is None or raw.strip() == "":
+            raise self.fail(el, f"missing required attribute {name!r} (use INF for a tangent end)")
+        if raw.strip().upper() in ("INF", "INFINITY"):
+            return math.inf
+        value = self.number(el, raw.strip(), name)
+        if value <= 0:
+            raise self.fail(el, f"{name} must be positive or INF, got {raw.strip()!r}")
+        return value
+
+    def coord_geom(self, el: etree._Element) -> HorizontalAlignment | None:
+        elements: list[HElement] = []
+        for child in el:
+            kind = _local(child)
+            src = self.src(child)
+            if kind == "Line":
+                elements.append(HLine(self.point(child, "Start"), self.point(child, "End"),
+                                      self.stated(child, kind), src))
+            elif kind == "Curve":
+                rot = child.get("rot")
+                elements.append(HCurve(
+                    self.point(child, "Start"), self.point(child, "Center"),
+                    self.point(child, "End"), rot, self.point(child, "PI", required=False),
+                    self.stated(child, kind), src))
+            elif kind == "Spiral":
+                rot = child.get("rot")
+                if rot is None:
+                    raise self.fail(child, "missing required attribute 'rot' (cw or ccw)")
+                spi_type = child.get("spiType", "clothoid")
+                length = self.required(child, "length")
+                elements.append(HSpiral(
+                    self.point(child, "Start"), self.point(child, "End"), length,
+                    self.radius_attr(child, "radiusStart"), self.radius_attr(child, "radiusEnd"),
+                    rot, spi_type, self.point(child, "PI", required=False),
+                    self.stated(child, kind), src))
+            elif kind == "IrregularLine":
+                pl = _child(child, "PntList2D")
+                values = self.numbers(pl, "point coordinate") if pl is not None else []
+                if len(values) % 2:
+                    raise self.fail(pl, "expected northing/easting pairs, found an odd count")
+                pts = list(zip(values[0::2], values[1::2], strict=True))
+                if not pts:
+                    start, end = self.point(child, "Start"), self.point(child, "End")
+                    pts = [start, end]
+                elements.append(HIrregular(tuple(pts), self.stated(child, kind), src))
+        if not elements:
+            return None
+        return HorizontalAlignment(tuple(elements), self.src(el))
 
     def prof_align(self, el: etree._Element, name: str) -> Profile:
         specs: list[PVISpec] = []

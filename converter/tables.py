@@ -1,26 +1,29 @@
 """Table rows for ``table`` and ``curves``: plain records, no formatting.
 
-Renderers (CSV/JSON writers, PDF tables) take these rows as they are; the
-values are floats in file units, grades in percent, and text labels made by
-:mod:`converter.labels` and :mod:`converter.stations`.
+Renderers (CSV/JSON writers, PDF tables) take these rows as they are; values
+are floats in file units, grades in percent, angles in the file's units, and
+text labels made by :mod:`converter.labels` and :mod:`converter.stations`.
 """
 
 from __future__ import annotations
 
+import math
 from collections.abc import Sequence
 from typing import Any
 
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
-from converter import vertical
-from converter.stations import Stationing
-from converter.vertical import VerticalGeometry
+from converter import horizontal, vertical
+from converter.selection import AlignmentContext
+from converter.units import angle_to_unit
+from converter.vertical import JOIN_TOLERANCE, KeyPoint
 
 __all__ = [
     "CURVE_COLUMNS",
     "STATION_COLUMNS",
     "curve_rows",
+    "key_points",
     "station_rows",
     "table_stations",
 ]
@@ -40,6 +43,7 @@ STATION_COLUMNS = (
 
 CURVE_COLUMNS = (
     "kind",
+    # vertical curves
     "pvi_station",
     "pvi_elevation",
     "grade_in",
@@ -58,81 +62,120 @@ CURVE_COLUMNS = (
     "length_out",
     "radius",
     "middle_ordinate",
+    # horizontal curves
+    "pi_station",
+    "pi_northing",
+    "pi_easting",
+    "delta",
+    "tangent",
+    "tangent_out",
+    "chord",
+    "external",
+    "degree_of_curve",
+    "turn",
+    "pc_station",
+    "pt_station",
+    "sc_station",
+    "cs_station",
+    "spiral_in",
+    "spiral_out",
+    "spiral_type",
+    # labels
     "pvi_label",
     "bvc_label",
     "evc_label",
+    "pi_label",
+    "pc_label",
+    "pt_label",
 )
 
 Row = dict[str, Any]
 
 
-def _merge_keys(
-    keys: Sequence[vertical.KeyPoint], equations: Sequence[float]
-) -> list[vertical.KeyPoint]:
-    """Key points plus station-equation points tagged ``EQUATION``."""
-    out = list(keys)
-    for s in equations:
-        near = [i for i, k in enumerate(out) if abs(k.station - s) <= vertical.JOIN_TOLERANCE]
-        if near:
-            k = out[near[0]]
-            out[near[0]] = vertical.KeyPoint(k.station, k.tags + ("EQUATION",))
+def key_points(ctx: AlignmentContext) -> list[KeyPoint]:
+    """Every key point of the alignment in station order, tags merged.
+
+    Vertical: START, BVC, PVI, HIGH/LOW, EVC, END. Horizontal: POB, PC, PT, TS,
+    SC, CS, ST, POE. Stationing: EQUATION where a station equation sits.
+    """
+    found: list[tuple[float, str]] = []
+    if ctx.geometry is not None:
+        for k in vertical.key_points(ctx.geometry):
+            found += [(k.station, tag) for tag in k.tags]
+    if ctx.horizontal is not None:
+        found += horizontal.key_points(ctx.horizontal)
+    lo, hi = ctx.start, ctx.end
+    found += [(e.internal, "EQUATION") for e in ctx.stationing.equations if lo <= e.internal <= hi]
+    found = [(s, t) for s, t in found if lo - JOIN_TOLERANCE <= s <= hi + JOIN_TOLERANCE]
+    found.sort(key=lambda p: p[0])
+    merged: list[KeyPoint] = []
+    for station, tag in found:
+        if merged and abs(station - merged[-1].station) <= JOIN_TOLERANCE:
+            if tag not in merged[-1].tags:
+                merged[-1] = KeyPoint(merged[-1].station, merged[-1].tags + (tag,))
         else:
-            out.append(vertical.KeyPoint(s, ("EQUATION",)))
-    return sorted(out, key=lambda k: k.station)
+            merged.append(KeyPoint(station, (tag,)))
+    return merged
 
 
 def table_stations(
-    geom: VerticalGeometry,
-    stationing: Stationing,
+    ctx: AlignmentContext,
     interval: float | None = None,
     at: ArrayLike | None = None,
 ) -> tuple[NDArray[np.float64], list[str]]:
-    """Stations of a station/elevation table and the key-point tag of each.
+    """Stations of a station table and the key-point tags of each.
 
     With ``interval`` the rows are every labelled multiple of it plus every key
-    point (START, BVC, PVI, HIGH/LOW, EVC, END, and EQUATION where a station
-    equation sits); with ``at`` they are exactly
-    the given internal stations, tagged where they hit a key point.
+    point; with ``at`` they are exactly the given internal stations, tagged
+    where they hit a key point.
     """
-    keys = _merge_keys(
-        vertical.key_points(geom),
-        [e.internal for e in stationing.equations if geom.start <= e.internal <= geom.end],
-    )
+    keys = key_points(ctx)
     key_st = np.array([k.station for k in keys])
     if at is not None:
         stations = np.asarray(at, dtype=np.float64).reshape(-1)
     else:
         assert interval is not None
-        regular = stationing.round_stations(interval, geom.start, geom.end)
+        regular = ctx.stationing.round_stations(interval, ctx.start, ctx.end)
+        # a regular station within rounding of a key point gives way to it
+        if len(key_st):
+            j = np.clip(np.searchsorted(key_st, regular), 1, len(key_st)) - 1
+            near = np.minimum(
+                np.abs(key_st[j] - regular),
+                np.abs(key_st[np.minimum(j + 1, len(key_st) - 1)] - regular),
+            )
+            regular = regular[near > JOIN_TOLERANCE]
         stations = np.union1d(regular, key_st)
-        # drop regular stations that sit on a key point within rounding
-        keep = np.ones(len(stations), dtype=bool)
-        j = np.searchsorted(key_st, stations)
-        for side in (j - 1, j):
-            ok = (side >= 0) & (side < len(key_st))
-            near = np.zeros(len(stations), dtype=bool)
-            near[ok] = np.abs(key_st[side[ok]] - stations[ok]) <= vertical.JOIN_TOLERANCE
-            is_key = np.isin(stations, key_st)
-            keep &= ~(near & ~is_key)
-        stations = stations[keep]
     tags = []
     for s in stations:
-        i = int(np.argmin(np.abs(key_st - s)))
-        tags.append(keys[i].text if abs(key_st[i] - s) <= vertical.JOIN_TOLERANCE else "")
+        if len(key_st):
+            i = int(np.argmin(np.abs(key_st - s)))
+            tags.append(keys[i].text if abs(key_st[i] - s) <= JOIN_TOLERANCE else "")
+        else:
+            tags.append("")
     return stations, tags
 
 
 def station_rows(
-    geom: VerticalGeometry,
-    stationing: Stationing,
+    ctx: AlignmentContext,
     stations: ArrayLike,
     tags: Sequence[str] | None = None,
 ) -> list[Row]:
     """One row per station with the columns of :data:`STATION_COLUMNS`."""
     s = np.asarray(stations, dtype=np.float64).reshape(-1)
-    z, g = vertical.evaluate(geom, s)
-    tz = vertical.tangent_elevation(geom, s)
-    labels = stationing.labels(s)
+    nan = np.full(len(s), np.nan)
+    if ctx.geometry is not None:
+        z, g = vertical.evaluate(ctx.geometry, s)
+        tz = vertical.tangent_elevation(ctx.geometry, s)
+    else:
+        z, g, tz = nan, nan, nan
+    if ctx.horizontal is not None:
+        n, e, h = horizontal.evaluate(ctx.horizontal, s)
+        d = horizontal.direction_value(
+            h, ctx.horizontal.convention, ctx.document.units.direction
+        )
+    else:
+        n, e, d = nan, nan, nan
+    labels = ctx.stationing.labels(s)
     rows = []
     for i in range(len(s)):
         rows.append(
@@ -143,43 +186,91 @@ def station_rows(
                 "grade": 100.0 * float(g[i]),
                 "tangent_elevation": float(tz[i]),
                 "offset": float(z[i] - tz[i]),
-                "northing": None,
-                "easting": None,
-                "direction": None,
+                "northing": float(n[i]),
+                "easting": float(e[i]),
+                "direction": float(d[i]),
                 "point": tags[i] if tags is not None else "",
             }
         )
     return rows
 
 
-def curve_rows(geom: VerticalGeometry, stationing: Stationing) -> list[Row]:
-    """One row per vertical curve with the columns of :data:`CURVE_COLUMNS`."""
+def vertical_curve_rows(ctx: AlignmentContext) -> list[Row]:
+    """One row per vertical curve."""
     rows = []
-    for c in geom.curves:
-        rows.append(
-            {
-                "kind": "vertical",
-                "pvi_station": c.pvi_station,
-                "pvi_elevation": c.pvi_elevation,
-                "grade_in": 100.0 * c.grade_in,
-                "grade_out": 100.0 * c.grade_out,
-                "A": c.a_pct,
-                "length": c.length,
-                "K": c.k,
-                "type": c.curve_type,
-                "bvc_station": c.bvc_station,
-                "bvc_elevation": c.bvc_elevation,
-                "evc_station": c.evc_station,
-                "evc_elevation": c.evc_elevation,
-                "turning_station": c.turning_station,
-                "turning_elevation": c.turning_elevation,
-                "length_in": c.length_in,
-                "length_out": c.length_out,
-                "radius": c.radius,
-                "middle_ordinate": c.pvi_offset,
-                "pvi_label": stationing.label(c.pvi_station),
-                "bvc_label": stationing.label(c.bvc_station),
-                "evc_label": stationing.label(c.evc_station),
-            }
+    if ctx.geometry is None:
+        return rows
+    label = ctx.stationing.label
+    for c in ctx.geometry.curves:
+        row: Row = dict.fromkeys(CURVE_COLUMNS)
+        row.update(
+            kind="vertical",
+            pvi_station=c.pvi_station,
+            pvi_elevation=c.pvi_elevation,
+            grade_in=100.0 * c.grade_in,
+            grade_out=100.0 * c.grade_out,
+            A=c.a_pct,
+            length=c.length,
+            K=c.k,
+            type=c.curve_type,
+            bvc_station=c.bvc_station,
+            bvc_elevation=c.bvc_elevation,
+            evc_station=c.evc_station,
+            evc_elevation=c.evc_elevation,
+            turning_station=c.turning_station,
+            turning_elevation=c.turning_elevation,
+            length_in=c.length_in,
+            length_out=c.length_out,
+            radius=c.radius,
+            middle_ordinate=c.pvi_offset,
+            pvi_label=label(c.pvi_station),
+            bvc_label=label(c.bvc_station),
+            evc_label=label(c.evc_station),
         )
+        rows.append(row)
     return rows
+
+
+def horizontal_curve_rows(ctx: AlignmentContext) -> list[Row]:
+    """One row per horizontal curve (a Curve with its spirals)."""
+    rows: list[Row] = []
+    if ctx.horizontal is None:
+        return rows
+    units = ctx.document.units
+    label = ctx.stationing.label
+    for c in horizontal.curve_data(ctx.horizontal):
+        row: Row = dict.fromkeys(CURVE_COLUMNS)
+        row.update(
+            kind="horizontal",
+            radius=c.radius,
+            delta=angle_to_unit(abs(c.delta), units.angular),
+            length=c.arc_length,
+            tangent=c.tangent_in,
+            tangent_out=c.tangent_out,
+            chord=c.chord,
+            external=c.external,
+            middle_ordinate=c.middle_ordinate,
+            # arc definition, per 100 ft (US customary only): D = 100 * 180 / (pi R)
+            degree_of_curve=None if units.metric else 18000.0 / (math.pi * c.radius),
+            turn=c.direction,
+            pi_station=c.pi_station,
+            pi_northing=c.pi_northing,
+            pi_easting=c.pi_easting,
+            pc_station=c.start_station,
+            pt_station=c.end_station,
+            sc_station=c.sc_station,
+            cs_station=c.cs_station,
+            spiral_in=c.spiral_in,
+            spiral_out=c.spiral_out,
+            spiral_type=c.spiral_type,
+            pi_label=label(c.pi_station),
+            pc_label=label(c.start_station),
+            pt_label=label(c.end_station),
+        )
+        rows.append(row)
+    return rows
+
+
+def curve_rows(ctx: AlignmentContext) -> list[Row]:
+    """Horizontal curve rows, then vertical curve rows, all with :data:`CURVE_COLUMNS`."""
+    return horizontal_curve_rows(ctx) + vertical_curve_rows(ctx)

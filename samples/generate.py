@@ -34,6 +34,109 @@ def pvi_line(pvis):
     return f
 
 
+class PlanBuilder:
+    """Walk an alignment forward and write its CoordGeom (an invented design).
+
+    x = easting, y = northing, heading counter-clockwise from east. Directions
+    are written counter-clockwise from north in decimal degrees. Clothoid
+    coordinates come from composite Simpson integration with 4000 steps.
+    """
+
+    def __init__(self, north, east, azimuth_deg, nd):
+        self.x, self.y = east, north
+        self.h = math.radians(90.0 - azimuth_deg)  # azimuth (cw from north) -> math angle
+        self.nd = nd
+        self.station = 0.0
+        self.out = []
+
+    def p(self, x, y):
+        return f"{y:.{self.nd}f} {x:.{self.nd}f}"
+
+    def d(self, h):
+        return f"{math.degrees(h - math.pi / 2) % 360.0:.8f}"
+
+    def line(self, length):
+        x1 = self.x + length * math.cos(self.h)
+        y1 = self.y + length * math.sin(self.h)
+        nd = self.nd
+        self.out.append(
+            f'        <Line staStart="{self.station:.{nd}f}" length="{length:.{nd}f}" '
+            f'dir="{self.d(self.h)}"><Start>{self.p(self.x, self.y)}</Start>'
+            f"<End>{self.p(x1, y1)}</End></Line>"
+        )
+        self.x, self.y, self.station = x1, y1, self.station + length
+
+    def arc(self, radius, delta_deg, turn):
+        sign = 1.0 if turn == "left" else -1.0
+        delta = math.radians(delta_deg)
+        cx = self.x - sign * radius * math.sin(self.h)
+        cy = self.y + sign * radius * math.cos(self.h)
+        h1 = self.h + sign * delta
+        x1 = cx + sign * radius * math.sin(h1)
+        y1 = cy - sign * radius * math.cos(h1)
+        t = radius * math.tan(delta / 2)
+        pix, piy = self.x + t * math.cos(self.h), self.y + t * math.sin(self.h)
+        length = radius * delta
+        chord = 2 * radius * math.sin(delta / 2)
+        nd = self.nd
+        self.out.append(
+            f'        <Curve rot="{"ccw" if sign > 0 else "cw"}" crvType="arc" '
+            f'staStart="{self.station:.{nd}f}" length="{length:.{nd}f}" '
+            f'radius="{radius:.{nd}f}" chord="{chord:.{nd}f}" delta="{delta_deg:.8f}" '
+            f'dirStart="{self.d(self.h)}" dirEnd="{self.d(h1)}">'
+            f"<Start>{self.p(self.x, self.y)}</Start><Center>{self.p(cx, cy)}</Center>"
+            f"<End>{self.p(x1, y1)}</End><PI>{self.p(pix, piy)}</PI></Curve>"
+        )
+        self.x, self.y, self.h, self.station = x1, y1, h1, self.station + length
+
+    def spiral(self, length, radius, turn, entering):
+        """Clothoid between a tangent and radius (entering) or back (leaving)."""
+        sign = 1.0 if turn == "left" else -1.0
+        k0, k1 = (0.0, sign / radius) if entering else (sign / radius, 0.0)
+        n = 4000
+        hs = lambda s: self.h + k0 * s + (k1 - k0) * s * s / (2 * length)  # noqa: E731
+        step = length / n
+        sx = sy = 0.0
+        for i in range(n + 1):
+            w = 1 if i in (0, n) else (4 if i % 2 else 2)
+            sx += w * math.cos(hs(i * step))
+            sy += w * math.sin(hs(i * step))
+        dx, dy = sx * step / 3, sy * step / 3
+        h1 = hs(length)
+        theta = length / (2 * radius)
+        # local tangent-frame values (tangent end as origin)
+        frame_h = self.h if entering else h1
+        ux, uy = math.cos(frame_h), math.sin(frame_h)
+        total_x = abs(dx * ux + dy * uy)
+        total_y = abs(-dx * uy + dy * ux)
+        tan_long = total_x - total_y / math.tan(theta)
+        tan_short = total_y / math.sin(theta)
+        if entering:
+            pix, piy = self.x + tan_long * ux, self.y + tan_long * uy
+        else:
+            pix = self.x + dx - tan_long * ux
+            piy = self.y + dy - tan_long * uy
+        nd = self.nd
+        r0 = "INF" if entering else f"{radius:.{nd}f}"
+        r1 = f"{radius:.{nd}f}" if entering else "INF"
+        self.out.append(
+            f'        <Spiral rot="{"ccw" if sign > 0 else "cw"}" spiType="clothoid" '
+            f'staStart="{self.station:.{nd}f}" length="{length:.{nd}f}" radiusStart="{r0}" '
+            f'radiusEnd="{r1}" theta="{math.degrees(theta):.8f}" totalX="{total_x:.{nd}f}" '
+            f'totalY="{total_y:.{nd}f}" tanLong="{tan_long:.{nd}f}" '
+            f'tanShort="{tan_short:.{nd}f}" dirStart="{self.d(self.h)}" dirEnd="{self.d(h1)}">'
+            f"<Start>{self.p(self.x, self.y)}</Start><PI>{self.p(pix, piy)}</PI>"
+            f"<End>{self.p(self.x + dx, self.y + dy)}</End></Spiral>"
+        )
+        self.x, self.y, self.h = self.x + dx, self.y + dy, h1
+        self.station += length
+
+    def xml(self, sta_start):
+        body = "\n".join(self.out)
+        self.out = []
+        return f'      <CoordGeom>\n{body}\n      </CoordGeom>\n', self.station
+
+
 def fmt_pairs(pairs, nd):
     return " ".join(f"{s:.{nd}f} {z:.{nd}f}" for s, z in pairs)
 
@@ -59,6 +162,17 @@ def us_file():
         ("PVI", 1150.0, 518.30, {}),
     ]
     return "Orrin Vale Bypass", bypass, "Kettle Lane", lane
+
+
+def offset_stations(coord_xml, sta_start, nd):
+    """Shift the staStart attributes written from 0 to the alignment's staStart."""
+    import re
+
+    return re.sub(
+        r'staStart="([0-9.]+)"',
+        lambda m: f'staStart="{float(m.group(1)) + sta_start:.{nd}f}"',
+        coord_xml,
+    )
 
 
 def alignment_xml(name, desc, sta_start, length, pvis, nd, ground_pts, extra=""):
@@ -103,9 +217,25 @@ def write_us():
         ' temperatureUnit="fahrenheit" pressureUnit="inHG" angularUnit="decimal degrees"'
         ' directionUnit="decimal degrees"/>'
     )
+    plan = PlanBuilder(10250.0, 20400.0, 68.0, 6)
+    plan.line(900.0)
+    plan.spiral(250.0, 1200.0, "right", True)
+    plan.arc(1200.0, 28.0 - math.degrees(250.0 / 1200.0), "right")
+    plan.spiral(250.0, 1200.0, "right", False)
+    plan.line(950.0)
+    plan.arc(1500.0, 35.0, "left")
+    plan.line(5200.0 - plan.station)
+    coord, total = plan.xml(1000.0)
+    coord = offset_stations(coord, 1000.0, 6)
+    lane_plan = PlanBuilder(10610.0, 21210.0, 158.0, 6)
+    lane_plan.line(380.0)
+    lane_plan.arc(600.0, 42.0, "left")
+    lane_plan.line(1150.0 - lane_plan.station)
+    lane_coord, lane_total = lane_plan.xml(0.0)
     text = header("Marrow County Route 9 realignment (invented)", units)
-    text += alignment_xml(name, "Mainline, design speed 50 mph", 1000.0, 5200.0, pvis, 2, gpts)
-    text += alignment_xml(lane_name, "Side road", 0.0, 1150.0, lane, 2, lpts)
+    text += alignment_xml(name, "Mainline, design speed 50 mph", 1000.0, total, pvis, 2, gpts,
+                          coord)
+    text += alignment_xml(lane_name, "Side road", 0.0, lane_total, lane, 2, lpts, lane_coord)
     text += "  </Alignments>\n</LandXML>\n"
     (HERE / "orrin-vale-bypass.xml").write_text(text, encoding="utf-8")
 
@@ -138,9 +268,19 @@ def write_metric():
         ' directionUnit="decimal degrees"/>'
     )
     eq = '      <StaEquation staBack="1200.000" staAhead="1250.000" staInternal="1200.000" desc="Chainage adjusted at the Tarn bridge"/>\n'
+    plan = PlanBuilder(6712400.0, 387150.0, 112.0, 6)
+    plan.line(320.0)
+    plan.spiral(80.0, 450.0, "left", True)
+    plan.arc(450.0, 40.0 - math.degrees(80.0 / 450.0), "left")
+    plan.spiral(80.0, 450.0, "left", False)
+    plan.line(560.0)
+    plan.arc(900.0, 22.0, "right")
+    plan.line(2400.0 - plan.station)
+    coord, total = plan.xml(0.0)
     text = header("Tarnholm Link Road (invented)", units)
     text += alignment_xml(
-        "Tarnholm Link Road", "Link road, design speed 80 km/h", 0.0, 2400.0, pvis, 3, gpts, eq
+        "Tarnholm Link Road", "Link road, design speed 80 km/h", 0.0, total, pvis, 3, gpts,
+        coord + eq
     )
     text += "  </Alignments>\n</LandXML>\n"
     (HERE / "tarnholm-link.xml").write_text(text, encoding="utf-8")

@@ -189,3 +189,42 @@ def test_outputs_are_deterministic_across_processes(tmp_path):
                         "-o", str(dest)], check=True, env=env, timeout=60)
         outs.append(dest.read_bytes())
     assert outs[0] == outs[1]
+
+
+def test_table_has_horizontal_columns_and_key_points(capsys):
+    code, out, err = run(capsys, "table", US_SAMPLE, *BYPASS, "--interval", "100")
+    assert code == 0 and err == ""
+    rows = list(csv.DictReader(io.StringIO(out)))
+    tags = ";".join(r["point"] for r in rows)
+    for tag in ("POB", "TS", "SC", "CS", "ST", "PC", "PT", "POE"):
+        assert tag in tags
+    first = rows[0]
+    # POB of the sample: northing 10250, easting 20400, azimuth 68 deg, written
+    # counter-clockwise from north: 360 - 68 = 292 (samples/generate.py)
+    assert float(first["northing"]) == pytest.approx(10250.0)
+    assert float(first["easting"]) == pytest.approx(20400.0)
+    assert float(first["direction"]) == pytest.approx(292.0)
+
+
+def test_curves_has_horizontal_rows(capsys):
+    code, out, _ = run(capsys, "curves", METRIC_SAMPLE, "--format", "json")
+    rows = json.loads(out)["rows"]
+    kinds = [r["kind"] for r in rows]
+    assert kinds == ["horizontal", "horizontal", "vertical", "vertical", "vertical"]
+    scs = rows[0]
+    assert scs["spiral_in"] == 80.0 and scs["spiral_type"] == "clothoid"
+    assert scs["delta"] == pytest.approx(40.0, abs=1e-4)  # design deflection of the sample
+    assert scs["degree_of_curve"] is None  # metric: no degree of curve
+
+
+def test_gap_is_a_warning_not_an_error(tmp_path, capsys):
+    data = (b'<LandXML><Units><Metric linearUnit="meter"/></Units><Alignments>\n'
+            b'<Alignment name="a"><CoordGeom>\n<Line><Start>0 0</Start><End>0 100</End></Line>\n'
+            b"<Line><Start>0 100.5</Start><End>0 200</End></Line>\n</CoordGeom></Alignment>"
+            b"</Alignments></LandXML>")
+    path = tmp_path / "gap.xml"
+    path.write_bytes(data)
+    code, out, err = run(capsys, "table", path, "--interval", "50")
+    assert code == 0
+    assert f"gradeline: warning: {path}:4: Line: gap of 0.5000 between the end of element 1" in err
+    assert out.count("\n") >= 4

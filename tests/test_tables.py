@@ -6,18 +6,21 @@ import numpy as np
 import pytest
 
 from converter import tables
-from converter.selection import select
-from converter.stations import Stationing
+from converter.model import Alignment, Document
+from converter.selection import select, solve_alignment
 from converter.units import Units
-from converter.vertical import solve
 from tests.conftest import CASES, METRIC_SAMPLE, US_SAMPLE
 
-FT = Stationing(Units("foot"))
+
+def context(profile, units=Units("foot")):
+    al = Alignment("test", profiles=(profile,))
+    return solve_alignment(Document("t.xml", units, (al,)), al, profile)
 
 
 def test_interval_rows_include_every_key_point():
-    geom = solve(CASES["crest"])
-    stations, tags = tables.table_stations(geom, FT, interval=100.0)
+    ctx = context(CASES["crest"])
+    geom = ctx.geometry
+    stations, tags = tables.table_stations(ctx, interval=100.0)
     c = geom.curves[0]
     for s in (0.0, c.bvc_station, c.pvi_station, c.turning_station, c.evc_station, 1000.0):
         assert np.min(np.abs(stations - s)) < 1e-9
@@ -27,8 +30,9 @@ def test_interval_rows_include_every_key_point():
 
 
 def test_offset_is_grade_minus_tangent():
-    geom = solve(CASES["sag"])
-    rows = tables.station_rows(geom, FT, [350.0, 500.0, 650.0])
+    ctx = context(CASES["sag"])
+    geom = ctx.geometry
+    rows = tables.station_rows(ctx, [350.0, 500.0, 650.0])
     # middle ordinate at the PVI: A L / 800 (common practice)
     c = geom.curves[0]
     assert rows[1]["offset"] == pytest.approx(c.a_pct * c.length / 800)
@@ -38,16 +42,16 @@ def test_offset_is_grade_minus_tangent():
 
 
 def test_rows_have_exact_columns():
-    geom = solve(CASES["crest"])
-    rows = tables.station_rows(geom, FT, [100.0])
+    ctx = context(CASES["crest"])
+    rows = tables.station_rows(ctx, [100.0])
     assert tuple(rows[0]) == tables.STATION_COLUMNS
-    crow = tables.curve_rows(geom, FT)[0]
+    crow = tables.curve_rows(ctx)[0]
     assert tuple(crow) == tables.CURVE_COLUMNS
 
 
 def test_curve_rows_us_sample():
     ctx = select(US_SAMPLE, "Orrin Vale Bypass")
-    rows = tables.curve_rows(ctx.geometry, ctx.stationing)
+    rows = tables.vertical_curve_rows(ctx)
     assert [r["type"] for r in rows] == ["crest", "sag", "crest", "sag", "crest"]
     unsym = rows[2]
     assert unsym["length_in"] == 300.0 and unsym["length_out"] == 500.0
@@ -57,7 +61,7 @@ def test_curve_rows_us_sample():
 
 def test_metric_table_tags_the_equation():
     ctx = select(METRIC_SAMPLE)
-    stations, tags = tables.table_stations(ctx.geometry, ctx.stationing, interval=100.0)
+    stations, tags = tables.table_stations(ctx, interval=100.0)
     i = tags.index("EQUATION")
     assert stations[i] == 1200.0
     labels = ctx.stationing.labels(stations)
