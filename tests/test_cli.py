@@ -50,7 +50,7 @@ def test_curves_to_file(tmp_path, capsys):
     dest = tmp_path / "curves.csv"
     code, out, _ = run(capsys, "curves", METRIC_SAMPLE, "-o", dest)
     assert code == 0 and out == ""
-    rows = list(csv.DictReader(dest.open()))
+    rows = [r for r in csv.DictReader(dest.open()) if r["kind"] == "vertical"]
     assert [r["type"] for r in rows] == ["crest", "sag", "crest"]
     assert rows[0]["radius"] == "6000.0"
     assert not list(tmp_path.glob(".gradeline-*"))
@@ -174,7 +174,7 @@ def test_installed_command(launcher):
     done = subprocess.run([*launcher, "curves", str(METRIC_SAMPLE), "--format", "json"],
                           capture_output=True, text=True, cwd=ROOT, env=env, timeout=60)
     assert done.returncode == 0, done.stderr
-    assert len(json.loads(done.stdout)["rows"]) == 3
+    assert len(json.loads(done.stdout)["rows"]) == 5  # 2 horizontal + 3 vertical curves
     version = subprocess.run([*launcher, "--version"], capture_output=True, text=True, timeout=60)
     assert version.stdout.startswith("gradeline ")
 
