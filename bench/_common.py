@@ -44,3 +44,43 @@ def synthetic_profile(n_pvi: int, spacing: float = 660.0, seed: int = 1) -> Prof
             specs.append(PVISpec(s, z))
     specs.append(PVISpec(float(stations[-1]), float(elevs[-1])))
     return Profile("bench", tuple(specs))
+
+
+def synthetic_plan(n_groups: int, seed: int = 3):
+    """A plan of ``n_groups`` x (line, spiral, arc, spiral) elements, chained exactly."""
+    from converter import horizontal
+    from converter.model import HCurve, HLine, HorizontalAlignment, HSpiral
+
+    rng = np.random.default_rng(seed)
+    x, y, h = 500000.0, 4000000.0, 0.3
+    els = []
+
+    def end_of(el, h0):
+        g = horizontal.solve(HorizontalAlignment((el,))).elements[-1]
+        return g.x1, g.y1, g.heading1
+
+    for i in range(n_groups):
+        length = float(rng.uniform(200, 800))
+        x1, y1 = x + length * math.cos(h), y + length * math.sin(h)
+        els.append(HLine((y, x), (y1, x1)))
+        x, y = x1, y1
+        radius = float(rng.uniform(300, 3000))
+        turn = 1.0 if i % 2 == 0 else -1.0  # alternate, so the plan never crosses itself
+        rot = "ccw" if turn > 0 else "cw"
+        ls = float(rng.uniform(60, 200))
+        pi = (y + math.sin(h), x + math.cos(h))
+        sp = HSpiral((y, x), (y, x), ls, math.inf, radius, rot, pi=pi)
+        x, y, h = end_of(sp, h)
+        els.append(HSpiral(sp.start, (y, x), ls, math.inf, radius, rot, pi=pi))
+        sweep = float(rng.uniform(0.1, 0.6))
+        cx, cy = x - turn * radius * math.sin(h), y + turn * radius * math.cos(h)
+        a1 = math.atan2(y - cy, x - cx) + turn * sweep
+        ex, ey = cx + radius * math.cos(a1), cy + radius * math.sin(a1)
+        els.append(HCurve((y, x), (cy, cx), (ey, ex), rot))
+        x, y, h = ex, ey, h + turn * sweep
+        pi = (y + math.sin(h), x + math.cos(h))
+        sp = HSpiral((y, x), (y, x), ls, radius, math.inf, rot, pi=pi)
+        x2, y2, h2 = end_of(sp, h)
+        els.append(HSpiral(sp.start, (y2, x2), ls, radius, math.inf, rot, pi=pi))
+        x, y, h = x2, y2, h2
+    return HorizontalAlignment(tuple(els))
