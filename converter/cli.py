@@ -15,6 +15,8 @@ from typing import Any
 from converter import __version__, horizontal, landxml, tables
 from converter.errors import GradelineError, UsageError
 from converter.outputs import csv_text, json_text, refuse_overwrite, write_atomic
+from converter.config import read_config
+from converter.layout import LAYER_ROLES
 from converter.selection import AlignmentContext, select, solve_alignment
 
 __all__ = ["main"]
@@ -103,6 +105,53 @@ def cmd_curves(args: argparse.Namespace) -> int:
     _warn(ctx)
     _emit(_render(ctx, args.format, tables.CURVE_COLUMNS, rows), args.output, [args.file])
     return 0
+
+
+def _layer_names(args: argparse.Namespace) -> dict[str, str]:
+    names: dict[str, str] = {}
+    if getattr(args, "config", None):
+        cfg = read_config(args.config)
+        names.update(cfg.get("layers", {}))
+    for item in getattr(args, "layer", None) or []:
+        role, sep, name = item.partition("=")
+        if not sep or not name.strip():
+            raise UsageError(f"--layer {item!r}: write ROLE=NAME, e.g. grade=MY-GRADE")
+        names[role.strip()] = name.strip()
+    return names
+
+
+def cmd_dxf(args: argparse.Namespace) -> int:
+    from converter import drafting
+    from converter.dxf import write_dxf
+    from converter.layout import default_layout
+
+    ctx = select(args.file, args.alignment, args.profile, need_profile=True)
+    units = ctx.document.units
+    layout = default_layout(units, args.scale, args.exaggeration).with_layers(_layer_names(args))
+    drawing = drafting.profile_drawing(ctx, layout, args.curves)
+    data = write_dxf(drawing, layout, version=args.dxf_version, curves=args.curves,
+                     linear_unit=units.linear)
+    outputs = [(args.output, data)]
+    if args.plan:
+        if ctx.horizontal is None:
+            raise UsageError(f"alignment {ctx.alignment.name!r} has no CoordGeom; no plan to draw")
+        plan = drafting.plan_drawing(ctx, layout)
+        outputs.append((args.plan, write_dxf(plan, layout, version=args.dxf_version,
+                                             curves=args.curves, linear_unit=units.linear)))
+    if args.plan and args.plan == args.output:
+        raise UsageError("--plan and -o name the same file")
+    _warn(ctx)
+    for path, blob in outputs:
+        _write_file(path, blob, [args.file])
+    return 0
+
+
+def _write_file(path: str, data: bytes, inputs: Sequence[str]) -> None:
+    refuse_overwrite(path, inputs)
+    try:
+        write_atomic(path, data)
+    except OSError as err:
+        raise UsageError(f"cannot write {path!r} ({err.strerror})") from None
 
 
 def _info(path: str) -> dict[str, Any]:
@@ -275,6 +324,33 @@ def build_parser() -> argparse.ArgumentParser:
     )
     _add_output(p)
     p.set_defaults(func=cmd_table)
+
+    p = sub.add_parser(
+        "dxf",
+        help="drafted profile (and plan) linework as DXF",
+        description=(
+            "Profile in model space at x = station, y = (elevation - datum) x exaggeration "
+            "(datum and exaggeration are written into the drawing). Parabolic curves are "
+            "exact degree-2 SPLINEs, or polylines within 0.005 ft / 0.002 m of the curve "
+            "with --curves polyline (always in R12). Layer roles: "
+            + ", ".join(LAYER_ROLES)
+        ),
+    )
+    _add_common(p)
+    p.add_argument("-o", "--output", metavar="PATH", required=True, help="profile DXF to write")
+    p.add_argument("--plan", metavar="PATH", help="also write the plan linework to this DXF")
+    p.add_argument("--exaggeration", type=float, default=10.0, metavar="E",
+                   help="vertical exaggeration (default 10)")
+    p.add_argument("--scale", type=float, metavar="S",
+                   help="plot scale for text heights: 1\" = S ft (default 50) or 1:S (default 500)")
+    p.add_argument("--curves", choices=("spline", "polyline"), default="spline",
+                   help="parabolic curves as exact SPLINEs (default) or polylines")
+    p.add_argument("--dxf-version", choices=("R2010", "R2000", "R12"), default="R2010",
+                   help="DXF version (default R2010)")
+    p.add_argument("--layer", action="append", metavar="ROLE=NAME",
+                   help="rename a layer, e.g. --layer grade=C-ROAD-PROF (repeatable)")
+    p.add_argument("--config", metavar="FILE", help="TOML file; its [layers] table renames layers")
+    p.set_defaults(func=cmd_dxf)
 
     p = sub.add_parser("curves", help="one row per vertical curve: PVI, grades, A, L, K, BVC/EVC, high/low point")
     _add_common(p)

@@ -77,3 +77,90 @@ def k_text(k: float | None) -> str:
     ('581.8', '-')
     """
     return "-" if k is None else f"{k:.1f}"
+
+
+def dms_text(angle_rad: float) -> str:
+    """An angle as degrees, minutes and seconds, e.g. ``28°00'00.0"``.
+
+    Examples
+    --------
+    >>> import math
+    >>> dms_text(math.radians(28.0)), dms_text(math.radians(12.5125))
+    ('28°00\\'00.0"', '12°30\\'45.0"')
+    """
+    total = round(abs(math.degrees(angle_rad)) * 36000.0)  # tenths of a second
+    deg, rest = divmod(total, 36000)
+    minutes, tenths = divmod(rest, 600)
+    return f"{deg}°{minutes:02d}'{tenths / 10:04.1f}\""
+
+
+# -- drawing label text: one place for DXF and PDF --------------------------
+def point_label(tag: str, station_label: str, elevation: float, units: Units) -> str:
+    """Vertical key-point label, e.g. ``PVI 17+50.00  EL 530.15``."""
+    return f"{tag} {station_label}  EL {length_text(elevation, units)}"
+
+
+def curve_label(length: float, k: float | None, units: Units) -> str:
+    """Vertical-curve data label, e.g. ``L = 600.00  K = 136.5``."""
+    return f"L = {length_text(length, units)}  K = {k_text(k)}"
+
+
+def plan_point_label(tag: str, station_label: str) -> str:
+    """Plan key-point label, e.g. ``PC 36+86.43``."""
+    return f"{tag} {station_label}"
+
+
+def plan_curve_note(
+    number: int,
+    delta_rad: float,
+    radius: float,
+    tangent: float,
+    length: float,
+    external: float,
+    spiral_in: float,
+    spiral_out: float,
+    units: Units,
+) -> list[str]:
+    """Lines of a horizontal curve-data note."""
+    side = "LT" if delta_rad > 0 else "RT"
+    u = units.symbol
+    lines = [
+        f"CURVE {number}",
+        f"DELTA = {dms_text(delta_rad)} {side}",
+        f"R = {length_text(radius, units)} {u}",
+        f"T = {length_text(tangent, units)} {u}",
+        f"L = {length_text(length, units)} {u}",
+        f"E = {length_text(external, units)} {u}",
+    ]
+    if spiral_in or spiral_out:
+        lines.insert(3, f"LS = {length_text(spiral_in, units)} / {length_text(spiral_out, units)} {u}")
+    return lines
+
+
+def grid_station_text(station_label_value: float, units: Units) -> str:
+    """Station label under a grid line, without decimals: ``12+00`` / ``1+240``."""
+    from converter.stations import format_station
+
+    return format_station(station_label_value, units.station_length, 0)
+
+
+def grid_elevation_text(elevation: float, step: float) -> str:
+    """Elevation label at a grid line, with decimals only when the step needs them.
+
+    Examples
+    --------
+    >>> grid_elevation_text(520.0, 5.0), grid_elevation_text(86.5, 0.5)
+    ('520', '86.5')
+    """
+    decimals = 0 if step >= 1 else (1 if step >= 0.1 else 2)
+    return f"{elevation:.{decimals}f}"
+
+
+#: Width of a character as a fraction of the text height, for laying out labels
+#: in the sans-serif fonts gradeline uses (a little wider than their average).
+CHAR_WIDTH = 0.62
+
+
+def text_width(text: str, height: float) -> float:
+    """Estimated width of a one-line label."""
+    return len(text) * CHAR_WIDTH * height

@@ -76,6 +76,9 @@ def write_atomic(path: str | os.PathLike[str], data: str | bytes) -> None:
     raw = data.encode("utf-8") if isinstance(data, str) else data
     fd, tmp = tempfile.mkstemp(prefix=".gradeline-", suffix=".part", dir=folder)
     try:
+        umask = os.umask(0)
+        os.umask(umask)
+        os.chmod(tmp, 0o666 & ~umask)  # as an ordinary new file, not mkstemp's 0600
         with os.fdopen(fd, "wb") as fh:
             fh.write(raw)
             fh.flush()

@@ -1,0 +1,173 @@
+"""Drafting layout numbers: scales, text heights, grid steps, layer names.
+
+One place for every number that decides how a drawing looks, used by the DXF
+writer and the PDF sheets alike. Model-space lengths are in file units; a
+profile's y is ``(elevation - datum) * exaggeration``.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field, replace
+
+from converter.errors import UsageError
+from converter.units import Units
+
+__all__ = ["LAYER_ROLES", "DraftingLayout", "default_layout", "nice_step"]
+
+#: Drawing roles and the default layer name of each (our own names).
+LAYER_ROLES: dict[str, str] = {
+    "grade": "PROFILE-GRADE",
+    "ground": "PROFILE-GROUND",
+    "grid": "PROFILE-GRID",
+    "grid_major": "PROFILE-GRID-MAJOR",
+    "labels": "PROFILE-LABELS",
+    "pvi": "PROFILE-PVI",
+    "tangents": "PROFILE-TANGENTS",
+    "info": "PROFILE-INFO",
+    "plan": "PLAN-ALIGNMENT",
+    "plan_ticks": "PLAN-TICKS",
+    "plan_labels": "PLAN-LABELS",
+    "plan_points": "PLAN-POINTS",
+    "plan_notes": "PLAN-CURVE-DATA",
+}
+
+#: ACI colour, linetype name and lineweight (1/100 mm) of each role.
+LAYER_STYLE: dict[str, tuple[int, str, int]] = {
+    "grade": (5, "Continuous", 50),
+    "ground": (32, "GL_DASHED", 25),
+    "grid": (253, "Continuous", 9),
+    "grid_major": (251, "Continuous", 18),
+    "labels": (7, "Continuous", 18),
+    "pvi": (6, "Continuous", 25),
+    "tangents": (6, "GL_DASHED", 13),
+    "info": (8, "Continuous", 13),
+    "plan": (5, "Continuous", 50),
+    "plan_ticks": (7, "Continuous", 18),
+    "plan_labels": (7, "Continuous", 18),
+    "plan_points": (6, "Continuous", 25),
+    "plan_notes": (7, "Continuous", 18),
+}
+
+_STEPS = (0.1, 0.2, 0.25, 0.5, 1, 2, 2.5, 5, 10, 20, 25, 50, 100, 200, 250, 500, 1000)
+
+
+def nice_step(minimum: float) -> float:
+    """Smallest round step (1, 2, 2.5, 5 times a power of ten) at least ``minimum``.
+
+    Examples
+    --------
+    >>> nice_step(3.2), nice_step(0.3), nice_step(40)
+    (5, 0.5, 50)
+    """
+    for step in _STEPS:
+        if step >= minimum - 1e-12:
+            return step
+    return 10 ** math.ceil(math.log10(minimum))
+
+
+@dataclass(frozen=True, slots=True)
+class DraftingLayout:
+    """How a profile and plan are drafted.
+
+    Parameters
+    ----------
+    scale : float
+        Horizontal plot scale as file units per paper unit: 50 means 1" = 50 ft
+        (US customary, paper measured in inches); 500 means 1:500 (metric, paper
+        measured in metres).
+    paper_m : float
+        One paper unit in metres (0.0254 for inches, 1.0 for metres).
+    exaggeration : float
+        Vertical exaggeration of the profile (10 is common practice).
+    text_paper : float
+        Plotted text height in paper units (0.10 in; 0.0025 m).
+    """
+
+    scale: float
+    paper_m: float
+    exaggeration: float = 10.0
+    text_paper: float = 0.10
+    station_major: float = 100.0
+    station_minor: float = 50.0
+    plan_tick: float = 100.0
+    chord_tolerance: float = 0.005
+    layers: dict[str, str] = field(default_factory=lambda: dict(LAYER_ROLES))
+
+    def __post_init__(self) -> None:
+        for name in ("scale", "exaggeration"):
+            value = getattr(self, name)
+            if not (math.isfinite(value) and value > 0):
+                raise UsageError(f"{name} must be a positive number, got {value:g}")
+
+    @property
+    def text_height(self) -> float:
+        """Text height in model units (file units)."""
+        return self.text_paper * self.scale
+
+    def paper_length(self, model: float) -> float:
+        """Paper length of a model length, in paper units."""
+        return model / self.scale
+
+    def elevation_steps(self) -> tuple[float, float]:
+        """(major, minor) elevation grid steps in elevation units.
+
+        Major lines are at least 12.7 mm (0.5 in) apart on paper when
+        exaggerated, on a 1-2-5 sequence; minor lines divide a major step in five.
+        """
+        per_unit_m = self.exaggeration / self.scale * self.paper_m  # paper metres per unit
+        want = 0.0127 / per_unit_m
+        exp = math.floor(math.log10(want))
+        major = next(m * 10**exp for m in (1, 2, 5, 10) if m * 10**exp >= want - 1e-12)
+        major = float(round(major, 10))
+        return major, major / 5.0
+
+    def layer(self, role: str) -> str:
+        """Layer name of a drawing role."""
+        return self.layers.get(role, LAYER_ROLES[role])
+
+    def with_layers(self, names: dict[str, str]) -> DraftingLayout:
+        """A copy with some layers renamed; unknown roles are refused by name."""
+        unknown = sorted(set(names) - set(LAYER_ROLES))
+        if unknown:
+            raise UsageError(
+                f"unknown layer role {unknown[0]!r}; roles: " + ", ".join(LAYER_ROLES)
+            )
+        merged = dict(self.layers)
+        merged.update(names)
+        return replace(self, layers=merged)
+
+
+def default_layout(units: Units, scale: float | None = None, exaggeration: float = 10.0) -> DraftingLayout:
+    """Common-practice defaults: 1" = 50' with 100-ft stations, or 1:500 with 20-m ticks.
+
+    Examples
+    --------
+    >>> lay = default_layout(Units("foot"))
+    >>> lay.text_height, lay.elevation_steps()
+    (5.0, (5.0, 1.0))
+    >>> default_layout(Units("meter")).text_height
+    1.25
+    """
+    if units.metric:
+        return DraftingLayout(
+            scale=scale or 500.0,
+            paper_m=1.0,
+            exaggeration=exaggeration,
+            text_paper=0.0025,
+            station_major=20.0 if (scale or 500.0) <= 500 else 50.0,
+            station_minor=10.0 if (scale or 500.0) <= 500 else 25.0,
+            plan_tick=20.0,
+            chord_tolerance=0.002,
+        )
+    sc = scale or 50.0
+    return DraftingLayout(
+        scale=sc,
+        paper_m=0.0254,
+        exaggeration=exaggeration,
+        text_paper=0.10,
+        station_major=100.0 if sc >= 40 else 50.0,
+        station_minor=50.0 if sc >= 40 else 10.0,
+        plan_tick=100.0,
+        chord_tolerance=0.005,
+    )

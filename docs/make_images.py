@@ -1,0 +1,62 @@
+"""Render the README pictures from the bundled samples.
+
+Draws ``gradeline dxf`` output with ezdxf's drawing add-on and matplotlib
+(the ``docs`` extra), cropped to a window so labels stay legible:
+
+    python docs/make_images.py
+"""
+
+from __future__ import annotations
+
+import io
+import sys
+from pathlib import Path
+
+ROOT = Path(__file__).resolve().parent.parent
+sys.path.insert(0, str(ROOT))
+
+
+def render_dxf(dxf_bytes: bytes, window: tuple[float, float, float, float], width_in: float,
+               out: Path, dpi: int = 110) -> None:
+    """Render a DXF to PNG, showing only ``window`` = (x0, x1, y0, y1) in model units."""
+    import ezdxf
+    import matplotlib
+
+    matplotlib.use("Agg")
+    import matplotlib.pyplot as plt
+    from ezdxf.addons.drawing import Frontend, RenderContext
+    from ezdxf.addons.drawing.config import BackgroundPolicy, ColorPolicy, Configuration
+    from ezdxf.addons.drawing.matplotlib import MatplotlibBackend
+
+    doc = ezdxf.read(io.StringIO(dxf_bytes.decode("utf-8")))
+    x0, x1, y0, y1 = window
+    fig = plt.figure(figsize=(width_in, width_in * (y1 - y0) / (x1 - x0)), dpi=dpi)
+    ax = fig.add_axes([0, 0, 1, 1])
+    cfg = Configuration(background_policy=BackgroundPolicy.WHITE,
+                        color_policy=ColorPolicy.COLOR, lineweight_scaling=2.0)
+    Frontend(RenderContext(doc), MatplotlibBackend(ax), config=cfg).draw_layout(
+        doc.modelspace(), finalize=False)
+    ax.set_aspect("equal")
+    ax.set_xlim(x0, x1)
+    ax.set_ylim(y0, y1)
+    ax.set_axis_off()
+    fig.savefig(out, dpi=dpi)
+    plt.close(fig)
+
+
+def main() -> None:
+    from converter import drafting
+    from converter.dxf import write_dxf
+    from converter.layout import default_layout
+    from converter.selection import select
+
+    ctx = select(ROOT / "samples" / "orrin-vale-bypass.xml", "Orrin Vale Bypass")
+    lay = default_layout(ctx.document.units)
+    prof = write_dxf(drafting.profile_drawing(ctx, lay), lay, linear_unit="USSurveyFoot")
+    render_dxf(prof, (1330.0, 2430.0, -40.0, 360.0), 12.0, ROOT / "docs" / "profile.png", dpi=150)
+    plan = write_dxf(drafting.plan_drawing(ctx, lay), lay, linear_unit="USSurveyFoot")
+    render_dxf(plan, (21250.0, 22450.0, 10430.0, 10830.0), 12.0, ROOT / "docs" / "plan.png", dpi=150)
+
+
+if __name__ == "__main__":
+    main()

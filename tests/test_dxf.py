@@ -1,0 +1,209 @@
+"""DXF output, read back with ezdxf and compared with the computed geometry."""
+
+from __future__ import annotations
+
+import io
+import math
+import os
+import subprocess
+
+import ezdxf
+import numpy as np
+import pytest
+from numpy.testing import assert_allclose
+
+from converter import drafting, horizontal, vertical
+from converter.cli import main
+from converter.dxf import read_mapping, write_dxf
+from converter.layout import default_layout
+from converter.selection import select
+from tests.conftest import METRIC_SAMPLE, US_SAMPLE
+
+SAMPLES = [(US_SAMPLE, "Orrin Vale Bypass"), (METRIC_SAMPLE, None), (US_SAMPLE, "Kettle Lane")]
+IDS = ["bypass-ft", "tarnholm-m", "lane-ft"]
+R12_TYPES = {"LINE", "POLYLINE", "VERTEX", "SEQEND", "ARC", "CIRCLE", "TEXT", "POINT"}
+
+
+def _make(path, name, version="R2010", curves="spline", plan=False):
+    ctx = select(path, name)
+    lay = default_layout(ctx.document.units)
+    d = drafting.plan_drawing(ctx, lay) if plan else drafting.profile_drawing(ctx, lay, curves)
+    data = write_dxf(d, lay, version=version, curves=curves, linear_unit=ctx.document.units.linear)
+    enc = "utf-8" if version == "R2010" else "cp1252"
+    return ctx, lay, ezdxf.read(io.StringIO(data.decode(enc))), data
+
+
+@pytest.mark.parametrize(("path", "name"), SAMPLES, ids=IDS)
+@pytest.mark.parametrize("version", ["R2010", "R2000", "R12"])
+@pytest.mark.parametrize("plan", [False, True], ids=["profile", "plan"])
+def test_audit_clean(path, name, version, plan):
+    _, _, doc, _ = _make(path, name, version, plan=plan)
+    auditor = doc.audit()
+    assert not auditor.has_errors, [str(e) for e in auditor.errors]
+    if version == "R12":
+        types = {e.dxftype() for e in doc.entitydb.values() if e.dxf.owner is not None}
+        drawn = {e.dxftype() for e in doc.modelspace()}
+        assert drawn <= R12_TYPES, drawn - R12_TYPES
+        assert "SPLINE" not in types and "LWPOLYLINE" not in types
+
+
+def _grade_points(doc, mapping):
+    """Every vertex and spline point of the grade layer, as (station, elevation)."""
+    exag, datum = float(mapping["exaggeration"]), float(mapping["datum"])
+    pts = []
+    for e in doc.modelspace().query('*[layer=="PROFILE-GRADE"]'):
+        t = e.dxftype()
+        if t == "LINE":
+            pts += [e.dxf.start, e.dxf.end]
+        elif t == "LWPOLYLINE":
+            pts += [(x, y) for x, y, *_ in e.get_points()]
+        elif t == "POLYLINE":
+            pts += [v.dxf.location for v in e.vertices]
+        elif t == "SPLINE":
+            pts += list(e.construction_tool().approximate(40))
+        elif t == "ARC":
+            pts += list(e.vertices(np.linspace(e.dxf.start_angle, e.dxf.end_angle, 9)))
+    arr = np.array([(p[0], p[1]) for p in pts], dtype=float)
+    return arr[:, 0], arr[:, 1] / exag + datum
+
+
+@pytest.mark.parametrize(("path", "name"), SAMPLES, ids=IDS)
+@pytest.mark.parametrize(("version", "curves"), [("R2010", "spline"), ("R2010", "polyline"),
+                                                 ("R12", "spline")])
+def test_profile_reads_back_onto_computed_grade(path, name, version, curves):
+    ctx, _, doc, _ = _make(path, name, version, curves)
+    mapping = read_mapping(doc)
+    s, z = _grade_points(doc, mapping)
+    assert len(s) > 20
+    # every drawn point lies on the computed finished grade (vertices exactly,
+    # spline points to float round-off); 1e-6 file units
+    assert_allclose(z, vertical.elevation(ctx.geometry, s), atol=1e-6)
+    # the drawing covers the whole profile
+    assert s.min() == pytest.approx(ctx.geometry.start) and s.max() == pytest.approx(ctx.geometry.end)
+
+
+@pytest.mark.parametrize(("path", "name"), SAMPLES, ids=IDS)
+def test_polyline_chords_within_tolerance(path, name):
+    ctx, lay, doc, _ = _make(path, name, "R2010", "polyline")
+    mapping = read_mapping(doc)
+    exag, datum = float(mapping["exaggeration"]), float(mapping["datum"])
+    worst = 0.0
+    for e in doc.modelspace().query('LWPOLYLINE[layer=="PROFILE-GRADE"]'):
+        p = np.array([(x, y / exag + datum) for x, y, *_ in e.get_points()])
+        for (s0, z0), (s1, z1) in zip(p, p[1:], strict=False):
+            s = np.linspace(s0, s1, 11)
+            chord = z0 + (z1 - z0) * (s - s0) / (s1 - s0)
+            worst = max(worst, float(np.max(np.abs(chord - vertical.elevation(ctx.geometry, s)))))
+    assert 0 < worst <= lay.chord_tolerance
+
+
+@pytest.mark.parametrize(("path", "name"), SAMPLES, ids=IDS)
+def test_plan_reads_back_onto_computed_alignment(path, name):
+    ctx, _, doc, _ = _make(path, name, plan=True)
+    pts = []
+    for e in doc.modelspace().query('*[layer=="PLAN-ALIGNMENT"]'):
+        if e.dxftype() == "LINE":
+            pts += [e.dxf.start, e.dxf.end]
+        elif e.dxftype() == "ARC":
+            pts += list(e.vertices(np.linspace(e.dxf.start_angle, e.dxf.end_angle, 7)))
+        else:
+            pts += [(x, y) for x, y, *_ in e.get_points()]
+    arr = np.array([(p[0], p[1]) for p in pts])
+    st, off, status = horizontal.station_offset(ctx.horizontal, arr[:, 1], arr[:, 0])
+    assert np.all(status == 0)
+    assert np.max(np.abs(off)) < 1e-6  # ft or m: the linework lies on the alignment
+    # ARC entities carry the true radius of each curve
+    radii = sorted(round(e.dxf.radius, 3) for e in doc.modelspace().query("ARC[layer=='PLAN-ALIGNMENT']"))
+    assert radii == sorted(round(c.radius, 3) for c in horizontal.curve_data(ctx.horizontal))
+
+
+def _text_boxes(doc):
+    boxes = []
+    for e in doc.modelspace().query("TEXT"):
+        halign = {0: "left", 1: "center", 2: "right"}[e.dxf.halign]
+        valign = {0: "bottom", 1: "bottom", 2: "middle", 3: "top"}[e.dxf.valign]
+        p = e.dxf.align_point if (e.dxf.halign or e.dxf.valign) else e.dxf.insert
+        t = drafting.Text("x", e.dxf.text, p[0], p[1], e.dxf.height, e.dxf.rotation, halign, valign)
+        boxes.append((e.dxf.text, t.corners()))
+    return boxes
+
+
+@pytest.mark.parametrize(("path", "name"), SAMPLES, ids=IDS)
+@pytest.mark.parametrize("plan", [False, True], ids=["profile", "plan"])
+def test_labels_do_not_overlap(path, name, plan):
+    _, _, doc, _ = _make(path, name, plan=plan)
+    boxes = _text_boxes(doc)
+    assert len(boxes) > 10
+    clashes = [(a[0], b[0]) for i, a in enumerate(boxes) for b in boxes[i + 1:]
+               if drafting.boxes_overlap(a[1], b[1])]
+    assert clashes == []
+
+
+def test_profile_labels_name_every_key_point():
+    ctx, _, doc, _ = _make(US_SAMPLE, "Orrin Vale Bypass")
+    texts = [e.dxf.text for e in doc.modelspace().query("TEXT")]
+    for c in ctx.geometry.curves:
+        lab = ctx.stationing.label
+        assert any(t.startswith(f"PVI {lab(c.pvi_station)}") for t in texts)
+        assert any(t.startswith(f"BVC {lab(c.bvc_station)}") for t in texts)
+        assert any(t.startswith(f"EVC {lab(c.evc_station)}") for t in texts)
+        assert any(f"K = {c.k:.1f}" in t for t in texts)
+    for g in ("+2.367%", "-2.029%", "+3.000%", "-2.000%"):
+        assert g in texts
+
+
+def test_mapping_in_header_custom_properties():
+    _, _, doc, _ = _make(METRIC_SAMPLE, None)
+    props = dict(doc.header.custom_vars)
+    assert props["GRADELINE_EXAGGERATION"] == "10.0"
+    assert float(props["GRADELINE_DATUM"]) < 84.2  # below the lowest point
+    assert doc.header["$INSUNITS"] == 6  # metres
+
+
+def test_units_header_us_survey_foot():
+    _, _, doc, _ = _make(US_SAMPLE, "Kettle Lane")
+    assert doc.header["$INSUNITS"] == 21  # DXF reference: 21 = US survey feet
+
+
+def test_same_input_same_bytes_across_processes(tmp_path):
+    outs = []
+    for seed in ("3", "271"):
+        out = tmp_path / f"p{seed}.dxf"
+        plan = tmp_path / f"q{seed}.dxf"
+        env = dict(os.environ, PYTHONHASHSEED=seed)
+        subprocess.run(["gradeline", "dxf", str(US_SAMPLE), "--alignment", "Orrin Vale Bypass",
+                        "-o", str(out), "--plan", str(plan)], check=True, env=env, timeout=120)
+        outs.append((out.read_bytes(), plan.read_bytes()))
+    assert outs[0] == outs[1]
+
+
+def test_layer_renames(tmp_path, capsys):
+    cfg = tmp_path / "layers.toml"
+    cfg.write_text('[layers]\nground = "EX-GROUND"\n')
+    out = tmp_path / "p.dxf"
+    code = main(["dxf", str(METRIC_SAMPLE), "-o", str(out), "--config", str(cfg),
+                 "--layer", "grade=FG-LINE"])
+    assert code == 0
+    doc = ezdxf.readfile(out)
+    assert "FG-LINE" in doc.layers and "EX-GROUND" in doc.layers
+    assert len(doc.modelspace().query('*[layer=="FG-LINE"]')) > 0
+
+
+def test_unknown_layer_role(tmp_path, capsys):
+    code = main(["dxf", str(METRIC_SAMPLE), "-o", str(tmp_path / "x.dxf"), "--layer", "roads=X"])
+    assert code == 2
+    assert "unknown layer role 'roads'" in capsys.readouterr().err
+
+
+def test_exaggeration_one_gives_arcs_for_circular_curves():
+    ctx = select(METRIC_SAMPLE)
+    lay = default_layout(ctx.document.units, exaggeration=1.0)
+    d = drafting.profile_drawing(ctx, lay)
+    doc = ezdxf.read(io.StringIO(write_dxf(d, lay, linear_unit="meter").decode()))
+    arcs = doc.modelspace().query('ARC[layer=="PROFILE-GRADE"]')
+    assert sorted(round(a.dxf.radius) for a in arcs) == [4000, 6000]
+    for a in arcs:  # arc points lie on the computed grade
+        for p in a.vertices(np.linspace(a.dxf.start_angle, a.dxf.end_angle, 5)):
+            z = p[1] + float(read_mapping(doc)["datum"])
+            assert z == pytest.approx(float(vertical.elevation(ctx.geometry, p[0])), abs=1e-6)
+    assert math.isclose(float(read_mapping(doc)["exaggeration"]), 1.0)
