@@ -121,6 +121,27 @@ def boxes_overlap(a: np.ndarray, b: np.ndarray, gap: float = 0.0) -> bool:
     return True
 
 
+class _BoxIndex:
+    """Text boxes taken so far, with a bounding-box prefilter before the exact test."""
+
+    def __init__(self, boxes: list[np.ndarray]) -> None:
+        self.boxes = list(boxes)
+        self.bb = np.array([[b[:, 0].min(), b[:, 1].min(), b[:, 0].max(), b[:, 1].max()]
+                            for b in self.boxes]).reshape(-1, 4)
+
+    def hits(self, box: np.ndarray, gap: float = 0.0) -> bool:
+        x0, y0 = box.min(axis=0) - gap
+        x1, y1 = box.max(axis=0) + gap
+        bb = self.bb
+        near = np.flatnonzero((bb[:, 0] <= x1) & (bb[:, 2] >= x0) & (bb[:, 1] <= y1) & (bb[:, 3] >= y0))
+        return any(boxes_overlap(box, self.boxes[i], gap) for i in near)
+
+    def add(self, box: np.ndarray) -> None:
+        self.boxes.append(box)
+        row = [[box[:, 0].min(), box[:, 1].min(), box[:, 0].max(), box[:, 1].max()]]
+        self.bb = np.vstack([self.bb, row])
+
+
 @dataclass(frozen=True, eq=False)
 class Drawing:
     """Everything a renderer needs: items in drawing order, extents and metadata."""
@@ -170,7 +191,8 @@ class _Profile:
     def build(self) -> Drawing:
         g, lay = self.geom, self.lay
         major_z, minor_z = lay.elevation_steps()
-        dense = np.linspace(g.start, g.end, 2001)
+        # sample the lines labels must clear at least every text height
+        dense = np.linspace(g.start, g.end, max(2001, math.ceil((g.end - g.start) / self.h) + 1))
         zs = [vertical.elevation(g, dense), g.pvi_elevations]
         self.grounds = [
             (np.array(p.stations), np.array(p.elevations))
@@ -330,7 +352,7 @@ class _Profile:
 
     def _grade_labels(self) -> None:
         g, h, exag = self.geom, self.h, self.lay.exaggeration
-        taken = [t.corners() for t in self.items if isinstance(t, Text)]
+        taken = _BoxIndex([t.corners() for t in self.items if isinstance(t, Text)])
         for i in range(len(g.pvi_stations) - 1):
             s0, s1 = float(g.pvi_stations[i]), float(g.pvi_stations[i + 1])
             z0, z1 = float(g.pvi_elevations[i]), float(g.pvi_elevations[i + 1])
@@ -348,9 +370,9 @@ class _Profile:
                 box = item.corners()
                 if box[:, 0].min() < s0 or box[:, 0].max() > s1:
                     continue
-                if not any(boxes_overlap(box, other, 0.2 * h) for other in taken):
+                if not taken.hits(box, 0.2 * h):
                     self.items.append(item)
-                    taken.append(box)
+                    taken.add(box)
                     break
 
     def _info(self) -> None:

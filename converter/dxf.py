@@ -17,12 +17,13 @@ from collections.abc import Iterator
 from typing import Any
 
 import ezdxf
+import numpy as np
 from ezdxf.document import Drawing as DxfDocument
 
 from converter.drafting import ArcItem, Circle, Drawing, Path, QuadCurve, Text
 from converter.layout import LAYER_ROLES, LAYER_STYLE, DraftingLayout
 
-__all__ = ["DXF_VERSIONS", "read_mapping", "write_dxf"]
+__all__ = ["DXF_VERSIONS", "add_vertices", "read_mapping", "write_dxf"]
 
 DXF_VERSIONS = {"R12": "R12", "R2000": "R2000", "R2010": "R2010"}
 
@@ -63,8 +64,25 @@ def _setup(doc: DxfDocument, layout: DraftingLayout, roles: set[str], r12: bool)
 def _polyline(msp, points, layer: str, r12: bool) -> None:
     if r12:
         msp.add_polyline2d(points, dxfattribs={"layer": layer})
-    else:
-        msp.add_lwpolyline(points, dxfattribs={"layer": layer})
+        return
+    lw = msp.add_lwpolyline([], dxfattribs={"layer": layer})
+    add_vertices(lw, points)
+
+
+def add_vertices(lw, points) -> None:
+    """Load all vertices of an LWPOLYLINE at once.
+
+    ezdxf's ``append_points`` appends one vertex at a time, copying the array
+    each time (quadratic in the vertex count); a 50,000-vertex ground line took
+    seconds. Its vertex array takes a whole (n, 5) block in one step.
+    """
+    arr = np.zeros((len(points), 5))
+    arr[:, :2] = np.asarray(points, dtype=np.float64)[:, :2]
+    vertices = getattr(lw, "lwpoints", None)
+    if vertices is not None and hasattr(vertices, "extend"):
+        vertices.extend(arr)
+    else:  # pragma: no cover - other ezdxf versions
+        lw.append_points(arr[:, :2].tolist(), format="xy")
 
 
 def _stable_classes(doc: DxfDocument) -> None:

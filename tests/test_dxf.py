@@ -207,3 +207,19 @@ def test_exaggeration_one_gives_arcs_for_circular_curves():
             z = p[1] + float(read_mapping(doc)["datum"])
             assert z == pytest.approx(float(vertical.elevation(ctx.geometry, p[0])), abs=1e-6)
     assert math.isclose(float(read_mapping(doc)["exaggeration"]), 1.0)
+
+
+def test_rendered_png_is_not_blank(tmp_path):
+    pytest.importorskip("matplotlib", reason="matplotlib renders DXF through ezdxf's add-on")
+    import matplotlib.image as mpimg
+
+    from docs.make_images import render_dxf
+
+    ctx = select(US_SAMPLE, "Orrin Vale Bypass")
+    lay = default_layout(ctx.document.units)
+    data = write_dxf(drafting.profile_drawing(ctx, lay), lay, linear_unit="USSurveyFoot")
+    out = tmp_path / "p.png"
+    render_dxf(data, (1330.0, 2430.0, -40.0, 360.0), 6.0, out, dpi=80)
+    img = mpimg.imread(out)
+    ink = (img[:, :, :3].mean(axis=2) < 0.8).mean()
+    assert 0.01 < ink < 0.6  # lines and text, on a white background
