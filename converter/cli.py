@@ -146,6 +146,49 @@ def cmd_dxf(args: argparse.Namespace) -> int:
     return 0
 
 
+SHEET_KEYS = {"project", "date", "drawn_by", "size", "scale", "exaggeration", "interval",
+              "sheet_prefix"}
+
+
+def cmd_sheets(args: argparse.Namespace) -> int:
+    from sheets.layout import PAPER_SIZES
+    from sheets.pdf import SheetOptions, render_sheets
+
+    cfg = read_config(args.config) if args.config else {}
+    sheet_cfg = dict(cfg.get("sheet", {}))
+    unknown = sorted(set(sheet_cfg) - SHEET_KEYS)
+    if unknown:
+        raise UsageError(f"{args.config}: unknown [sheet] key {unknown[0]!r}; keys: "
+                         + ", ".join(sorted(SHEET_KEYS)))
+    ctx = select(args.file, args.alignment, args.profile, need_profile=True)
+    size = args.size or sheet_cfg.get("size") or ("iso-a1" if ctx.document.units.metric else "ansi-d")
+    if size not in PAPER_SIZES:
+        raise UsageError(f"unknown sheet size {size!r}; choose one of " + ", ".join(PAPER_SIZES))
+
+    def num(name: str, default: float | None) -> float | None:
+        value = getattr(args, name)
+        if value is None:
+            value = sheet_cfg.get(name, default)
+        if value is not None and not isinstance(value, (int, float)):
+            raise UsageError(f"{args.config}: [sheet] {name} must be a number")
+        return None if value is None else float(value)
+
+    opts = SheetOptions(
+        size=size,
+        scale=num("scale", None),
+        exaggeration=num("exaggeration", 10.0) or 10.0,
+        interval=num("interval", None),
+        project=str(sheet_cfg.get("project", "")),
+        date=str(sheet_cfg.get("date", "")),
+        drawn_by=str(sheet_cfg.get("drawn_by", "")),
+        sheet_prefix=str(sheet_cfg.get("sheet_prefix", "")),
+    )
+    data = render_sheets(ctx, opts)
+    _warn(ctx)
+    _write_file(args.output, data, [args.file] + ([args.config] if args.config else []))
+    return 0
+
+
 def _write_file(path: str, data: bytes, inputs: Sequence[str]) -> None:
     refuse_overwrite(path, inputs)
     try:
@@ -351,6 +394,30 @@ def build_parser() -> argparse.ArgumentParser:
                    help="rename a layer, e.g. --layer grade=C-ROAD-PROF (repeatable)")
     p.add_argument("--config", metavar="FILE", help="TOML file; its [layers] table renames layers")
     p.set_defaults(func=cmd_dxf)
+
+    p = sub.add_parser(
+        "sheets",
+        help="printable PDF plan-and-profile sheets with curve and station tables",
+        description=(
+            "Plan above, profile below, at true scale on ANSI D/B or ISO A1/A3 sheets split "
+            "at match lines; then the horizontal and vertical curve tables and the "
+            "station/elevation table. Options override the [sheet] table of --config."
+        ),
+    )
+    _add_common(p)
+    p.add_argument("-o", "--output", metavar="PATH", required=True, help="PDF to write")
+    p.add_argument("--size", choices=("ansi-d", "ansi-b", "iso-a1", "iso-a3"),
+                   help="sheet size (default ansi-d for feet, iso-a1 for metres)")
+    p.add_argument("--scale", type=float, metavar="S",
+                   help="horizontal scale: 1\" = S ft (20, 40, 50, 100; default 50) or 1:S "
+                        "(250, 500, 1000; default 500)")
+    p.add_argument("--exaggeration", type=float, metavar="E",
+                   help="vertical exaggeration (default 10; lowered on a sheet whose profile "
+                        "would not fit, and the title block says so)")
+    p.add_argument("--interval", type=float, metavar="D",
+                   help="station table interval (default 50 ft / 20 m)")
+    p.add_argument("--config", metavar="FILE", help="TOML file with a [sheet] table (see samples/sheets.toml)")
+    p.set_defaults(func=cmd_sheets)
 
     p = sub.add_parser("curves", help="one row per vertical curve: PVI, grades, A, L, K, BVC/EVC, high/low point")
     _add_common(p)

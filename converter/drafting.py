@@ -172,9 +172,10 @@ def _circle_samples(x0: float, x1: float, r: float, tol: float) -> np.ndarray:
 
 
 class _Profile:
-    """Builds a profile :class:`Drawing` step by step."""
+    """Builds a profile :class:`Drawing` step by step, for the whole profile or a window."""
 
-    def __init__(self, ctx: AlignmentContext, layout: DraftingLayout, curves: str) -> None:
+    def __init__(self, ctx: AlignmentContext, layout: DraftingLayout, curves: str,
+                 window: tuple[float, float] | None, strip: bool) -> None:
         if ctx.geometry is None:
             raise ValueError("profile drawing needs a profile")
         self.ctx = ctx
@@ -183,7 +184,16 @@ class _Profile:
         self.units = ctx.document.units
         self.curves = curves
         self.h = layout.text_height
+        self.strip = strip
         self.items: list[Any] = []
+        g = self.geom
+        if window is None:
+            self.x0 = math.floor(g.start / layout.station_minor) * layout.station_minor
+            self.x1 = math.ceil(g.end / layout.station_minor) * layout.station_minor
+        else:
+            self.x0, self.x1 = float(window[0]), float(window[1])
+        # the part of the profile that is drawn
+        self.s0, self.s1 = max(g.start, self.x0), min(g.end, self.x1)
 
     def y(self, z):
         return (np.asarray(z, dtype=float) - self.datum) * self.lay.exaggeration
@@ -191,32 +201,51 @@ class _Profile:
     def build(self) -> Drawing:
         g, lay = self.geom, self.lay
         major_z, minor_z = lay.elevation_steps()
-        # sample the lines labels must clear at least every text height
-        dense = np.linspace(g.start, g.end, max(2001, math.ceil((g.end - g.start) / self.h) + 1))
-        zs = [vertical.elevation(g, dense), g.pvi_elevations]
-        self.grounds = [
-            (np.array(p.stations), np.array(p.elevations))
-            for gr in self.ctx.alignment.grounds
-            for p in gr.pieces
-        ]
-        self.grounds = [(s, z) for s, z in self.grounds if len(s) >= 2]
+        self.grounds = []
+        for gr in self.ctx.alignment.grounds:
+            for p in gr.pieces:
+                s, z = np.array(p.stations), np.array(p.elevations)
+                keep = (s > self.x0) & (s < self.x1)
+                lo, hi = max(self.x0, s[0]), min(self.x1, s[-1])
+                if hi <= lo:
+                    continue
+                s2 = np.concatenate([[lo], s[keep], [hi]])
+                z2 = np.interp(s2, s, z)
+                self.grounds.append((s2, z2))
+        drawn = self.s1 > self.s0
+        if drawn:
+            # sample the lines labels must clear at least every text height
+            n = max(501, math.ceil((self.s1 - self.s0) / self.h) + 1)
+            dense = np.linspace(self.s0, self.s1, n)
+            zs = [vertical.elevation(g, dense)]
+            inside = (g.pvi_stations >= self.x0) & (g.pvi_stations <= self.x1)
+            zs.append(g.pvi_elevations[inside])
+        else:
+            dense = np.empty(0)
+            zs = []
         zs += [z for _, z in self.grounds]
+        zs = [z for z in zs if len(z)]
+        if not zs:
+            zs = [np.array([float(g.pvi_elevations[0])])]
         zmin = min(float(np.nanmin(z)) for z in zs)
         self.datum = math.floor(zmin / major_z) * major_z - major_z
-        self.x0 = math.floor(g.start / lay.station_minor) * lay.station_minor
-        self.x1 = math.ceil(g.end / lay.station_minor) * lay.station_minor
-        self._grade_line()
+        if drawn:
+            self._grade_line()
         self._ground()
-        label_top = self._point_labels(dense)
+        label_top = self._point_labels(dense) if drawn else 0.0
         zmax = max(float(np.nanmax(z)) for z in zs)
         top_y = max(label_top + self.h, float(self.y(zmax)) + 4 * self.h)
         top = self.datum + top_y / lay.exaggeration
         self.top = math.ceil(top / major_z) * major_z
         self._grid(major_z, minor_z)
-        self._grade_labels()
-        self._info()
+        bottom = -4 * self.h
+        if self.strip:
+            bottom = self._strip()
+        if drawn:
+            self._grade_labels()
+        bottom = self._info(bottom)
         ymax = float(self.y(self.top))
-        ext = (self.x0 - 8 * self.h, -4 * self.h, self.x1 + 8 * self.h, ymax + self.h)
+        ext = (self.x0 - 8 * self.h, bottom - self.h, self.x1 + 8 * self.h, ymax + self.h)
         meta = {
             "kind": "profile",
             "exaggeration": lay.exaggeration,
@@ -233,7 +262,7 @@ class _Profile:
         g, tol = self.geom, self.lay.chord_tolerance
         ends = np.append(g.starts[1:], g.end)
         for i in range(len(g.starts)):
-            a, b = float(g.starts[i]), float(ends[i])
+            a, b = max(float(g.starts[i]), self.s0), min(float(ends[i]), self.s1)
             if b <= a:
                 continue
             if g.circular[i]:
@@ -245,10 +274,11 @@ class _Profile:
                 start, end = (ang[0], ang[1]) if g.sign[i] > 0 else (ang[1], ang[0])
                 self.items.append(ArcItem("grade", (cx, float(self.y(cy))), r, start, end, pts))
             elif g.c[i] != 0.0:
-                z0 = float(g.y0[i])
-                zc = z0 + float(g.g0[i]) * (b - a) / 2.0
-                z1 = float(vertical.elevation(g, b))
-                ctrl = ((a, float(self.y(z0))), ((a + b) / 2, float(self.y(zc))), (b, float(self.y(z1))))
+                (z0, z1), (g0, _) = vertical.evaluate(g, [a, b])
+                # the control point of a parabola over [a, b] is where its end tangents meet
+                zc = float(z0) + float(g0) * (b - a) / 2.0
+                ctrl = ((a, float(self.y(z0))), ((a + b) / 2, float(self.y(zc))),
+                        (b, float(self.y(z1))))
                 s = _poly_samples(a, b, float(g.c[i]), tol)
                 pts = tuple(zip(s.tolist(), self.y(vertical.elevation(g, s)).tolist(), strict=True))
                 self.items.append(QuadCurve("grade", ctrl, pts))
@@ -257,11 +287,16 @@ class _Profile:
                 self.items.append(Path("grade", ((a, float(self.y(z0))), (b, float(self.y(z1))))))
         r = 0.35 * self.h
         for c in g.curves:
+            if not (self.x0 <= c.pvi_station <= self.x1):
+                continue
             pvi = (c.pvi_station, float(self.y(c.pvi_elevation)))
-            self.items.append(Path("tangents", ((c.bvc_station, float(self.y(c.bvc_elevation))), pvi)))
-            self.items.append(Path("tangents", (pvi, (c.evc_station, float(self.y(c.evc_elevation))))))
+            for s, z in ((c.bvc_station, c.bvc_elevation), (c.evc_station, c.evc_elevation)):
+                s_c = min(max(s, self.x0), self.x1)
+                z_c = c.pvi_elevation + (z - c.pvi_elevation) * (s_c - c.pvi_station) / (s - c.pvi_station)
+                self.items.append(Path("tangents", ((s_c, float(self.y(z_c))), pvi)))
         for s, z in zip(g.pvi_stations[1:-1], g.pvi_elevations[1:-1], strict=True):
-            self.items.append(Circle("pvi", (float(s), float(self.y(z))), r))
+            if self.x0 <= s <= self.x1:
+                self.items.append(Circle("pvi", (float(s), float(self.y(z))), r))
 
     def _ground(self) -> None:
         for s, z in self.grounds:
@@ -270,7 +305,7 @@ class _Profile:
     # key-point labels: vertical text in columns, spread so they never touch ----
     def _point_labels(self, dense: np.ndarray) -> float:
         g, st, units, h = self.geom, self.ctx.stationing, self.units, self.h
-        wanted = []  # (station, anchor_y, lines)
+        wanted = []  # (station, elevation, lines)
         curve_at = {c.index: c for c in g.curves}
         for i in range(1, len(g.pvi_stations) - 1):
             s, z = float(g.pvi_stations[i]), float(g.pvi_elevations[i])
@@ -288,17 +323,19 @@ class _Profile:
                                    [labels.point_label(tag, st.label(c.turning_station),
                                                        c.turning_elevation, units)]))
             wanted.append((s, z, lines))
-        wanted.sort(key=lambda w: w[0])
+        wanted = sorted(w for w in wanted if self.x0 <= w[0] <= self.x1)
+        if not wanted:
+            return 0.0
         pitch = 1.6 * h
         widths = [len(w[2]) * pitch for w in wanted]
-        # a label block spans [x - width, x]; spread using block centres
         xs = [w[0] for w in wanted]
-        # forward pass: push right; backward pass: pull left within the grid end
         # block i reaches from pos - widths[i] + 0.6h (its left column) to pos - 0.25h,
-        # so two blocks keep a 0.6h gap when pos[i] >= pos[i - 1] + widths[i]
+        # so two blocks keep a 0.6h gap when pos[i] >= pos[i - 1] + widths[i]; a
+        # forward pass pushes right, a backward pass pulls left inside the grid
         pos = []
         for i, x in enumerate(xs):
-            pos.append(x if not pos else max(x, pos[-1] + widths[i]))
+            pos.append(max(x, self.x0 + widths[i]) if not pos else max(x, pos[-1] + widths[i]))
+        pos[-1] = min(pos[-1], self.x1)
         for i in range(len(pos) - 2, -1, -1):
             pos[i] = min(pos[i], pos[i + 1] - widths[i + 1])
         # lines that labels must clear: finished grade, tangents, ground
@@ -325,11 +362,14 @@ class _Profile:
         return highest
 
     # grid, elevation and station labels ---------------------------------------
+    def _majors(self) -> np.ndarray:
+        return self.ctx.stationing.round_stations(self.lay.station_major, self.x0, self.x1)
+
     def _grid(self, major_z: float, minor_z: float) -> None:
         lay, st, h, units = self.lay, self.ctx.stationing, self.h, self.units
         y_top = float(self.y(self.top))
         minor = st.round_stations(lay.station_minor, self.x0, self.x1)
-        major = st.round_stations(lay.station_major, self.x0, self.x1)
+        major = self._majors()
         is_major = np.isin(minor, major)
         for x, m in zip(minor.tolist(), is_major.tolist(), strict=True):
             self.items.append(Path("grid_major" if m else "grid", ((x, 0.0), (x, y_top))))
@@ -350,6 +390,30 @@ class _Profile:
                 self.items.append(Text("labels", text, self.x0 - 0.8 * h, y, h, 0.0, "right", "middle"))
                 self.items.append(Text("labels", text, self.x1 + 0.8 * h, y, h, 0.0, "left", "middle"))
 
+    def _strip(self) -> float:
+        """Existing-ground and finished-grade elevations at each labelled station."""
+        h, units = self.h, self.units
+        major = self._majors()
+        fg = vertical.elevation(self.geom, major)
+        eg = np.full(len(major), np.nan)
+        for s, z in self.grounds:
+            inside = (major >= s[0]) & (major <= s[-1])
+            eg[inside] = np.interp(major[inside], s, z)
+        width = labels.text_width("0" * 7, h)
+        rows = [("FINISHED GRADE", fg, -2.6 * h), ("EXISTING GROUND", eg, -3.4 * h - width)]
+        for title, values, top in rows:
+            self.items.append(Text("labels", title, self.x0 - 0.8 * h, top - width / 2, h,
+                                   0.0, "right", "middle"))
+            for x, z in zip(major.tolist(), values.tolist(), strict=True):
+                if math.isfinite(z):
+                    self.items.append(Text("labels", labels.elevation_text(z, units), x + 0.5 * h,
+                                           top, h, 90.0, "right", "middle"))
+        bottom = -3.4 * h - 2 * width
+        self.items.append(Path("grid", ((self.x0, -2.2 * h), (self.x1, -2.2 * h))))
+        self.items.append(Path("grid", ((self.x0, -3.0 * h - width), (self.x1, -3.0 * h - width))))
+        self.items.append(Path("grid", ((self.x0, bottom - 0.4 * h), (self.x1, bottom - 0.4 * h))))
+        return bottom - 0.4 * h
+
     def _grade_labels(self) -> None:
         g, h, exag = self.geom, self.h, self.lay.exaggeration
         taken = _BoxIndex([t.corners() for t in self.items if isinstance(t, Text)])
@@ -357,34 +421,45 @@ class _Profile:
             s0, s1 = float(g.pvi_stations[i]), float(g.pvi_stations[i + 1])
             z0, z1 = float(g.pvi_elevations[i]), float(g.pvi_elevations[i + 1])
             grade = (z1 - z0) / (s1 - s0)
+            v0, v1 = max(s0, self.x0), min(s1, self.x1)  # visible part
+            if v1 <= v0:
+                continue
             angle = math.degrees(math.atan(grade * exag))
             text = labels.grade_text(grade)
             for frac, side in ((0.5, 1), (0.35, 1), (0.65, 1), (0.5, -1), (0.25, 1), (0.75, 1),
                                (0.35, -1), (0.65, -1)):
-                s = s0 + frac * (s1 - s0)
+                s = v0 + frac * (v1 - v0)
                 z = z0 + grade * (s - s0)
                 a = math.radians(angle)
                 off = side * 0.6 * h
                 x, y = s - off * math.sin(a), float(self.y(z)) + off * math.cos(a)
                 item = Text("labels", text, x, y, h, angle, "center", "bottom" if side > 0 else "top")
                 box = item.corners()
-                if box[:, 0].min() < s0 or box[:, 0].max() > s1:
+                if box[:, 0].min() < v0 or box[:, 0].max() > v1:
                     continue
                 if not taken.hits(box, 0.2 * h):
                     self.items.append(item)
                     taken.add(box)
                     break
 
-    def _info(self) -> None:
+    def _info(self, bottom: float) -> float:
         lay, h = self.lay, self.h
         u = self.units.symbol
         text = (f"PROFILE {self.ctx.alignment.name}: X = STATION, Y = (ELEVATION - "
-                f"{self.datum:g}) x {lay.exaggeration:g}; UNITS {u}; "
-                f"SCALE H 1:{lay.scale:g} V 1:{lay.scale / lay.exaggeration:g} (PAPER)")
-        self.items.append(Text("info", text, self.x0, -3.2 * h, 0.8 * h, 0.0, "left", "top"))
+                f"{self.datum:g}) x {lay.exaggeration:g}; UNITS {u}")
+        y = bottom + 0.8 * h if not self.strip else bottom - 0.6 * h
+        self.items.append(Text("info", text, self.x0, y, 0.8 * h, 0.0, "left", "top"))
+        return y - 0.8 * h
 
 
-def profile_drawing(ctx: AlignmentContext, layout: DraftingLayout, curves: str = "spline") -> Drawing:
+def profile_drawing(
+    ctx: AlignmentContext,
+    layout: DraftingLayout,
+    curves: str = "spline",
+    *,
+    window: tuple[float, float] | None = None,
+    strip: bool = False,
+) -> Drawing:
     """The profile drawing of ``ctx`` (needs a profile).
 
     Parameters
@@ -392,8 +467,13 @@ def profile_drawing(ctx: AlignmentContext, layout: DraftingLayout, curves: str =
     curves : {"spline", "polyline"}
         Renderers draw parabolas as exact quadratic curves (``spline``) or as the
         polylines within ``layout.chord_tolerance`` that every item carries.
+    window : (float, float), optional
+        Draw only these stations, with a datum and grid of their own (a sheet).
+    strip : bool
+        Add the strip of finished-grade and existing-ground elevations under the
+        grid at every labelled station (plan-and-profile sheets).
     """
-    d = _Profile(ctx, layout, curves).build()
+    d = _Profile(ctx, layout, curves, window, strip).build()
     d.meta["curves"] = curves
     return d
 

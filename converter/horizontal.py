@@ -21,6 +21,7 @@ and radius; the tests compare it with ``scipy.special.fresnel``.
 from __future__ import annotations
 
 import math
+import weakref
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -583,6 +584,34 @@ def _samples(geom: HorizontalGeometry) -> NDArray[np.float64]:
     return np.concatenate(parts)
 
 
+def _refine(geom: HorizontalGeometry, px: NDArray[np.float64], py: NDArray[np.float64],
+            s: NDArray[np.float64]):
+    """Newton steps from stations ``s`` to the foot points of (px, py) on the alignment.
+
+    Returns the station (clamped to the ends), the along-tangent and left-normal
+    components of the remaining vector, and the distance.
+    """
+    s = np.asarray(s, dtype=np.float64).copy()
+    for _ in range(12):
+        x, y, h, kap = _state(geom, s)
+        c, sn = np.cos(h), np.sin(h)
+        dx, dy = px - x, py - y
+        t = dx * c + dy * sn
+        o = -dx * sn + dy * c
+        den = 1.0 - kap * o
+        ok = den > 0.2
+        step = np.where(ok, t / np.where(ok, den, 1.0), t)
+        s_new = np.clip(s + step, geom.start, geom.end)
+        done = np.abs(s_new - s) < 1e-10 * max(1.0, abs(geom.end))
+        s = s_new
+        if done.all():
+            break
+    x, y, h, _ = _state(geom, s)
+    c, sn = np.cos(h), np.sin(h)
+    dx, dy = px - x, py - y
+    return s, dx * c + dy * sn, -dx * sn + dy * c, np.hypot(dx, dy)
+
+
 def station_offset(
     geom: HorizontalGeometry, northing: ArrayLike, easting: ArrayLike, *, candidates: int = 3
 ) -> tuple[NDArray[np.float64], NDArray[np.float64], NDArray[np.int8]]:
@@ -616,30 +645,11 @@ def station_offset(
     best_t = np.zeros(len(px))
     best_o = np.zeros(len(px))
     for j in range(k):
-        s = samples[nearest[:, j]]
-        for _ in range(12):
-            x, y, h, kap = _state(geom, s)
-            c, sn = np.cos(h), np.sin(h)
-            dx, dy = px - x, py - y
-            t = dx * c + dy * sn
-            o = -dx * sn + dy * c
-            den = 1.0 - kap * o
-            step = np.where(den > 0.2, t / np.where(den > 0.2, den, 1.0), t)
-            s_new = np.clip(s + step, geom.start, geom.end)
-            done = np.abs(s_new - s) < 1e-10 * max(1.0, abs(geom.end))
-            s = s_new
-            if done.all():
-                break
-        x, y, h, _ = _state(geom, s)
-        c, sn = np.cos(h), np.sin(h)
-        dx, dy = px - x, py - y
-        t = dx * c + dy * sn
-        o = -dx * sn + dy * c
-        dist = np.hypot(dx, dy)
+        s, t_along, o, dist = _refine(geom, px, py, samples[nearest[:, j]])
         better = dist < best_d - 1e-12
         best_d = np.where(better, dist, best_d)
         best_s = np.where(better, s, best_s)
-        best_t = np.where(better, t, best_t)
+        best_t = np.where(better, t_along, best_t)
         best_o = np.where(better, o, best_o)
     tol = 1e-9 * max(1.0, abs(geom.end))
     status = np.zeros(len(px), dtype=np.int8)
@@ -699,6 +709,11 @@ def _intersect(p, h1, q, h2):
     return p[0] + t * d1[0], p[1] + t * d1[1]
 
 
+_CURVE_CACHE: weakref.WeakKeyDictionary[HorizontalGeometry, tuple[HorizontalCurve, ...]] = (
+    weakref.WeakKeyDictionary()
+)
+
+
 def curve_data(geom: HorizontalGeometry) -> tuple[HorizontalCurve, ...]:
     """Curve data for every circular curve, with its spirals when they touch a tangent.
 
@@ -727,8 +742,9 @@ def curve_data(geom: HorizontalGeometry) -> tuple[HorizontalCurve, ...]:
         if pi is not None:
             t_in = math.hypot(pi[0] - first.x0, pi[1] - first.y0)
             t_out = math.hypot(last.x1 - pi[0], last.y1 - pi[1])
-            _, off, _ = station_offset(geom, [pi[1]], [pi[0]])
-            external = abs(float(off[0]))
+            mid = np.array([(first.start_station + last.end_station) / 2.0])
+            _, _, _, dist = _refine(geom, np.array([pi[0]]), np.array([pi[1]]), mid)
+            external = float(dist[0])
         else:
             t_in = t_out = external = math.nan
         sweep = g.length / radius

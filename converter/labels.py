@@ -19,6 +19,12 @@ __all__ = [
     "length_text",
 ]
 
+#: The caution printed on sheets, table pages and review reports.
+CAUTION = (
+    "Computed geometry for review. Verify against the governing agency's standards; "
+    "design decisions rest with the responsible licensed engineer."
+)
+
 #: Decimals of numbers in CSV/JSON: far below any survey precision, and enough
 #: to make float noise (1e-12) disappear so outputs are stable.
 DATA_DECIMALS = 6
@@ -45,8 +51,13 @@ def length_text(value: float, units: Units) -> str:
     --------
     >>> length_text(121.0, Units("foot")), length_text(121.0, Units("meter"))
     ('121.00', '121.000')
+    >>> length_text(-1e-12, Units("foot"))  # never "-0.00"
+    '0.00'
     """
-    return f"{value:.{3 if units.metric else 2}f}"
+    text = f"{value:.{3 if units.metric else 2}f}"
+    if text.startswith("-") and float(text) == 0.0:
+        text = text[1:]
+    return text
 
 
 def elevation_text(value: float, units: Units) -> str:
@@ -156,11 +167,34 @@ def grid_elevation_text(elevation: float, step: float) -> str:
     return f"{elevation:.{decimals}f}"
 
 
-#: Width of a character as a fraction of the text height, for laying out labels
-#: in the sans-serif fonts gradeline uses (a little wider than their average).
-CHAR_WIDTH = 0.62
+#: Advance widths (per 1000 units of text height) of the Helvetica/Arial family,
+#: the metrics of the standard PDF font and of the DXF text style (from memory;
+#: tests compare them with reportlab's font metrics).
+_WIDTHS = {
+    **dict.fromkeys("0123456789", 556),
+    " ": 278, ".": 278, ",": 278, ":": 278, ";": 278, "/": 278, "+": 584, "=": 584,
+    "-": 333, "%": 889, "(": 333, ")": 333, "°": 400, "'": 191, '"': 355, "&": 667,
+    "A": 667, "B": 667, "C": 722, "D": 722, "E": 667, "F": 611, "G": 778, "H": 722,
+    "I": 278, "J": 500, "K": 667, "L": 556, "M": 833, "N": 722, "O": 778, "P": 667,
+    "Q": 778, "R": 722, "S": 667, "T": 611, "U": 722, "V": 667, "W": 944, "X": 667,
+    "Y": 667, "Z": 611,
+    "a": 556, "b": 556, "c": 500, "d": 556, "e": 556, "f": 278, "g": 556, "h": 556,
+    "i": 222, "j": 222, "k": 500, "l": 222, "m": 833, "n": 556, "o": 556, "p": 556,
+    "q": 556, "r": 333, "s": 500, "t": 278, "u": 556, "v": 500, "w": 722, "x": 500,
+    "y": 500, "z": 500,
+}
+#: Width of any other character, and the safety margin on every label.
+_OTHER_WIDTH = 1000
+_MARGIN = 1.04
 
 
 def text_width(text: str, height: float) -> float:
-    """Estimated width of a one-line label."""
-    return len(text) * CHAR_WIDTH * height
+    """Width of a one-line label in the sans-serif fonts gradeline draws with.
+
+    Examples
+    --------
+    >>> round(text_width("12+00", 5.0), 2)
+    14.6
+    """
+    units = sum(_WIDTHS.get(ch, _OTHER_WIDTH) for ch in text)
+    return units / 1000.0 * height * _MARGIN

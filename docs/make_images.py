@@ -58,5 +58,28 @@ def main() -> None:
     render_dxf(plan, (21250.0, 22450.0, 10430.0, 10830.0), 12.0, ROOT / "docs" / "plan.png", dpi=150)
 
 
+
+
+def sheet_page() -> None:
+    """docs/sheet.png: page 2 of the sample's plan-and-profile sheets (needs pdftoppm)."""
+    import subprocess
+    import tempfile
+
+    from converter.config import read_config
+    from converter.selection import select
+    from sheets.pdf import SheetOptions, render_sheets
+
+    cfg = read_config(str(ROOT / "samples" / "sheets.toml"))["sheet"]
+    ctx = select(ROOT / "samples" / "orrin-vale-bypass.xml", "Orrin Vale Bypass")
+    opts = SheetOptions(size="ansi-d", project=cfg["project"], date=cfg["date"],
+                        drawn_by=cfg["drawn_by"], sheet_prefix=cfg["sheet_prefix"])
+    with tempfile.TemporaryDirectory() as tmp:
+        pdf = Path(tmp) / "s.pdf"
+        pdf.write_bytes(render_sheets(ctx, opts))
+        subprocess.run(["pdftoppm", "-r", "60", "-f", "2", "-l", "2", "-png", "-singlefile",
+                        str(pdf), str(ROOT / "docs" / "sheet")], check=True)
+
+
 if __name__ == "__main__":
     main()
+    sheet_page()

@@ -1,0 +1,231 @@
+"""Sheet layout engine: paper, viewports and the sheet series, as pure functions.
+
+Everything is in PDF points (1/72 in) on paper and in file units in the model.
+Nothing here draws; :mod:`sheets.pdf` uses these numbers, and tests check them
+without rendering anything.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+from converter.errors import UsageError
+from converter.layout import DraftingLayout
+
+__all__ = [
+    "PAPER_SIZES",
+    "Frame",
+    "SheetGeometry",
+    "Viewport",
+    "sheet_frames",
+    "sheet_geometry",
+    "table_pages",
+]
+
+POINT_M = 0.0254 / 72.0  # one PDF point in metres
+
+#: Paper sizes (width, height) in points, landscape (common practice: ANSI D full
+#: size, ANSI B half size; ISO A1 and A3 in metric work).
+PAPER_SIZES: dict[str, tuple[float, float]] = {
+    "ansi-d": (34 * 72.0, 22 * 72.0),
+    "ansi-b": (17 * 72.0, 11 * 72.0),
+    "iso-a1": (841 / 25.4 * 72.0, 594 / 25.4 * 72.0),
+    "iso-a3": (420 / 25.4 * 72.0, 297 / 25.4 * 72.0),
+}
+
+
+@dataclass(frozen=True, slots=True)
+class Viewport:
+    """A rectangle on the sheet, in points."""
+
+    x: float
+    y: float
+    w: float
+    h: float
+
+    @property
+    def cx(self) -> float:
+        """Centre x."""
+        return self.x + self.w / 2
+
+    @property
+    def cy(self) -> float:
+        """Centre y."""
+        return self.y + self.h / 2
+
+
+@dataclass(frozen=True, slots=True)
+class SheetGeometry:
+    """Where everything sits on one sheet."""
+
+    size: str
+    width: float
+    height: float
+    margin: float
+    border: Viewport
+    title: Viewport
+    plan: Viewport
+    profile: Viewport
+    text: float  # base text size of sheet furniture, points
+
+    @property
+    def factor(self) -> float:
+        """Size relative to a full-size (ANSI D) sheet."""
+        return self.width / PAPER_SIZES["ansi-d"][0]
+
+
+def sheet_geometry(size: str) -> SheetGeometry:
+    """Paper, border, title band, plan view (upper) and profile view (lower).
+
+    Examples
+    --------
+    >>> g = sheet_geometry("ansi-d")
+    >>> round(g.width / 72), round(g.height / 72), round(g.profile.w / 72, 2)
+    (34, 22, 32.5)
+    """
+    if size not in PAPER_SIZES:
+        raise UsageError(f"unknown sheet size {size!r}; choose one of " + ", ".join(PAPER_SIZES))
+    width, height = PAPER_SIZES[size]
+    f = width / PAPER_SIZES["ansi-d"][0]
+    margin = 36.0 * f  # 0.5 in on a full-size sheet
+    border = Viewport(margin, margin, width - 2 * margin, height - 2 * margin)
+    title_h = 1.3 * 72.0 * f
+    title = Viewport(border.x, border.y, border.w, title_h)
+    inner = 0.25 * 72.0 * f
+    usable_y = title.y + title.h + inner
+    usable_h = border.y + border.h - inner - usable_y
+    plan_h = usable_h * 0.36
+    plan = Viewport(border.x + inner, usable_y + usable_h - plan_h, border.w - 2 * inner, plan_h)
+    prof_h = usable_h - plan_h - inner
+    profile = Viewport(border.x + inner, usable_y, border.w - 2 * inner, prof_h)
+    return SheetGeometry(size, width, height, margin, border, title, plan, profile, 9.0 * max(f, 0.7))
+
+
+@dataclass(frozen=True, slots=True)
+class Frame:
+    """One sheet of the series: the stations it shows and its match lines."""
+
+    number: int
+    view_start: float
+    view_end: float
+    match_start: float
+    match_end: float
+
+    @property
+    def first(self) -> bool:
+        """True on sheet 1."""
+        return self.number == 1
+
+
+def model_per_point(layout: DraftingLayout) -> float:
+    """Model length (file units) of one point of paper at the layout's scale."""
+    return POINT_M / layout.paper_m * layout.scale
+
+
+def sheet_frames(start: float, end: float, geometry: SheetGeometry,
+                 layout: DraftingLayout) -> list[Frame]:
+    """Split [start, end] into sheets with round match stations and a small overlap.
+
+    Each sheet shows a whole number of major stations between its match lines
+    (the first starts at the major station at or before ``start``) plus one
+    minor station interval of overlap on each side.
+
+    Examples
+    --------
+    >>> from converter.layout import default_layout
+    >>> from converter.units import Units
+    >>> lay = default_layout(Units("foot"))
+    >>> fr = sheet_frames(1000.0, 6200.0, sheet_geometry("ansi-d"), lay)
+    >>> len(fr), fr[0].match_start, fr[0].match_end, fr[0].view_start
+    (4, 1000.0, 2400.0, 950.0)
+    """
+    if not end > start:
+        raise UsageError("nothing to put on sheets: the alignment has no length")
+    per_pt = model_per_point(layout)
+    h = layout.text_height
+    available = geometry.profile.w * per_pt - 2 * 9.0 * h  # room for elevation labels
+    overlap = layout.station_minor
+    major = layout.station_major
+    span = math.floor((available - 2 * overlap) / major) * major
+    if span < major:
+        raise UsageError(
+            f"scale {layout.scale:g} leaves less than one station per sheet on {geometry.size}; "
+            "choose a smaller scale number or a larger sheet"
+        )
+    first = math.floor(start / major + 1e-9) * major
+    count = max(1, math.ceil((end - first) / span - 1e-9))
+    frames = []
+    for i in range(count):
+        m0 = first + i * span
+        m1 = m0 + span
+        frames.append(Frame(i + 1, m0 - overlap, m1 + overlap, m0, m1))
+    return frames
+
+
+def table_capacity(geometry: SheetGeometry, row_height: float) -> int:
+    """Rows of ``row_height`` that fit between the top border and the title band."""
+    top = geometry.border.y + geometry.border.h - 1.5 * geometry.text
+    bottom = geometry.title.y + geometry.title.h + geometry.text
+    return max(4, int((top - bottom) // row_height))
+
+
+#: Rows a table chunk needs besides its body rows: title, header and a gap.
+TABLE_OVERHEAD = 3
+
+
+def pack_tables(counts: list[int], capacity: int) -> list[list[tuple[int, int, int]]]:
+    """Pack tables of ``counts`` body rows onto pages of ``capacity`` rows.
+
+    Returns pages, each a list of (table index, first row, end row) chunks.
+    Tables follow each other on a page while they fit; a long table continues
+    on the next page with its title and header repeated.
+
+    Examples
+    --------
+    >>> pack_tables([2, 5, 30], 20)
+    [[(0, 0, 2), (1, 0, 5), (2, 0, 4)], [(2, 4, 21)], [(2, 21, 30)]]
+    """
+    pages: list[list[tuple[int, int, int]]] = []
+    page: list[tuple[int, int, int]] = []
+    room = capacity
+    for index, n in enumerate(counts):
+        first = 0
+        while first < n or (n == 0 and first == 0):
+            if room <= TABLE_OVERHEAD:
+                pages.append(page)
+                page, room = [], capacity
+            take = min(n - first, room - TABLE_OVERHEAD)
+            page.append((index, first, first + take))
+            room -= take + TABLE_OVERHEAD
+            first += take
+            if n == 0:
+                break
+    if page:
+        pages.append(page)
+    return pages
+
+
+#: How each drawing role looks on a PDF sheet: RGB (0-1), line width in points
+#: on a full-size sheet, dash pattern in points (empty for solid).
+PDF_STYLE: dict[str, tuple[tuple[float, float, float], float, tuple[float, ...]]] = {
+    "grade": ((0.05, 0.15, 0.75), 1.4, ()),
+    "ground": ((0.55, 0.33, 0.12), 0.8, (5.0, 3.0)),
+    "grid": ((0.78, 0.80, 0.84), 0.25, ()),
+    "grid_major": ((0.55, 0.58, 0.64), 0.5, ()),
+    "labels": ((0.0, 0.0, 0.0), 0.4, ()),
+    "pvi": ((0.60, 0.10, 0.55), 0.6, ()),
+    "tangents": ((0.60, 0.10, 0.55), 0.4, (4.0, 2.5)),
+    "info": ((0.35, 0.35, 0.35), 0.4, ()),
+    "plan": ((0.05, 0.15, 0.75), 1.4, ()),
+    "plan_ticks": ((0.0, 0.0, 0.0), 0.5, ()),
+    "plan_labels": ((0.0, 0.0, 0.0), 0.4, ()),
+    "plan_points": ((0.60, 0.10, 0.55), 0.6, ()),
+    "plan_notes": ((0.0, 0.0, 0.0), 0.4, ()),
+    "match": ((0.80, 0.10, 0.10), 0.9, (9.0, 3.0, 2.0, 3.0)),
+    "frame": ((0.0, 0.0, 0.0), 1.0, ()),
+}
+
+#: Height of a table row as a multiple of the sheet text size.
+TABLE_ROW = 1.7
+

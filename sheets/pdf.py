@@ -1,0 +1,461 @@
+"""PDF plan-and-profile sheets and table pages: the only module that imports reportlab.
+
+It lays out records computed elsewhere -- drafting items from
+:mod:`converter.drafting`, table text from :mod:`sheets.tables`, frames and
+viewports from :mod:`sheets.layout` -- and never computes geometry itself.
+"""
+
+from __future__ import annotations
+
+import io
+import math
+from dataclasses import dataclass, replace
+
+import numpy as np
+from reportlab.pdfbase.pdfmetrics import stringWidth
+from reportlab.pdfgen import canvas as rl_canvas
+
+from converter import drafting, horizontal, labels
+from converter.drafting import ArcItem, Circle, Drawing, Path, QuadCurve, Text
+from converter.layout import DraftingLayout, default_layout
+from converter.selection import AlignmentContext
+from sheets import tables
+from sheets.layout import (
+    PDF_STYLE,
+    TABLE_ROW,
+    Frame,
+    SheetGeometry,
+    Viewport,
+    model_per_point,
+    pack_tables,
+    sheet_frames,
+    sheet_geometry,
+    table_capacity,
+)
+
+__all__ = ["SheetOptions", "page_plan", "render_sheets"]
+
+FONT = "Helvetica"
+FONT_BOLD = "Helvetica-Bold"
+
+
+@dataclass(frozen=True, slots=True)
+class SheetOptions:
+    """What the title block says and how the sheets are scaled."""
+
+    size: str = "ansi-d"
+    scale: float | None = None
+    exaggeration: float = 10.0
+    interval: float | None = None
+    project: str = ""
+    date: str = ""
+    drawn_by: str = ""
+    sheet_prefix: str = ""
+
+
+class _Xform:
+    """Model -> paper: optional rotation about a model point, then scale and shift."""
+
+    def __init__(self, per_pt: float, origin: tuple[float, float], target: tuple[float, float],
+                 angle: float = 0.0) -> None:
+        self.k = 1.0 / per_pt
+        self.ox, self.oy = origin
+        self.tx, self.ty = target
+        self.c, self.s = math.cos(-angle), math.sin(-angle)
+        self.angle_deg = -math.degrees(angle)
+
+    def __call__(self, x: float, y: float) -> tuple[float, float]:
+        dx, dy = x - self.ox, y - self.oy
+        return (self.tx + self.k * (self.c * dx - self.s * dy),
+                self.ty + self.k * (self.s * dx + self.c * dy))
+
+    def many(self, pts) -> np.ndarray:
+        a = np.asarray(pts, dtype=float)
+        dx, dy = a[:, 0] - self.ox, a[:, 1] - self.oy
+        return np.column_stack([self.tx + self.k * (self.c * dx - self.s * dy),
+                                self.ty + self.k * (self.s * dx + self.c * dy)])
+
+
+def _style(c, role: str, f: float) -> None:
+    rgb, width, dash = PDF_STYLE.get(role, PDF_STYLE["labels"])
+    c.setStrokeColorRGB(*rgb)
+    c.setFillColorRGB(*rgb)
+    c.setLineWidth(width * max(f, 0.6))
+    c.setDash([d * max(f, 0.6) for d in dash] if dash else [])
+
+
+def _inside(box: np.ndarray, vp: Viewport) -> bool:
+    return bool(box[:, 0].min() >= vp.x and box[:, 0].max() <= vp.x + vp.w
+                and box[:, 1].min() >= vp.y and box[:, 1].max() <= vp.y + vp.h)
+
+
+def _text(c, item: Text, xf: _Xform, vp: Viewport | None) -> None:
+    x, y = xf(item.x, item.y)
+    size = item.height * xf.k
+    rot = item.rotation + xf.angle_deg
+    halign, valign = item.halign, item.valign
+    a = (rot + 180.0) % 360.0 - 180.0
+    if a > 90.0 or a <= -90.0:  # never upside down on the sheet
+        rot = a + (-180.0 if a > 90.0 else 180.0)
+        halign = {"left": "right", "right": "left"}.get(halign, halign)
+        valign = {"bottom": "top", "top": "bottom"}.get(valign, valign)
+    paper = Text(item.role, item.text, x, y, size, rot, halign, valign)
+    if vp is not None and not _inside(paper.corners(), vp):
+        return
+    c.saveState()
+    c.translate(x, y)
+    c.rotate(rot)
+    c.setFont(FONT, size)
+    base = {"bottom": 0.0, "middle": -0.36 * size, "top": -0.72 * size}[valign]
+    w = stringWidth(item.text, FONT, size)
+    dx = {"left": 0.0, "center": -w / 2, "right": -w}[halign]
+    c.drawString(dx, base, item.text)
+    c.restoreState()
+
+
+def _draw_items(c, items, xf: _Xform, vp: Viewport, f: float) -> None:
+    c.saveState()
+    p = c.beginPath()
+    p.rect(vp.x, vp.y, vp.w, vp.h)
+    c.clipPath(p, stroke=0, fill=0)
+    for item in items:
+        if isinstance(item, Text):
+            continue
+        _style(c, item.role, f)
+        if isinstance(item, Path) or isinstance(item, ArcItem):
+            pts = xf.many(item.points if isinstance(item, Path) else item.polyline)
+            path = c.beginPath()
+            path.moveTo(*pts[0])
+            for q in pts[1:]:
+                path.lineTo(*q)
+            c.drawPath(path, stroke=1, fill=0)
+        elif isinstance(item, QuadCurve):
+            p0, p1, p2 = (np.array(xf(*q)) for q in item.control)
+            c1, c2 = p0 + 2.0 / 3.0 * (p1 - p0), p2 + 2.0 / 3.0 * (p1 - p2)  # exact cubic form
+            path = c.beginPath()
+            path.moveTo(*p0)
+            path.curveTo(*c1, *c2, *p2)
+            c.drawPath(path, stroke=1, fill=0)
+        elif isinstance(item, Circle):
+            x, y = xf(*item.center)
+            c.circle(x, y, item.radius * xf.k, stroke=1, fill=0)
+    c.restoreState()
+    for item in items:
+        if isinstance(item, Text):
+            _style(c, item.role, f)
+            _text(c, item, xf, vp)
+
+
+def _item_boxes(drawing: Drawing) -> np.ndarray:
+    """Model-space bounding box of every item (for culling per sheet)."""
+    out = np.empty((len(drawing.items), 4))
+    for i, it in enumerate(drawing.items):
+        if isinstance(it, Text):
+            pts = it.corners()
+        elif isinstance(it, Path):
+            pts = np.asarray(it.points)
+        elif isinstance(it, (ArcItem,)):
+            pts = np.asarray(it.polyline)
+        elif isinstance(it, QuadCurve):
+            pts = np.asarray(it.control)
+        else:
+            pts = np.array([[it.center[0] - it.radius, it.center[1] - it.radius],
+                            [it.center[0] + it.radius, it.center[1] + it.radius]])
+        out[i] = (pts[:, 0].min(), pts[:, 1].min(), pts[:, 0].max(), pts[:, 1].max())
+    return out
+
+
+@dataclass(frozen=True)
+class PagePlan:
+    """What the document will hold, computed before drawing (and by tests)."""
+
+    frames: list[Frame]
+    tables: list[tables.TextTable]
+    table_pages: list[list[tuple[int, int, int]]]  # per page: (table, first row, end row)
+
+    @property
+    def pages(self) -> int:
+        """Total page count."""
+        return len(self.frames) + len(self.table_pages)
+
+
+def _layout(ctx: AlignmentContext, opts: SheetOptions) -> DraftingLayout:
+    return default_layout(ctx.document.units, opts.scale, opts.exaggeration)
+
+
+def page_plan(ctx: AlignmentContext, opts: SheetOptions) -> PagePlan:
+    """Sheets and table pages of the document, without drawing anything."""
+    geo = sheet_geometry(opts.size)
+    lay = _layout(ctx, opts)
+    start = min(ctx.start, ctx.horizontal.start if ctx.horizontal else ctx.start)
+    end = max(ctx.end, ctx.horizontal.end if ctx.horizontal else ctx.end)
+    frames = sheet_frames(start, end, geo, lay) if ctx.geometry is not None else []
+    interval = opts.interval or (50.0 if not ctx.document.units.metric else 20.0)
+    tabs = []
+    if ctx.horizontal is not None:
+        tabs.append(tables.horizontal_curve_table(ctx))
+    if ctx.geometry is not None:
+        tabs.append(tables.vertical_curve_table(ctx))
+        tabs.append(tables.station_table(ctx, interval))
+    pages = pack_tables([len(tab.rows) for tab in tabs],
+                        table_capacity(geo, TABLE_ROW * geo.text))
+    return PagePlan(frames, tabs, pages)
+
+
+def _title_block(c, geo: SheetGeometry, ctx: AlignmentContext, opts: SheetOptions,
+                 page: int, total: int, scales: str) -> None:
+    t = geo.title
+    f = geo.factor
+    ts = geo.text
+    _style(c, "frame", f)
+    c.rect(geo.border.x, geo.border.y, geo.border.w, geo.border.h, stroke=1, fill=0)
+    c.rect(t.x, t.y, t.w, t.h, stroke=1, fill=0)
+    cells = [
+        ("PROJECT", opts.project or ctx.document.project or "-", 0.24),
+        ("ALIGNMENT", ctx.alignment.name, 0.16),
+        ("SCALES", scales, 0.16),
+        ("DATE / BY", " ".join(v for v in (opts.date, opts.drawn_by) if v) or "-", 0.10),
+        ("NOTE", labels.CAUTION, 0.24),
+        ("SHEET", f"{opts.sheet_prefix}{page} OF {total}", 0.10),
+    ]
+    x = t.x
+    for name, value, frac in cells:
+        w = t.w * frac
+        c.rect(x, t.y, w, t.h, stroke=1, fill=0)
+        c.setFont(FONT, 0.75 * ts)
+        c.drawString(x + 0.4 * ts, t.y + t.h - 1.1 * ts, name)
+        size = 1.25 * ts if name in ("SHEET", "ALIGNMENT") else ts
+        lines = _wrap(value, FONT, size, w - 0.8 * ts)
+        y = t.y + t.h - 2.6 * ts
+        for line in lines[: max(1, int((t.h - 2.2 * ts) // (1.25 * size)))]:
+            c.setFont(FONT_BOLD if name in ("SHEET", "ALIGNMENT") else FONT, size)
+            c.drawString(x + 0.4 * ts, y, line)
+            y -= 1.25 * size
+        x += w
+
+
+def _wrap(text: str, font: str, size: float, width: float) -> list[str]:
+    words, lines, line = text.split(), [], ""
+    for w in words:
+        trial = f"{line} {w}".strip()
+        if stringWidth(trial, font, size) <= width or not line:
+            line = trial
+        else:
+            lines.append(line)
+            line = w
+    return lines + ([line] if line else [])
+
+
+def _scale_text(ctx: AlignmentContext, lay: DraftingLayout) -> str:
+    if ctx.document.units.metric:
+        return f"H 1:{lay.scale:g}  V 1:{lay.scale / lay.exaggeration:g}"
+    return f'H 1" = {lay.scale:g}\'  V 1" = {lay.scale / lay.exaggeration:g}\''
+
+
+def _scale_bars(c, geo: SheetGeometry, ctx: AlignmentContext, lay: DraftingLayout) -> None:
+    f, ts = geo.factor, geo.text
+    per_pt = model_per_point(lay)
+    # in the title block's SCALES cell, under its text
+    x, y = geo.title.x + geo.title.w * 0.40 + 0.6 * ts, geo.title.y + 0.9 * ts
+    unit = ctx.document.units.symbol
+    length = lay.station_major
+    w = length / per_pt
+    _style(c, "frame", f)
+    c.setLineWidth(0.6)
+    for k in range(4):
+        c.setFillColorRGB(*((0, 0, 0) if k % 2 == 0 else (1, 1, 1)))
+        c.rect(x + k * w / 4, y, w / 4, 0.35 * ts, stroke=1, fill=1)
+    c.setFillColorRGB(0, 0, 0)
+    c.setFont(FONT, 0.75 * ts)
+    c.drawString(x, y + 0.6 * ts, "0")
+    c.drawRightString(x + w, y + 0.6 * ts, f"{length:g} {unit} HORIZONTAL")
+    zmaj, _ = lay.elevation_steps()
+    hv = zmaj * lay.exaggeration / per_pt
+    vx = x + w + 2 * ts
+    for k in range(2):
+        c.setFillColorRGB(*((0, 0, 0) if k % 2 == 0 else (1, 1, 1)))
+        c.rect(vx, y + k * hv / 2, 0.35 * ts, hv / 2, stroke=1, fill=1)
+    c.setFillColorRGB(0, 0, 0)
+    c.drawString(vx + 0.7 * ts, y, f"{zmaj:g} {unit} VERTICAL")
+
+
+def _north_arrow(c, geo: SheetGeometry, angle: float) -> None:
+    """North arrow in the plan view's corner; ``angle`` is the view rotation (radians)."""
+    ts = geo.text
+    vp = geo.plan
+    cx, cy = vp.x + vp.w - 3 * ts, vp.y + vp.h - 3.5 * ts
+    # north (model +y) on paper after rotating the view by -angle
+    nx, ny = math.sin(angle), math.cos(angle)
+    r = 2.2 * ts
+    _style(c, "frame", geo.factor)
+    c.setDash([])
+    c.circle(cx, cy, r, stroke=1, fill=0)
+    tip = (cx + nx * r, cy + ny * r)
+    left = (cx - ny * 0.45 * r - nx * 0.5 * r, cy + nx * 0.45 * r - ny * 0.5 * r)
+    right = (cx + ny * 0.45 * r - nx * 0.5 * r, cy - nx * 0.45 * r - ny * 0.5 * r)
+    p = c.beginPath()
+    p.moveTo(*tip)
+    p.lineTo(*left)
+    p.lineTo(cx, cy)
+    p.lineTo(*right)
+    p.close()
+    c.drawPath(p, stroke=1, fill=1)
+    c.setFont(FONT_BOLD, ts)
+    c.drawCentredString(cx + nx * (r + 0.9 * ts), cy + ny * (r + 0.9 * ts) - 0.36 * ts, "N")
+
+
+def _match_label(station: str, sheet: int | None) -> str:
+    return f"MATCH LINE STA {station}" + (f" - SEE SHEET {sheet}" if sheet else "")
+
+
+def _sheet(c, ctx, opts, geo, lay, frame: Frame, total_frames: int, total_pages: int,
+           plan: Drawing | None, plan_boxes: np.ndarray | None) -> None:
+    f, ts = geo.factor, geo.text
+    per_pt = model_per_point(lay)
+    h = lay.text_height
+    st = ctx.stationing
+    # -- profile: its own datum; exaggeration reduced if the window is too tall --
+    used = lay
+    for exag in (lay.exaggeration, lay.exaggeration / 2, lay.exaggeration / 5, lay.exaggeration / 10):
+        used = replace(lay, exaggeration=exag)
+        prof = drafting.profile_drawing(ctx, used, window=(frame.view_start, frame.view_end),
+                                        strip=True)
+        x0, y0, x1, y1 = prof.extents
+        if (y1 - y0) / per_pt <= geo.profile.h - 2.5 * ts or exag <= 1:
+            break
+    vp = geo.profile
+    xf = _Xform(per_pt, (frame.view_start - 9 * h, y0), (vp.x, vp.y))
+    _draw_items(c, prof.items, xf, vp, f)
+    for m, other in ((frame.match_start, frame.number - 1), (frame.match_end, frame.number + 1)):
+        if other < 1 or other > total_frames:
+            continue
+        _style(c, "match", f)
+        xm, _ = xf(m, 0.0)
+        c.line(xm, vp.y, xm, vp.y + vp.h - 2.2 * ts)
+        c.setFont(FONT_BOLD, 0.85 * ts)
+        text = _match_label(st.label(m), other)
+        if other < frame.number:
+            c.drawString(xm + 0.4 * ts, vp.y + vp.h - 2.0 * ts, text)
+        else:
+            c.drawRightString(xm - 0.4 * ts, vp.y + vp.h - 2.0 * ts, text)
+    # -- plan: the alignment turned to run left to right ----------------------
+    angle = 0.0
+    if plan is not None and ctx.horizontal is not None:
+        hz = ctx.horizontal
+        a = min(max(frame.match_start, hz.start), hz.end)
+        b = min(max(frame.match_end, hz.start), hz.end)
+        (na, nb), (ea, eb), _ = horizontal.evaluate(hz, [a, b])
+        angle = math.atan2(nb - na, eb - ea)
+        mid = ((ea + eb) / 2, (na + nb) / 2)
+        pvp = geo.plan
+        center_x = xf((a + b) / 2, 0.0)[0]
+        pxf = _Xform(per_pt, mid, (center_x, pvp.cy), angle)
+        # cull items far from this sheet (bounding boxes in model space)
+        reach = math.hypot(pvp.w, pvp.h) * per_pt
+        near = ((plan_boxes[:, 2] >= mid[0] - reach) & (plan_boxes[:, 0] <= mid[0] + reach)
+                & (plan_boxes[:, 3] >= mid[1] - reach) & (plan_boxes[:, 1] <= mid[1] + reach))
+        items = [plan.items[i] for i in np.flatnonzero(near)]
+        _draw_items(c, items, pxf, pvp, f)
+        for m, other in ((frame.match_start, frame.number - 1), (frame.match_end, frame.number + 1)):
+            if other < 1 or other > total_frames or not (hz.start <= m <= hz.end):
+                continue
+            n_, e_, hd = (float(v) for v in horizontal.evaluate(hz, m))
+            px, py = pxf(e_, n_)
+            da = hd - angle
+            dx, dy = -math.sin(da), math.cos(da)
+            span = pvp.h * 0.42
+            _style(c, "match", f)
+            c.line(px - dx * span, py - dy * span, px + dx * span, py + dy * span)
+            c.setFont(FONT_BOLD, 0.85 * ts)
+            c.saveState()
+            c.translate(px + dx * span, py + dy * span)
+            c.rotate(math.degrees(math.atan2(dy, dx)) - 180)
+            c.drawString(0.3 * ts, (0.3 if other > frame.number else -1.1) * ts,
+                         _match_label(st.label(m), other))
+            c.restoreState()
+        _north_arrow(c, geo, angle)
+    _style(c, "frame", f)
+    c.setDash([])
+    for v in (geo.plan, geo.profile):
+        c.rect(v.x, v.y, v.w, v.h, stroke=1, fill=0)
+    c.setFont(FONT_BOLD, 1.2 * ts)
+    c.setFillColorRGB(0, 0, 0)
+    c.drawString(geo.plan.x + 0.5 * ts, geo.plan.y + geo.plan.h - 1.6 * ts, "PLAN")
+    c.drawString(vp.x + 0.5 * ts, vp.y + vp.h - 1.6 * ts, "PROFILE")
+    _title_block(c, geo, ctx, opts, frame.number, total_pages, _scale_text(ctx, used))
+    _scale_bars(c, geo, ctx, used)
+
+
+def _table_page(c, geo: SheetGeometry, chunks) -> None:
+    ts = geo.text
+    rh = TABLE_ROW * ts
+    b = geo.border
+    x0 = b.x + 2 * ts
+    width = b.w - 4 * ts
+    top = b.y + b.h - 1.5 * ts
+    for tab, first, last in chunks:
+        top -= rh
+        c.setFillColorRGB(0, 0, 0)
+        c.setFont(FONT_BOLD, 1.2 * ts)
+        c.drawString(x0, top + 0.45 * ts, tab.title + (" (CONTINUED)" if first else ""))
+        total_w = sum(tab.widths)
+        xs = [x0]
+        for w in tab.widths:
+            xs.append(xs[-1] + width * w / total_w)
+        rows = [tab.header] + list(tab.rows[first:last])
+        _style(c, "frame", geo.factor)
+        c.setLineWidth(0.5)
+        for r, row in enumerate(rows):
+            y = top - (r + 1) * rh
+            if r == 0:
+                c.setFillColorRGB(0.88, 0.90, 0.94)
+                c.rect(x0, y, width, rh, stroke=0, fill=1)
+                c.setFillColorRGB(0, 0, 0)
+            c.line(x0, y, x0 + width, y)
+            font = FONT_BOLD if r == 0 else FONT
+            for j, cell in enumerate(row):
+                size = 0.9 * ts
+                avail = xs[j + 1] - xs[j] - 0.6 * ts
+                while stringWidth(cell, font, size) > avail and size > 0.5 * ts:
+                    size *= 0.92
+                c.setFont(font, size)
+                c.drawCentredString((xs[j] + xs[j + 1]) / 2, y + 0.55 * ts, cell)
+        y_end = top - len(rows) * rh
+        c.line(x0, top, x0 + width, top)
+        for x in xs:
+            c.line(x, top, x, y_end)
+        if not tab.rows:
+            c.setFont(FONT, 0.9 * ts)
+            c.drawString(x0 + 0.5 * ts, y_end - 1.2 * ts, "(none)")
+        top = y_end - 2 * rh
+
+
+def render_sheets(ctx: AlignmentContext, opts: SheetOptions) -> bytes:
+    """The whole PDF: plan-and-profile sheets, then curve and station tables.
+
+    Deterministic: reportlab's invariant mode pins dates and document IDs.
+    """
+    geo = sheet_geometry(opts.size)
+    lay = _layout(ctx, opts)
+    plan_info = page_plan(ctx, opts)
+    total = plan_info.pages
+    buf = io.BytesIO()
+    c = rl_canvas.Canvas(buf, pagesize=(geo.width, geo.height), invariant=1,
+                         pageCompression=1)
+    c.setTitle(f"{ctx.alignment.name} - plan and profile")
+    c.setAuthor(opts.drawn_by or "gradeline")
+    c.setCreator("gradeline")
+    c.setSubject(labels.CAUTION)
+    plan = drafting.plan_drawing(ctx, lay) if ctx.horizontal is not None else None
+    boxes = _item_boxes(plan) if plan is not None else None
+    for frame in plan_info.frames:
+        _sheet(c, ctx, opts, geo, lay, frame, len(plan_info.frames), total, plan, boxes)
+        c.showPage()
+    page = len(plan_info.frames)
+    for chunks in plan_info.table_pages:
+        page += 1
+        _table_page(c, geo, [(plan_info.tables[i], a, b) for i, a, b in chunks])
+        _title_block(c, geo, ctx, opts, page, total, _scale_text(ctx, lay))
+        c.showPage()
+    c.save()
+    return buf.getvalue()
