@@ -189,6 +189,26 @@ def cmd_sheets(args: argparse.Namespace) -> int:
     return 0
 
 
+def cmd_review(args: argparse.Namespace) -> int:
+    from converter import review
+    from converter.reports import review_payload, review_text
+
+    ctx = select(args.file, args.alignment, args.profile, need_profile=True)
+    assert ctx.geometry is not None
+    metric = ctx.document.units.metric
+    crit = review.load_criteria(args.criteria, metric)
+    speed = args.speed
+    given = args.units or crit.speed_unit
+    if given != crit.speed_unit:  # the file's units decide the controls; convert the speed
+        speed = speed * review.MPH_TO_KMH if given == "mph" else speed / review.MPH_TO_KMH
+    rev = review.review_profile(ctx.geometry, crit, speed, curbed=args.curbed,
+                                passing=args.passing, step=args.step,
+                                length_unit=ctx.document.units.symbol)
+    text = json_text(review_payload(ctx, rev)) if args.json else review_text(ctx, rev)
+    _emit(text, args.output, [args.file])
+    return 1 if rev.failed else 0
+
+
 def _write_file(path: str, data: bytes, inputs: Sequence[str]) -> None:
     refuse_overwrite(path, inputs)
     try:
@@ -418,6 +438,32 @@ def build_parser() -> argparse.ArgumentParser:
                    help="station table interval (default 50 ft / 20 m)")
     p.add_argument("--config", metavar="FILE", help="TOML file with a [sheet] table (see samples/sheets.toml)")
     p.set_defaults(func=cmd_sheets)
+
+    p = sub.add_parser(
+        "review",
+        help="design-control review: sight distance, comfort, appearance, drainage (exit 1 on failure)",
+        description=(
+            "Closed-form checks of every vertical curve for the design speed (crest stopping "
+            "sight distance, sag headlight sight distance, comfort, appearance, drainage on "
+            "curbed sections, passing sight distance on request) and the exact available "
+            "sight distance along the finished grade in both directions. Default controls: "
+            "AASHTO 2018 values shipped with gradeline; another agency's with --criteria. "
+            "The review does not replace the governing agency's standards or the "
+            "responsible engineer's judgment. Exit 0 all pass, 1 something fails, 2 bad input."
+        ),
+    )
+    _add_common(p)
+    p.add_argument("--speed", type=float, required=True, metavar="V", help="design speed")
+    p.add_argument("--units", choices=("mph", "kmh"),
+                   help="unit of --speed (default: mph for files in feet, kmh for metres)")
+    p.add_argument("--curbed", action="store_true", help="curbed section: flag drainage on flat curves")
+    p.add_argument("--passing", action="store_true", help="also check passing sight distance on crests")
+    p.add_argument("--criteria", metavar="FILE", help="TOML design controls (see converter/criteria/)")
+    p.add_argument("--step", type=float, metavar="D",
+                   help="station step of the sight-distance run (default 10 ft / 5 m)")
+    p.add_argument("--json", action="store_true", help="write JSON instead of text")
+    p.add_argument("-o", "--output", metavar="PATH", help="write here instead of standard output")
+    p.set_defaults(func=cmd_review)
 
     p = sub.add_parser("curves", help="one row per vertical curve: PVI, grades, A, L, K, BVC/EVC, high/low point")
     _add_common(p)

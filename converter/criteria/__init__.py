@@ -1,0 +1,1 @@
+"""Design-control data files shipped with gradeline."""
