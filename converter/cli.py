@@ -209,6 +209,58 @@ def cmd_review(args: argparse.Namespace) -> int:
     return 1 if rev.failed else 0
 
 
+def cmd_check(args: argparse.Namespace) -> int:
+    import math
+
+    from converter import check
+    from converter.dxf import layer_names, read_drawing, read_linework, read_mapping
+    from converter.reports import check_payload, check_text
+
+    doc = landxml.read(args.file)
+    if args.tolerance <= 0 or args.angle_tolerance <= 0:
+        raise UsageError("tolerances must be positive")
+    tol = check.Tolerances(args.tolerance, math.radians(args.angle_tolerance / 3600.0))
+    findings = check.check_document(doc, args.alignment, tol)
+    drawing = None
+    stationing = None
+    layer = args.layer or ""
+    if args.dxf:
+        ctx = select(doc, args.alignment, args.profile, need_profile=True)
+        assert ctx.geometry is not None
+        dxf_doc = read_drawing(args.dxf)
+        names = layer_names(dxf_doc)
+        if not layer:
+            layer = next((n for n in names if n.upper() == "PROFILE-GRADE"), "")
+            if not layer:
+                raise UsageError(f"{args.dxf}: name the profile layer with --layer; layers with "
+                                 "linework: " + (", ".join(names) or "none"))
+        lines = read_linework(dxf_doc, layer, tol.distance / 20.0)
+        if not lines:
+            raise UsageError(f"{args.dxf}: no LINE, LWPOLYLINE, POLYLINE, SPLINE or ARC on layer "
+                             f"{layer!r}; layers with linework: " + (", ".join(names) or "none"))
+        if (args.exaggeration is None) != (args.datum is None):
+            raise UsageError("give both --exaggeration and --datum, or neither")
+        if args.exaggeration is not None:
+            exag, datum, how = args.exaggeration, args.datum, "given"
+        else:
+            mapping = read_mapping(dxf_doc)
+            if "exaggeration" in mapping and "datum" in mapping:
+                exag, datum, how = float(mapping["exaggeration"]), float(mapping["datum"]), "from the drawing"
+            else:
+                exag, datum = check.fit_mapping(lines, ctx.geometry)
+                how = "fitted by least squares"
+        drawing = check.check_linework(lines, ctx.geometry, tol.distance, exag, datum, how)
+        stationing = ctx.stationing
+    if args.json:
+        text = json_text(check_payload(doc, findings, drawing, tol, args.dxf or "", layer))
+    else:
+        text = check_text(doc, findings, drawing, tol, args.dxf or "", layer, stationing)
+    _emit(text, args.output, [args.file] + ([args.dxf] if args.dxf else []))
+    over = any(f.verdict == "over" for f in findings) or (
+        drawing is not None and bool(drawing.over or drawing.uncovered))
+    return 1 if over else 0
+
+
 def _write_file(path: str, data: bytes, inputs: Sequence[str]) -> None:
     refuse_overwrite(path, inputs)
     try:
@@ -464,6 +516,33 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("--json", action="store_true", help="write JSON instead of text")
     p.add_argument("-o", "--output", metavar="PATH", help="write here instead of standard output")
     p.set_defaults(func=cmd_review)
+
+    p = sub.add_parser(
+        "check",
+        help="cross-check stated LandXML values and DXF profile linework (exit 1 on findings)",
+        description=(
+            "Recompute every stated value of the file from its coordinates (continuity, "
+            "tangency, lengths, staStart, chord, delta, radius, directions, spiral values, PI "
+            "points, alignment length; PVIs inside the alignment, curve overlaps, CircCurve "
+            "lengths, ground profiles inside the alignment) and, with --dxf, compare the "
+            "profile linework on a layer with the computed finished grade. Exit 0 when "
+            "everything agrees within tolerance, 1 when any finding exceeds it, 2 for bad input."
+        ),
+    )
+    _add_common(p)
+    p.add_argument("--dxf", metavar="DRAWING", help="DXF with drafted profile linework")
+    p.add_argument("--layer", metavar="NAME", help="layer of the finished-grade linework "
+                   "(default PROFILE-GRADE when present)")
+    p.add_argument("--exaggeration", type=float, metavar="E", help="vertical exaggeration of the drawing")
+    p.add_argument("--datum", type=float, metavar="D",
+                   help="elevation at y = 0 (default: read from a gradeline drawing, else fitted)")
+    p.add_argument("--tolerance", type=float, default=0.01, metavar="T",
+                   help="distance and elevation tolerance in file units (default 0.01)")
+    p.add_argument("--angle-tolerance", type=float, default=2.0, metavar="SEC",
+                   help="angle and direction tolerance in seconds of arc (default 2)")
+    p.add_argument("--json", action="store_true", help="write JSON instead of text")
+    p.add_argument("-o", "--output", metavar="PATH", help="write the report here")
+    p.set_defaults(func=cmd_check)
 
     p = sub.add_parser("curves", help="one row per vertical curve: PVI, grades, A, L, K, BVC/EVC, high/low point")
     _add_common(p)

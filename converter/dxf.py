@@ -214,3 +214,64 @@ def _unused() -> float:  # pragma: no cover - keeps math imported for typing too
 
 
 assert set(LAYER_STYLE) == set(LAYER_ROLES)
+
+
+LINEWORK_TYPES = ("LINE", "LWPOLYLINE", "POLYLINE", "SPLINE", "ARC")
+
+
+def read_drawing(path: str):
+    """Open a DXF file for reading; bad files become :class:`InputError`."""
+    from converter.errors import InputError
+    from converter.model import SourceRef
+
+    try:
+        return ezdxf.readfile(path)
+    except OSError as err:
+        raise InputError(f"cannot read the file ({err.strerror or err})", SourceRef(path), "DXF") from None
+    except ezdxf.DXFStructureError as err:
+        raise InputError(f"not a valid DXF file ({err})", SourceRef(path), "DXF") from None
+    except Exception as err:  # ezdxf raises many kinds on damaged files
+        raise InputError(f"not a readable DXF file ({type(err).__name__}: {err})",
+                         SourceRef(path), "DXF") from None
+
+
+def read_linework(doc: DxfDocument, layer: str, tolerance: float) -> list[np.ndarray]:
+    """Every LINE, LWPOLYLINE, POLYLINE, SPLINE and ARC on ``layer`` as (n, 2) point arrays.
+
+    Curved parts (splines, arcs, polyline bulges) are flattened so no point of the
+    drawn curve is farther than ``tolerance`` from the returned polyline; straight
+    parts keep their vertices exactly.
+    """
+    from ezdxf import path as ezpath
+
+    out: list[np.ndarray] = []
+    query = " ".join(LINEWORK_TYPES)
+    for e in doc.modelspace().query(query):
+        if e.dxf.layer.upper() != layer.upper():
+            continue
+        kind = e.dxftype()
+        try:
+            if kind == "LINE":
+                pts = [e.dxf.start, e.dxf.end]
+            elif kind == "SPLINE":  # on the B-spline itself: ezdxf's path form approximates it
+                pts = list(e.construction_tool().flattening(tolerance))
+            elif kind == "ARC":
+                pts = list(e.construction_tool().flattening(tolerance))
+            elif kind == "LWPOLYLINE" and not any(b for *_, b in e.get_points("xyb")):
+                pts = [(x, y) for x, y in e.get_points("xy")]
+            elif kind == "POLYLINE" and not any(v.dxf.bulge for v in e.vertices):
+                pts = [v.dxf.location for v in e.vertices]
+            else:  # polylines with bulges: flatten their arcs
+                pts = list(ezpath.make_path(e).flattening(distance=tolerance))
+        except Exception:  # noqa: BLE001 - an entity ezdxf cannot evaluate
+            continue
+        arr = np.array([(p[0], p[1]) for p in pts], dtype=np.float64)
+        if len(arr) >= 2:
+            out.append(arr)
+    return out
+
+
+def layer_names(doc: DxfDocument) -> list[str]:
+    """Names of the layers that hold linework."""
+    names = {e.dxf.layer for e in doc.modelspace().query(" ".join(LINEWORK_TYPES))}
+    return sorted(names)

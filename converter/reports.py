@@ -129,3 +129,99 @@ def review_payload(ctx: AlignmentContext, rev: Review) -> dict[str, Any]:
         "notes": list(rev.notes),
         "caution": labels.CAUTION,
     }
+
+
+# --------------------------------------------------------------------------- check
+def _val(v: float | None, unit: str = "") -> str:
+    if v is None:
+        return "-"
+    return f"{v:.4f}" if unit not in ("decimal dd.mm.ss",) else f"{v:.6f}"
+
+
+def check_summary(findings, drawing) -> str:
+    """The first line: findings over tolerance out of all checks."""
+    over = sum(f.verdict == "over" for f in findings)
+    total = len(findings)
+    if drawing is not None:
+        total += 2
+        over += (1 if drawing.over else 0) + (1 if drawing.uncovered else 0)
+    return f"{over} finding{'s' if over != 1 else ''} over tolerance in {total} checks"
+
+
+def check_text(doc, findings, drawing, tol, drawing_name: str = "", layer: str = "",
+               stationing=None) -> str:
+    """Readable cross-check report grouped by alignment and element; summary first."""
+    units = doc.units
+    lines = [check_summary(findings, drawing),
+             f"file {doc.path}; tolerances: {tol.distance:g} {units.symbol} for distances, "
+             f"{math.degrees(tol.angle) * 3600:g}\" for angles", ""]
+    from converter.stations import Stationing
+
+    current = None
+    stationing = Stationing(units)
+    for f in findings:
+        if f.alignment != current:
+            current = f.alignment
+            al = next((a for a in doc.alignments if a.name == current), None)
+            stationing = Stationing(units, al.equations if al else ())
+            lines.append(f"alignment {current!r}")
+        where = f.element + (f" {f.index}" if f.index is not None else "")
+        if f.station is not None:
+            where += f" at {stationing.label(f.station)}"
+        if f.source is not None and f.source.line is not None:
+            where += f" (line {f.source.line})"
+        verdict = {"over": "OVER", "ok": "ok", "info": "info"}[f.verdict]
+        if f.miss:
+            body = f"{f.quantity}: off by {f.stated:.4f}" + (f" {f.unit}" if f.unit else "")
+        elif f.stated is not None and f.computed is not None:
+            body = (f"{f.quantity}: stated {_val(f.stated, f.unit)}, computed {_val(f.computed, f.unit)}, "
+                    f"difference {f.difference:+.4f}" + (f" {f.unit}" if f.unit else ""))
+        else:
+            body = f"{f.quantity}: {f.message}"
+        note = (f" ({f.message})" if f.message and f.stated is not None and f.computed is not None
+                and not f.miss else "")
+        lines.append(f"  {verdict:<4}  {where}: {body}{note}")
+    if drawing is not None:
+        d = drawing
+        lab = stationing.label if stationing is not None else (lambda s: f"{s:.3f}")
+        lines += ["", f"drawing {drawing_name}, layer {layer!r}: x = station, y = (elevation - "
+                  f"{d.datum:.4f}) x {d.exaggeration:.6g} ({d.mapping_from})",
+                  f"  {d.samples} samples; deviation from the computed grade: max {d.max_deviation:.4f} "
+                  f"{units.symbol} at {lab(d.worst_station)}, mean {d.mean_deviation:.4f} {units.symbol}"]
+        if not d.over:
+            lines.append(f"  ok    within {tol.distance:g} {units.symbol} everywhere it is drawn")
+        for a, b, w in d.over:
+            lines.append(f"  OVER  {lab(a)} to {lab(b)}: deviation up to {w:+.4f} {units.symbol}")
+        for a, b in d.uncovered:
+            lines.append(f"  OVER  {lab(a)} to {lab(b)}: not covered by the drawing")
+    lines += ["", f"CAUTION: {labels.CAUTION}"]
+    return "\n".join(lines) + "\n"
+
+
+def check_payload(doc, findings, drawing, tol, drawing_name: str = "", layer: str = "") -> dict[str, Any]:
+    """The cross-check as JSON-ready data."""
+    out: dict[str, Any] = {
+        "summary": check_summary(findings, drawing),
+        "file": doc.path,
+        "tolerance": tol.distance,
+        "angle_tolerance_seconds": math.degrees(tol.angle) * 3600,
+        "findings": [
+            {"alignment": f.alignment, "element": f.element, "index": f.index, "station": f.station,
+             "quantity": f.quantity, "stated": f.stated, "computed": f.computed,
+             "difference": f.difference, "unit": f.unit, "verdict": f.verdict, "message": f.message,
+             "measures": "distance between stated and computed" if f.miss else "stated - computed",
+             "line": f.source.line if f.source else None}
+            for f in findings
+        ],
+        "caution": labels.CAUTION,
+    }
+    if drawing is not None:
+        d = drawing
+        out["drawing"] = {
+            "file": drawing_name, "layer": layer, "exaggeration": d.exaggeration, "datum": d.datum,
+            "mapping": d.mapping_from, "samples": d.samples, "max_deviation": d.max_deviation,
+            "mean_deviation": d.mean_deviation, "worst_station": d.worst_station,
+            "over_tolerance": [{"start": a, "end": b, "worst": w} for a, b, w in d.over],
+            "not_covered": [{"start": a, "end": b} for a, b in d.uncovered],
+        }
+    return out
