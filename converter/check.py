@@ -387,3 +387,33 @@ def check_linework(lines: list[np.ndarray], geom: vertical.VerticalGeometry, tol
         float(ss[worst]) if len(ss) else math.nan,
         tuple(over_runs), tuple(uncovered),
     )
+
+
+def check_ground_against_surface(alignment: Alignment, tin_at, tol: Tolerances,
+                                 surface: str) -> list[Finding]:
+    """Stated ``ProfSurf`` points against the TIN surface at the same stations.
+
+    ``tin_at`` maps an array of internal stations to TIN elevations (NaN off the
+    surface). One finding per ground profile, at its worst point.
+    """
+    c = _Collector(alignment.name, tol)
+    for gp in alignment.grounds:
+        s = np.array([x for p in gp.pieces for x in p.stations])
+        z = np.array([v for p in gp.pieces for v in p.elevations])
+        if not len(s):
+            continue
+        tin = np.asarray(tin_at(s))
+        on = np.isfinite(tin)
+        if not on.any():
+            c.note("ProfSurf", None, None, f"ground {gp.name!r} against surface {surface!r}", "info",
+                   "no point of the ground profile lies on the surface", gp.source)
+            continue
+        d = z[on] - tin[on]
+        worst = int(np.argmax(np.abs(d)))
+        over = int((np.abs(d) > tol.distance).sum())
+        c.distance("ProfSurf", None, float(s[on][worst]),
+                   f"ground {gp.name!r} against surface {surface!r} (worst point)",
+                   float(z[on][worst]), float(tin[on][worst]), gp.source,
+                   message=f"{over} of {int(on.sum())} points differ by more than {tol.distance:g}"
+                   + (f"; {int((~on).sum())} points off the surface" if (~on).any() else ""))
+    return c.items

@@ -47,6 +47,23 @@ def _add_common(p: argparse.ArgumentParser, *, profile: bool = True) -> None:
         p.add_argument("--profile", metavar="NAME", help="finished-grade profile (ProfAlign) name")
 
 
+def _add_ground(p: argparse.ArgumentParser) -> None:
+    p.add_argument("--ground", metavar="FILE",
+                   help="LandXML file with the existing-ground TIN (default: FILE itself when "
+                        "--surface is given)")
+    p.add_argument("--surface", metavar="NAME",
+                   help="TIN surface to sample along the alignment (default: the only one)")
+
+
+def _with_ground(ctx: AlignmentContext, args: argparse.Namespace):
+    """Replace the context's ground by the TIN surface the options ask for, if any."""
+    if not (getattr(args, "ground", None) or getattr(args, "surface", None)):
+        return ctx, None
+    from converter.selection import attach_surface
+
+    return attach_surface(ctx, args.ground, args.surface)
+
+
 def _add_output(p: argparse.ArgumentParser) -> None:
     p.add_argument("--format", choices=("csv", "json"), default="csv", help="output format (default csv)")
     p.add_argument("-o", "--output", metavar="PATH", help="write here instead of standard output")
@@ -85,6 +102,7 @@ def _render(ctx: AlignmentContext, fmt: str, columns: Sequence[str], rows: list[
 
 def cmd_table(args: argparse.Namespace) -> int:
     ctx = select(args.file, args.alignment, args.profile)
+    ctx, index = _with_ground(ctx, args)
     if args.at is not None:
         texts = [t for t in args.at.split(",") if t.strip()]
         if not texts:
@@ -94,8 +112,17 @@ def cmd_table(args: argparse.Namespace) -> int:
     else:
         stations, tags = tables.table_stations(ctx, interval=args.interval)
     rows = tables.station_rows(ctx, stations, tags)
+    columns = tables.STATION_COLUMNS
+    if index is not None:
+        from converter.selection import ground_at
+
+        columns = columns + ("ground", "cut_fill")
+        for row, z in zip(rows, ground_at(ctx, index, stations), strict=True):
+            row["ground"] = float(z)
+            row["cut_fill"] = row["elevation"] - float(z)
     _warn(ctx)
-    _emit(_render(ctx, args.format, tables.STATION_COLUMNS, rows), args.output, [args.file])
+    inputs = [args.file] + ([args.ground] if args.ground else [])
+    _emit(_render(ctx, args.format, columns, rows), args.output, inputs)
     return 0
 
 
@@ -126,6 +153,7 @@ def cmd_dxf(args: argparse.Namespace) -> int:
     from converter.layout import default_layout
 
     ctx = select(args.file, args.alignment, args.profile, need_profile=True)
+    ctx, _ = _with_ground(ctx, args)
     units = ctx.document.units
     layout = default_layout(units, args.scale, args.exaggeration).with_layers(_layer_names(args))
     drawing = drafting.profile_drawing(ctx, layout, args.curves)
@@ -161,6 +189,7 @@ def cmd_sheets(args: argparse.Namespace) -> int:
         raise UsageError(f"{args.config}: unknown [sheet] key {unknown[0]!r}; keys: "
                          + ", ".join(sorted(SHEET_KEYS)))
     ctx = select(args.file, args.alignment, args.profile, need_profile=True)
+    ctx, _ = _with_ground(ctx, args)
     size = args.size or sheet_cfg.get("size") or ("iso-a1" if ctx.document.units.metric else "ansi-d")
     if size not in PAPER_SIZES:
         raise UsageError(f"unknown sheet size {size!r}; choose one of " + ", ".join(PAPER_SIZES))
@@ -221,6 +250,14 @@ def cmd_check(args: argparse.Namespace) -> int:
         raise UsageError("tolerances must be positive")
     tol = check.Tolerances(args.tolerance, math.radians(args.angle_tolerance / 3600.0))
     findings = check.check_document(doc, args.alignment, tol)
+    if args.ground or args.surface:
+        from converter.selection import attach_surface, ground_at
+
+        base = select(doc, args.alignment, args.profile)
+        with_tin, index = attach_surface(base, args.ground, args.surface)
+        findings += check.check_ground_against_surface(
+            base.alignment, lambda s: ground_at(with_tin, index, s), tol,
+            with_tin.alignment.grounds[0].name)
     drawing = None
     stationing = None
     layer = args.layer or ""
@@ -429,6 +466,7 @@ def build_parser() -> argparse.ArgumentParser:
         ),
     )
     _add_common(p)
+    _add_ground(p)
     group = p.add_mutually_exclusive_group(required=True)
     group.add_argument("--interval", type=float, metavar="D", help="row every D file units of station")
     group.add_argument(
@@ -454,6 +492,7 @@ def build_parser() -> argparse.ArgumentParser:
     _add_common(p)
     p.add_argument("-o", "--output", metavar="PATH", required=True, help="profile DXF to write")
     p.add_argument("--plan", metavar="PATH", help="also write the plan linework to this DXF")
+    _add_ground(p)
     p.add_argument("--exaggeration", type=float, default=10.0, metavar="E",
                    help="vertical exaggeration (default 10)")
     p.add_argument("--scale", type=float, metavar="S",
@@ -478,6 +517,7 @@ def build_parser() -> argparse.ArgumentParser:
     )
     _add_common(p)
     p.add_argument("-o", "--output", metavar="PATH", required=True, help="PDF to write")
+    _add_ground(p)
     p.add_argument("--size", choices=("ansi-d", "ansi-b", "iso-a1", "iso-a3"),
                    help="sheet size (default ansi-d for feet, iso-a1 for metres)")
     p.add_argument("--scale", type=float, metavar="S",
@@ -531,6 +571,7 @@ def build_parser() -> argparse.ArgumentParser:
     )
     _add_common(p)
     p.add_argument("--dxf", metavar="DRAWING", help="DXF with drafted profile linework")
+    _add_ground(p)
     p.add_argument("--layer", metavar="NAME", help="layer of the finished-grade linework "
                    "(default PROFILE-GRADE when present)")
     p.add_argument("--exaggeration", type=float, metavar="E", help="vertical exaggeration of the drawing")

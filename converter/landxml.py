@@ -36,9 +36,11 @@ from converter.units import ANGLE_UNITS, LINEAR_UNITS, Units
 
 __all__ = ["parse_bytes", "read"]
 
-#: Largest file read whole into memory (bytes). Surfaces larger than this are
-#: streamed by the ground reader instead.
-MAX_DOCUMENT_BYTES = 512 * 1024 * 1024
+#: Largest file gradeline reads at all (bytes).
+MAX_DOCUMENT_BYTES = 4 * 1024 * 1024 * 1024
+
+#: Files at least this large are parsed streaming, dropping TIN points and faces.
+STREAM_FROM = 16 * 1024 * 1024
 
 
 def _parser() -> etree.XMLParser:
@@ -335,6 +337,36 @@ class _Reader:
         return GroundProfile(name, tuple(p for p in pieces if p.stations), self.src(el))
 
 
+def _syntax_error(err: etree.XMLSyntaxError, path: str) -> InputError:
+    line = err.lineno if err.lineno else None
+    msg = (err.msg or "not well-formed").splitlines()[0]
+    msg = msg.split(", line ")[0]  # libxml2 appends the position; keep the reason only
+    return InputError(
+        f"not well-formed ({msg}); the file may be truncated or not XML at all",
+        SourceRef(path, line),
+        "XML",
+    )
+
+
+def _document_from_root(root: etree._Element, path: str) -> Document:
+    src = SourceRef(path, None)
+    tree = root.getroottree()
+    if tree.docinfo.doctype or tree.docinfo.internalDTD is not None:
+        raise InputError(
+            "DOCTYPE declarations are not accepted (LandXML needs none; they can "
+            "hide entity expansion or external file access)",
+            SourceRef(path, 1),
+            "DOCTYPE",
+        )
+    reader = _Reader(path)
+    try:
+        return reader.document(root)
+    except InputError:
+        raise
+    except ModelError as err:
+        raise InputError(err.message, err.source or src, err.element) from None
+
+
 def parse_bytes(data: bytes, path: str = "<input>") -> Document:
     """Parse LandXML from bytes.
 
@@ -356,34 +388,34 @@ def parse_bytes(data: bytes, path: str = "<input>") -> Document:
     try:
         root = etree.fromstring(data, _parser())
     except etree.XMLSyntaxError as err:
-        line = err.lineno if err.lineno else None
-        msg = (err.msg or "not well-formed").splitlines()[0]
-        # libxml2 messages end with the position; keep the reason only
-        msg = msg.split(", line ")[0]
-        raise InputError(
-            f"not well-formed ({msg}); the file may be truncated or not XML at all",
-            SourceRef(path, line),
-            "XML",
-        ) from None
+        raise _syntax_error(err, path) from None
     except ValueError as err:  # e.g. unknown encoding names
         raise InputError(f"cannot decode the file: {err}", src, "XML") from None
-    tree = root.getroottree()
-    if tree.docinfo.doctype or tree.docinfo.internalDTD is not None:
-        raise InputError(
-            "DOCTYPE declarations are not accepted (LandXML needs none; they can "
-            "hide entity expansion or external file access)",
-            SourceRef(path, 1),
-            "DOCTYPE",
-        )
-    reader = _Reader(path)
+    return _document_from_root(root, path)
+
+
+def _parse_streaming(path: str) -> Document:
+    """Parse a file with iterparse, dropping TIN points and faces as they are read.
+
+    Alignments are small; surfaces can be hundreds of MB. Clearing every ``P``
+    and ``F`` element as soon as it ends keeps the tree small; surfaces are read
+    separately by :func:`read_surface`.
+    """
+    context = etree.iterparse(
+        path, events=("end",), tag=("{*}P", "{*}F"), resolve_entities=False,
+        no_network=True, load_dtd=False, huge_tree=False, collect_ids=False,
+    )
     try:
-        return reader.document(root)
-    except InputError:
-        raise
-    except ModelError as err:
-        raise InputError(err.message, err.source or src, err.element) from None
-    except GradelineError:
-        raise
+        for _, el in context:
+            el.clear(keep_tail=False)
+            parent = el.getparent()
+            if parent is not None:
+                while el.getprevious() is not None:
+                    del parent[0]
+        root = context.root
+    except etree.XMLSyntaxError as err:
+        raise _syntax_error(err, path) from None
+    return _document_from_root(root, path)
 
 
 def read(path: str | os.PathLike[str]) -> Document:
@@ -406,9 +438,170 @@ def read(path: str | os.PathLike[str]) -> Document:
                 "LandXML",
             )
         with open(name, "rb") as fh:
-            data = fh.read()
+            head = fh.read(STREAM_FROM)
     except IsADirectoryError:
         raise InputError("is a folder, not a LandXML file", src, "LandXML") from None
     except OSError as err:
         raise InputError(f"cannot read the file ({err.strerror})", src, "LandXML") from None
-    return parse_bytes(data, name)
+    if size < STREAM_FROM:
+        return parse_bytes(head, name)
+    try:
+        return _parse_streaming(name)
+    except OSError as err:
+        raise InputError(f"cannot read the file ({err.strerror or err})", src, "LandXML") from None
+
+
+# --------------------------------------------------------------------------- surfaces
+def surface_names(path: str | os.PathLike[str]) -> list[str]:
+    """Names of the TIN surfaces in a file (streamed; point data is not kept)."""
+    return [name for name, _ in _iter_surfaces(os.fspath(path), want=None, names_only=True)]
+
+
+def read_surface(path: str | os.PathLike[str], name: str | None = None):
+    """Stream one TIN surface (``Surfaces/Surface/Definition``) into numpy arrays.
+
+    The file is read with ``iterparse`` and every element is cleared once read,
+    so the whole DOM is never built; surfaces other than ``name`` are skipped.
+
+    Returns
+    -------
+    converter.ground.Surface
+
+    Raises
+    ------
+    InputError
+        Not readable, no surface, several surfaces and no name, unknown name,
+        bad point or face values, faces naming missing points, duplicate ids.
+    """
+    from converter.ground import Surface
+
+    name_s = os.fspath(path)
+    found = list(_iter_surfaces(name_s, want=name, names_only=False))
+    names = [n for n, _ in found]
+    src = SourceRef(name_s, None)
+    if not names:
+        raise InputError("no TIN surface (Surfaces/Surface/Definition with Pnts and Faces)",
+                         src, "Surfaces")
+    if name is None and len(names) > 1:
+        raise InputError(f"the file has {len(names)} surfaces; choose one with --surface: "
+                         + ", ".join(names), src, "Surfaces")
+    if name is not None and name not in names:
+        raise InputError(f"no surface named {name!r}; surfaces: " + ", ".join(names), src, "Surfaces")
+    data = next(d for n, d in found if d is not None)
+    return Surface(name=data["name"], ids=data["ids"], x=data["x"], y=data["y"], z=data["z"],
+                   faces=data["faces"], hidden=data["hidden"], source=SourceRef(name_s, data["line"]),
+                   linear_unit=data["unit"], skipped_faces=data["skipped"])
+
+
+def _iter_surfaces(path: str, want: str | None, names_only: bool):
+    """Yield (name, data or None) for every surface; data only for the wanted one."""
+    import numpy as np
+
+    src = SourceRef(path, None)
+    try:
+        context = etree.iterparse(
+            path, events=("start", "end"), resolve_entities=False, no_network=True,
+            load_dtd=False, huge_tree=False, remove_comments=True,
+        )
+        unit = None
+        current = None
+        take = False
+        pts_text: list[str] = []
+        ids: list[str] = []
+        faces_text: list[str] = []
+        hidden: list[bool] = []
+        line = None
+        first = None
+        for event, el in context:
+            if first is None:
+                first = el
+                tree = el.getroottree()
+                if tree.docinfo.doctype or tree.docinfo.internalDTD is not None:
+                    raise InputError("DOCTYPE declarations are not accepted", SourceRef(path, 1),
+                                     "DOCTYPE")
+            tag = _local(el)
+            if event == "start":
+                if tag == "Surface":
+                    current = el.get("name") or f"surface {el.sourceline}"
+                    take = (not names_only) and (want is None or current == want)
+                    line = el.sourceline
+                    pts_text, ids, faces_text, hidden = [], [], [], []
+                continue
+            if tag in ("Imperial", "Metric") and unit is None:
+                unit = el.get("linearUnit")
+            elif tag == "P" and take:
+                ids.append(el.get("id") or "")
+                pts_text.append(el.text or "")
+            elif tag == "F" and take:
+                faces_text.append(el.text or "")
+                hidden.append(el.get("i") == "1")
+            elif tag == "Surface":
+                if take:
+                    yield current, _surface_arrays(path, current, line, unit, ids, pts_text,
+                                                   faces_text, hidden, np)
+                    take = False
+                else:
+                    yield current, None
+                current = None
+            if tag in ("P", "F") or tag == "Surface" or (current is None and tag not in ("Units",)):
+                el.clear(keep_tail=False)
+                parent = el.getparent()
+                if parent is not None and tag in ("P", "F"):
+                    while el.getprevious() is not None:
+                        del parent[0]
+    except etree.XMLSyntaxError as err:
+        msg = (err.msg or "not well-formed").splitlines()[0].split(", line ")[0]
+        raise InputError(f"not well-formed ({msg}); the file may be truncated or not XML",
+                         SourceRef(path, err.lineno or None), "XML") from None
+    except OSError as err:
+        raise InputError(f"cannot read the file ({err.strerror or err})", src, "LandXML") from None
+
+
+def _surface_arrays(path, name, line, unit, ids, pts_text, faces_text, hidden, np):
+    src = SourceRef(path, line)
+    try:
+        pts = np.array(" ".join(pts_text).split(), dtype=np.float64)
+    except ValueError:
+        raise InputError(f"surface {name!r}: a point is not 'northing easting elevation'",
+                         src, "P") from None
+    if len(pts) != 3 * len(pts_text):
+        raise InputError(f"surface {name!r}: every point needs northing, easting and elevation "
+                         f"({len(pts_text)} points, {len(pts)} values)", src, "P")
+    pts = pts.reshape(-1, 3)
+    if not np.all(np.isfinite(pts)):
+        raise InputError(f"surface {name!r}: a point has a non-finite value", src, "P")
+    try:
+        id_arr = np.array([int(i) for i in ids], dtype=np.int64)
+    except ValueError:
+        raise InputError(f"surface {name!r}: point ids must be whole numbers", src, "P") from None
+    order = np.argsort(id_arr, kind="stable")
+    sorted_ids = id_arr[order]
+    dup = np.flatnonzero(np.diff(sorted_ids) == 0)
+    if dup.size:
+        raise InputError(f"surface {name!r}: point id {int(sorted_ids[dup[0]])} is used twice",
+                         src, "P")
+    try:
+        f = np.array(" ".join(faces_text).split(), dtype=np.int64)
+    except ValueError:
+        raise InputError(f"surface {name!r}: a face is not three point ids", src, "F") from None
+    if len(f) != 3 * len(faces_text):
+        raise InputError(f"surface {name!r}: every face needs three point ids", src, "F")
+    f = f.reshape(-1, 3)
+    pos = np.searchsorted(sorted_ids, f)
+    pos_c = np.clip(pos, 0, len(sorted_ids) - 1)
+    missing = sorted_ids[pos_c] != f
+    if missing.any():
+        bad = int(f[missing][0])
+        raise InputError(f"surface {name!r}: a face names point id {bad}, which does not exist",
+                         src, "F")
+    faces = order[pos_c]
+    hid = np.array(hidden, dtype=bool)
+    # degenerate (zero-area) faces carry no surface: dropped and counted
+    x, y = pts[:, 1], pts[:, 0]
+    a = faces
+    area2 = ((x[a[:, 1]] - x[a[:, 0]]) * (y[a[:, 2]] - y[a[:, 0]])
+             - (x[a[:, 2]] - x[a[:, 0]]) * (y[a[:, 1]] - y[a[:, 0]]))
+    keep = area2 != 0
+    skipped = int((~keep).sum())
+    return {"name": name, "ids": id_arr, "x": x.copy(), "y": y.copy(), "z": pts[:, 2].copy(),
+            "faces": faces[keep], "hidden": hid[keep], "line": line, "unit": unit, "skipped": skipped}

@@ -18,7 +18,7 @@ from converter.model import Alignment, Document, Profile
 from converter.stations import Stationing
 from converter.vertical import VerticalGeometry
 
-__all__ = ["AlignmentContext", "select", "solve_alignment"]
+__all__ = ["AlignmentContext", "attach_surface", "ground_at", "select", "solve_alignment"]
 
 
 @dataclass(frozen=True, eq=False)
@@ -106,3 +106,52 @@ def select(
     if al.profiles or need_profile or profile is not None:
         prof = al.profile(profile)
     return solve_alignment(doc, al, prof, need_profile=need_profile)
+
+
+def attach_surface(ctx: AlignmentContext, ground: str | os.PathLike[str] | None,
+                   surface: str | None):
+    """Sample a TIN surface along the alignment and make it the context's ground.
+
+    ``ground`` is the terrain file (default: the alignment's own file). Returns
+    the new context and the :class:`~converter.ground.TriangleIndex`, which
+    gives the exact ground at any station.
+
+    Raises
+    ------
+    InputError
+        Unreadable surface, units that differ from the alignment's, or no plan
+        geometry to sample along.
+    """
+    from dataclasses import replace
+
+    from converter import ground as gr
+    from converter.model import SourceRef
+
+    path = os.fspath(ground) if ground is not None else ctx.document.path
+    surf = landxml.read_surface(path, surface)
+    if surf.linear_unit is not None and surf.linear_unit != ctx.document.units.linear:
+        raise InputError(
+            f"surface units ({surf.linear_unit}) differ from the alignment's "
+            f"({ctx.document.units.linear}); both files must share units and coordinate system",
+            SourceRef(path), "Units")
+    if ctx.horizontal is None:
+        raise InputError(f"alignment {ctx.alignment.name!r} has no CoordGeom to sample the "
+                         "surface along", ctx.alignment.source, "Alignment")
+    index = gr.TriangleIndex(surf)
+    lo, hi = ctx.start, ctx.end
+    stations, z = gr.sample_alignment(ctx.horizontal, index, lo=lo, hi=hi)
+    profile = gr.ground_profile(surf.name, stations, z, surf.source)
+    alignment = replace(ctx.alignment, grounds=(profile,))
+    return replace(ctx, alignment=alignment), index
+
+
+def ground_at(ctx: AlignmentContext, index, stations):
+    """Exact TIN ground at internal stations (NaN off the surface)."""
+    import numpy as np
+
+    from converter import ground as gr
+
+    s = np.asarray(stations, dtype=np.float64)
+    assert ctx.horizontal is not None
+    n, e, _ = horizontal.evaluate(ctx.horizontal, s)
+    return gr.interpolate(index, e, n)

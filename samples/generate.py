@@ -282,10 +282,68 @@ def write_metric():
         "Tarnholm Link Road", "Link road, design speed 80 km/h", 0.0, total, pvis, 3, gpts,
         coord + eq
     )
-    text += "  </Alignments>\n</LandXML>\n"
+    text += "  </Alignments>\n"
+
+    def height(x, y):
+        return 86.0 + 0.008 * (x - 387150.0) + 2.5 * math.sin((y - 6712000.0) / 90.0) + 1.2 * math.sin(
+            x / 60.0)
+
+    text += "  <Surfaces>\n"
+    text += tin_xml("Survey 2026 west", 387100.0, 388100.0, 6711950.0, 6712450.0, 20.0, height)
+    text += "  </Surfaces>\n</LandXML>\n"
     (HERE / "tarnholm-link.xml").write_text(text, encoding="utf-8")
+
+
+def tin_xml(name, x0, x1, y0, y1, step, height, hole=None, nd=3):
+    """A TIN surface on a regular grid (two triangles a cell) as LandXML text.
+
+    ``hole`` = (x, y, r): faces whose centroid lies within r are invisible (i="1").
+    """
+    xs = [x0 + step * i for i in range(int(round((x1 - x0) / step)) + 1)]
+    ys = [y0 + step * j for j in range(int(round((y1 - y0) / step)) + 1)]
+    nx = len(xs)
+    pts = []
+    for j, y in enumerate(ys):
+        for i, x in enumerate(xs):
+            pts.append(f'          <P id="{j * nx + i + 1}">{y:.{nd}f} {x:.{nd}f} {height(x, y):.{nd}f}</P>')
+    faces = []
+    for j in range(len(ys) - 1):
+        for i in range(nx - 1):
+            a, b = j * nx + i + 1, j * nx + i + 2
+            c, d = (j + 1) * nx + i + 1, (j + 1) * nx + i + 2
+            for tri in ((a, b, d), (a, d, c)):
+                cx = sum(xs[(k - 1) % nx] for k in tri) / 3
+                cy = sum(ys[(k - 1) // nx] for k in tri) / 3
+                hidden = hole is not None and math.hypot(cx - hole[0], cy - hole[1]) < hole[2]
+                flag = ' i="1"' if hidden else ""
+                faces.append(f"          <F{flag}>{tri[0]} {tri[1]} {tri[2]}</F>")
+    return (f'    <Surface name="{name}" desc="Invented survey surface">\n'
+            f'      <Definition surfType="TIN">\n        <Pnts>\n' + "\n".join(pts) +
+            "\n        </Pnts>\n        <Faces>\n" + "\n".join(faces) +
+            "\n        </Faces>\n      </Definition>\n    </Surface>\n")
+
+
+def write_terrain():
+    """A separate terrain file for the bypass corridor (US survey feet), with a pond."""
+    def height(x, y):
+        return (516.0 + 11.0 * math.sin((x - 20400.0) / 900.0) + 5.0 * math.cos((y - 10300.0) / 480.0)
+                + 1.5 * math.sin(x / 130.0 + y / 170.0))
+
+    units = (
+        '    <Imperial areaUnit="squareFoot" linearUnit="USSurveyFoot" volumeUnit="cubicYard"'
+        ' temperatureUnit="fahrenheit" pressureUnit="inHG" angularUnit="decimal degrees"'
+        ' directionUnit="decimal degrees"/>'
+    )
+    text = header("Marrow County Route 9 realignment (invented)", units).replace(
+        '  <Alignments name="Sample alignments">\n', "")
+    text += "  <Surfaces>\n"
+    text += tin_xml("Existing ground 2026", 20300.0, 25400.0, 10100.0, 11700.0, 50.0, height,
+                    hole=(23950.0, 10820.0, 70.0), nd=2)
+    text += "  </Surfaces>\n</LandXML>\n"
+    (HERE / "orrin-vale-terrain.xml").write_text(text, encoding="utf-8")
 
 
 if __name__ == "__main__":
     write_us()
     write_metric()
+    write_terrain()
