@@ -475,8 +475,18 @@ def read_surface(path: str | os.PathLike[str], name: str | None = None):
     """
     from converter.ground import Surface
 
+    import gc
+
     name_s = os.fspath(path)
-    found = list(_iter_surfaces(name_s, want=name, names_only=False))
+    # millions of short-lived element proxies: the cyclic collector would walk the
+    # growing lists again and again; nothing here makes reference cycles
+    enabled = gc.isenabled()
+    gc.disable()
+    try:
+        found = list(_iter_surfaces(name_s, want=name, names_only=False))
+    finally:
+        if enabled:
+            gc.enable()
     names = [n for n, _ in found]
     src = SourceRef(name_s, None)
     if not names:
@@ -494,61 +504,72 @@ def read_surface(path: str | os.PathLike[str], name: str | None = None):
 
 
 def _iter_surfaces(path: str, want: str | None, names_only: bool):
-    """Yield (name, data or None) for every surface; data only for the wanted one."""
+    """Yield (name, data or None) for every surface; data only for the wanted one.
+
+    Only ``Surface``, ``P``, ``F`` and the unit elements reach Python (lxml
+    filters the rest in C); each is cleared and dropped from its parent once
+    read, so memory holds the numbers, not a tree.
+    """
     import numpy as np
 
     src = SourceRef(path, None)
+    tags = ("{*}Surface", "{*}P", "{*}F", "{*}Imperial", "{*}Metric")
     try:
         context = etree.iterparse(
-            path, events=("start", "end"), resolve_entities=False, no_network=True,
-            load_dtd=False, huge_tree=False, remove_comments=True,
+            path, events=("end",), tag=tags, resolve_entities=False, no_network=True,
+            load_dtd=False, huge_tree=True, remove_comments=True,
         )
         unit = None
-        current = None
+        checked = False
+        holder = None  # the Pnts or Faces element whose children are being read
         take = False
         pts_text: list[str] = []
         ids: list[str] = []
         faces_text: list[str] = []
-        hidden: list[bool] = []
-        line = None
-        first = None
-        for event, el in context:
-            if first is None:
-                first = el
+        hidden: list[int] = []
+        for _, el in context:
+            if not checked:
+                checked = True
                 tree = el.getroottree()
                 if tree.docinfo.doctype or tree.docinfo.internalDTD is not None:
                     raise InputError("DOCTYPE declarations are not accepted", SourceRef(path, 1),
                                      "DOCTYPE")
-            tag = _local(el)
-            if event == "start":
-                if tag == "Surface":
-                    current = el.get("name") or f"surface {el.sourceline}"
-                    take = (not names_only) and (want is None or current == want)
-                    line = el.sourceline
-                    pts_text, ids, faces_text, hidden = [], [], [], []
-                continue
-            if tag in ("Imperial", "Metric") and unit is None:
-                unit = el.get("linearUnit")
-            elif tag == "P" and take:
-                ids.append(el.get("id") or "")
-                pts_text.append(el.text or "")
-            elif tag == "F" and take:
-                faces_text.append(el.text or "")
-                hidden.append(el.get("i") == "1")
-            elif tag == "Surface":
+            tag = el.tag
+            last = tag[-1]
+            if last in "PF" and (len(tag) == 1 or tag[-2] == "}"):
+                parent = el.getparent()
+                if parent is not holder:
+                    holder = parent
+                    surface = parent.getparent().getparent() if parent is not None else None
+                    name = surface.get("name") if surface is not None else None
+                    take = (not names_only) and surface is not None and (want is None or name == want)
+                    if take and last == "P" and not ids:
+                        line = surface.sourceline
                 if take:
-                    yield current, _surface_arrays(path, current, line, unit, ids, pts_text,
-                                                   faces_text, hidden, np)
-                    take = False
+                    if last == "P":
+                        ids.append(el.get("id") or "")
+                        pts_text.append(el.text or "")
+                    else:
+                        faces_text.append(el.text or "")
+                        if el.get("i") == "1":
+                            hidden.append(len(faces_text) - 1)
+                el.clear(keep_tail=False)
+                if el.getprevious() is not None:  # the tree never holds more than two
+                    del parent[0]
+                continue
+            if tag.endswith("Surface"):
+                current = el.get("name") or f"surface {el.sourceline}"
+                wanted = (not names_only) and (want is None or current == want)
+                if wanted and (ids or faces_text):
+                    yield current, _surface_arrays(path, current, el.sourceline, unit, ids,
+                                                   pts_text, faces_text, hidden, np)
+                    ids, pts_text, faces_text, hidden = [], [], [], []
                 else:
                     yield current, None
-                current = None
-            if tag in ("P", "F") or tag == "Surface" or (current is None and tag not in ("Units",)):
                 el.clear(keep_tail=False)
-                parent = el.getparent()
-                if parent is not None and tag in ("P", "F"):
-                    while el.getprevious() is not None:
-                        del parent[0]
+                holder = None
+            elif unit is None:
+                unit = el.get("linearUnit")
     except etree.XMLSyntaxError as err:
         msg = (err.msg or "not well-formed").splitlines()[0].split(", line ")[0]
         raise InputError(f"not well-formed ({msg}); the file may be truncated or not XML",
@@ -557,33 +578,50 @@ def _iter_surfaces(path: str, want: str | None, names_only: bool):
         raise InputError(f"cannot read the file ({err.strerror or err})", src, "LandXML") from None
 
 
+def _numbers(text: str, dtype, np):
+    """Whitespace-separated numbers as an array, or None when any is not a number.
+
+    ``np.fromstring`` with a separator parses in C; when it meets a token it
+    cannot read it stops and warns, which is turned into a slower exact parse.
+    """
+    import warnings
+
+    with warnings.catch_warnings():
+        warnings.simplefilter("error", DeprecationWarning)
+        try:
+            return np.fromstring(text, dtype=dtype, sep=" ")
+        except (ValueError, DeprecationWarning):
+            pass
+    try:
+        return np.array(text.split(), dtype=dtype)
+    except ValueError:
+        return None
+
+
 def _surface_arrays(path, name, line, unit, ids, pts_text, faces_text, hidden, np):
     src = SourceRef(path, line)
-    try:
-        pts = np.array(" ".join(pts_text).split(), dtype=np.float64)
-    except ValueError:
+    pts = _numbers(" ".join(pts_text), np.float64, np)
+    if pts is None:
         raise InputError(f"surface {name!r}: a point is not 'northing easting elevation'",
-                         src, "P") from None
+                         src, "P")
     if len(pts) != 3 * len(pts_text):
         raise InputError(f"surface {name!r}: every point needs northing, easting and elevation "
                          f"({len(pts_text)} points, {len(pts)} values)", src, "P")
     pts = pts.reshape(-1, 3)
     if not np.all(np.isfinite(pts)):
         raise InputError(f"surface {name!r}: a point has a non-finite value", src, "P")
-    try:
-        id_arr = np.array([int(i) for i in ids], dtype=np.int64)
-    except ValueError:
-        raise InputError(f"surface {name!r}: point ids must be whole numbers", src, "P") from None
+    id_arr = _numbers(" ".join(ids), np.int64, np)
+    if id_arr is None or len(id_arr) != len(ids):
+        raise InputError(f"surface {name!r}: point ids must be whole numbers", src, "P")
     order = np.argsort(id_arr, kind="stable")
     sorted_ids = id_arr[order]
     dup = np.flatnonzero(np.diff(sorted_ids) == 0)
     if dup.size:
         raise InputError(f"surface {name!r}: point id {int(sorted_ids[dup[0]])} is used twice",
                          src, "P")
-    try:
-        f = np.array(" ".join(faces_text).split(), dtype=np.int64)
-    except ValueError:
-        raise InputError(f"surface {name!r}: a face is not three point ids", src, "F") from None
+    f = _numbers(" ".join(faces_text), np.int64, np)
+    if f is None:
+        raise InputError(f"surface {name!r}: a face is not three point ids", src, "F")
     if len(f) != 3 * len(faces_text):
         raise InputError(f"surface {name!r}: every face needs three point ids", src, "F")
     f = f.reshape(-1, 3)
@@ -595,7 +633,8 @@ def _surface_arrays(path, name, line, unit, ids, pts_text, faces_text, hidden, n
         raise InputError(f"surface {name!r}: a face names point id {bad}, which does not exist",
                          src, "F")
     faces = order[pos_c]
-    hid = np.array(hidden, dtype=bool)
+    hid = np.zeros(len(f), dtype=bool)
+    hid[np.asarray(hidden, dtype=np.int64)] = True
     # degenerate (zero-area) faces carry no surface: dropped and counted
     x, y = pts[:, 1], pts[:, 0]
     a = faces
