@@ -378,6 +378,69 @@ def cmd_fit(args: argparse.Namespace) -> int:
     return 0
 
 
+def _run_build(jobs, outdir: str, workers: int) -> int:
+    from converter.build import build, write_index
+
+    files = [j.path for j in jobs]
+    for j in jobs:  # the output folder may not be an input file
+        refuse_overwrite(outdir, [j.path])
+    show = sys.stderr.isatty()
+    bar = None
+    if show:
+        from tqdm import tqdm
+
+        bar = tqdm(total=len(files), unit="file", desc="gradeline build", file=sys.stderr)
+    try:
+        results = build(jobs, outdir, workers=workers, progress=bar.update if bar else None)
+    finally:
+        if bar is not None:
+            bar.close()
+    text, _ = write_index(results, outdir)
+    sys.stdout.write(text)
+    if any(r.failed for r in results):
+        return 2
+    if any(r.check_over or r.review_failed for r in results):
+        return 1
+    return 0
+
+
+def cmd_build(args: argparse.Namespace) -> int:
+    import os
+
+    from converter.build import BuildJob, BuildOptions, collect_inputs
+
+    cfg = read_config(args.config) if args.config else {}
+    files = collect_inputs(args.inputs)
+    if not files:
+        raise UsageError("no LandXML files found in " + ", ".join(args.inputs))
+    opts = BuildOptions(speed=args.speed, speed_unit=args.units, ground=args.ground,
+                        surface=args.surface, sheet=dict(cfg.get("sheet", {})),
+                        layers=dict(cfg.get("layers", {})))
+    workers = args.jobs or min(len(files), os.cpu_count() or 1)
+    return _run_build([BuildJob(f, opts) for f in files], args.output, workers)
+
+
+def cmd_demo(args: argparse.Namespace) -> int:
+    from importlib import resources
+
+    from converter.build import BuildJob, BuildOptions
+
+    base = resources.files("converter.samples")
+    bypass = str(base / "orrin-vale-bypass.xml")
+    terrain = str(base / "orrin-vale-terrain.xml")
+    link = str(base / "tarnholm-link.xml")
+    cfg = read_config(str(base / "sheets.toml"))
+    sheet = dict(cfg.get("sheet", {}))
+    metric_sheet = {k: v for k, v in sheet.items() if k not in ("size", "scale", "interval")}
+    metric_sheet["project"] = "Tarnholm Link Road (invented sample)"
+    jobs = [
+        BuildJob(bypass, BuildOptions(speed=50.0, speed_unit="mph", ground=terrain, sheet=sheet)),
+        BuildJob(link, BuildOptions(speed=80.0, speed_unit="kmh", surface="Survey 2026 west",
+                                    sheet=metric_sheet)),
+    ]
+    return _run_build(jobs, args.output, args.jobs or 1)
+
+
 def _write_file(path: str, data: bytes, inputs: Sequence[str]) -> None:
     refuse_overwrite(path, inputs)
     try:
@@ -689,6 +752,32 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("-o", "--output", required=True, metavar="PATH", help="LandXML file to write")
     p.add_argument("--json", action="store_true", help="report as JSON")
     p.set_defaults(func=cmd_fit)
+
+    p = sub.add_parser(
+        "build",
+        help="every deliverable for every alignment of files or folders, with a summary index",
+        description=(
+            "For every alignment: profile.dxf, plan.dxf, sheets.pdf, curves.csv, table.csv, "
+            "check.txt and, with --speed, review.txt, in OUTDIR/<file>/<alignment>/, plus "
+            "OUTDIR/index.txt and index.json. One failing alignment or file does not stop the "
+            "others. Exit 0 all built and clean, 1 built with check or review findings, 2 when "
+            "anything failed to build."
+        ),
+    )
+    p.add_argument("inputs", nargs="+", metavar="FILE_OR_FOLDER", help="LandXML files or folders")
+    p.add_argument("-o", "--output", required=True, metavar="OUTDIR", help="output folder")
+    p.add_argument("--speed", type=float, metavar="V", help="design speed for the review")
+    p.add_argument("--units", choices=("mph", "kmh"), help="unit of --speed (default: the file's)")
+    _add_ground(p)
+    p.add_argument("--jobs", type=int, metavar="N", help="parallel processes (default: one a core)")
+    p.add_argument("--config", metavar="FILE", help="TOML with [sheet] and [layers] tables")
+    p.set_defaults(func=cmd_build)
+
+    p = sub.add_parser("demo", help="build everything from the bundled samples")
+    p.add_argument("-o", "--output", default="gradeline-demo", metavar="OUTDIR",
+                   help="output folder (default gradeline-demo)")
+    p.add_argument("--jobs", type=int, metavar="N", help="parallel processes")
+    p.set_defaults(func=cmd_demo)
 
     p = sub.add_parser("curves", help="one row per vertical curve: PVI, grades, A, L, K, BVC/EVC, high/low point")
     _add_common(p)

@@ -88,6 +88,8 @@ class _Reader:
             raise self.fail(el, f"{what} {text!r} is not a number") from None
         if not math.isfinite(value):
             raise self.fail(el, f"{what} must be a finite number, got {text!r}")
+        if abs(value) > 1e12:
+            raise self.fail(el, f"{what} {text!r} is not a plausible survey value")
         return value
 
     def attr(self, el: etree._Element, name: str, default: float | None = None) -> float | None:
@@ -126,7 +128,9 @@ class _Reader:
                     )
                 seen[al.name] = al_el.sourceline or 0
                 alignments.append(al)
-        return Document(self.path, units, tuple(alignments), project)
+        groups = list(_children(root, "Alignments"))
+        where = SourceRef(self.path, (groups[0] if groups else root).sourceline)
+        return Document(self.path, units, tuple(alignments), project, where)
 
     def units(self, root: etree._Element) -> Units:
         units_el = _child(root, "Units")
@@ -338,7 +342,7 @@ class _Reader:
 
 
 def _syntax_error(err: etree.XMLSyntaxError, path: str) -> InputError:
-    line = err.lineno if err.lineno else None
+    line = err.lineno if err.lineno else 1
     msg = (err.msg or "not well-formed").splitlines()[0]
     msg = msg.split(", line ")[0]  # libxml2 appends the position; keep the reason only
     return InputError(
@@ -382,14 +386,14 @@ def parse_bytes(data: bytes, path: str = "<input>") -> Document:
     InputError
         Not XML, not LandXML, a DOCTYPE, or values that break the model.
     """
-    src = SourceRef(path, None)
+    src = SourceRef(path, 1)
     if not data.strip():
         raise InputError("the file is empty", src, "LandXML")
     try:
         root = etree.fromstring(data, _parser())
     except etree.XMLSyntaxError as err:
         raise _syntax_error(err, path) from None
-    except ValueError as err:  # e.g. unknown encoding names
+    except (ValueError, LookupError) as err:  # e.g. unknown encoding names
         raise InputError(f"cannot decode the file: {err}", src, "XML") from None
     return _document_from_root(root, path)
 
@@ -427,7 +431,7 @@ def read(path: str | os.PathLike[str]) -> Document:
         The file is missing, unreadable, too large or not valid LandXML.
     """
     name = os.fspath(path)
-    src = SourceRef(name, None)
+    src = SourceRef(name, 1)
     try:
         size = os.path.getsize(name)
         if size > MAX_DOCUMENT_BYTES:
@@ -573,7 +577,7 @@ def _iter_surfaces(path: str, want: str | None, names_only: bool):
     except etree.XMLSyntaxError as err:
         msg = (err.msg or "not well-formed").splitlines()[0].split(", line ")[0]
         raise InputError(f"not well-formed ({msg}); the file may be truncated or not XML",
-                         SourceRef(path, err.lineno or None), "XML") from None
+                         SourceRef(path, err.lineno or 1), "XML") from None
     except OSError as err:
         raise InputError(f"cannot read the file ({err.strerror or err})", src, "LandXML") from None
 

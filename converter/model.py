@@ -45,9 +45,18 @@ class SourceRef:
     line: int | None = None
 
 
+#: Largest magnitude accepted for any coordinate, station or elevation: far
+#: beyond any survey (1e12 m is seven times the distance to the Sun), small
+#: enough that squares and products stay finite.
+MAX_MAGNITUDE = 1e12
+
+
 def _finite(value: float, what: str, source: SourceRef | None, element: str) -> None:
     if not math.isfinite(value):
         raise ModelError(f"{what} must be a finite number, got {value!r}", source, element)
+    if abs(value) > MAX_MAGNITUDE:
+        raise ModelError(f"{what} {value:g} is not a plausible survey value (at most "
+                         f"{MAX_MAGNITUDE:g} in size)", source, element)
 
 
 @dataclass(frozen=True, slots=True)
@@ -458,6 +467,7 @@ class Document:
     units: Units
     alignments: tuple[Alignment, ...]
     project: str = ""
+    source: SourceRef | None = field(default=None, compare=False)
 
     def alignment(self, name: str | None = None) -> Alignment:
         """Return the alignment called ``name``, or the only one when ``name`` is None.
@@ -467,7 +477,7 @@ class Document:
         InputError
             No alignment, several without a name given, or no such name.
         """
-        src = SourceRef(self.path, None)
+        src = self.source or SourceRef(self.path, 1)
         if not self.alignments:
             raise InputError("the file has no alignments", src, "Alignments")
         if name is None:

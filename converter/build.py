@@ -1,0 +1,245 @@
+"""One-command build of a plan set's geometry deliverables.
+
+For every alignment of every input file: profile and plan DXF, PDF sheets,
+curve and station tables (CSV), the cross-check report and, with a design
+speed, the design-control review -- each written atomically, each alignment
+and file independent of the others, and a summary index of what was written
+and what failed. Folders are processed in parallel with a process pool.
+"""
+
+from __future__ import annotations
+
+import os
+import re
+from collections.abc import Callable, Sequence
+from concurrent.futures import ProcessPoolExecutor
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+from converter import landxml
+from converter.errors import GradelineError
+from converter.outputs import csv_text, json_text, refuse_overwrite, write_atomic
+
+__all__ = ["BuildJob", "BuildOptions", "ItemResult", "build", "collect_inputs", "write_index"]
+
+
+@dataclass(frozen=True)
+class BuildOptions:
+    """What to build and how (shared by all alignments of a job)."""
+
+    speed: float | None = None
+    speed_unit: str | None = None
+    ground: str | None = None
+    surface: str | None = None
+    sheet: dict[str, Any] = field(default_factory=dict)
+    layers: dict[str, str] = field(default_factory=dict)
+
+
+@dataclass(frozen=True)
+class BuildJob:
+    """One input file and its options."""
+
+    path: str
+    options: BuildOptions
+
+
+@dataclass(frozen=True)
+class ItemResult:
+    """The outcome for one alignment (or one file that could not be read)."""
+
+    file: str
+    alignment: str | None
+    outputs: tuple[str, ...] = ()
+    error: str | None = None
+    check_over: int = 0
+    review_failed: bool | None = None
+    notes: tuple[str, ...] = ()
+
+    @property
+    def failed(self) -> bool:
+        """True when this alignment or file could not be built."""
+        return self.error is not None
+
+
+def slug(name: str) -> str:
+    """A file-name-safe version of an alignment name.
+
+    Examples
+    --------
+    >>> slug("Orrin Vale Bypass"), slug("Rue de l'Étang / phase 2")
+    ('orrin-vale-bypass', 'rue-de-l-tang-phase-2')
+    """
+    s = re.sub(r"[^A-Za-z0-9]+", "-", name).strip("-").lower()
+    return s or "alignment"
+
+
+def collect_inputs(paths: Sequence[str]) -> list[str]:
+    """Files named, plus every ``*.xml`` in folders named (sorted, not recursive)."""
+    out: list[str] = []
+    for p in paths:
+        if os.path.isdir(p):
+            out += sorted(str(q) for q in Path(p).glob("*.xml") if q.is_file())
+        else:
+            out.append(p)
+    return out
+
+
+def _write(path: Path, data: str | bytes, inputs: Sequence[str], written: list[str]) -> None:
+    refuse_overwrite(path, inputs)
+    write_atomic(path, data)
+    written.append(str(path))
+
+
+def _build_alignment(doc, al, outdir: Path, opts: BuildOptions, inputs: list[str]) -> ItemResult:
+    from converter import drafting, tables
+    from converter.check import Tolerances, check_document
+    from converter.dxf import write_dxf
+    from converter.layout import default_layout
+    from converter.reports import check_text, review_text
+    from converter.selection import attach_surface, ground_at, solve_alignment
+    from sheets.pdf import SheetOptions, render_sheets
+
+    written: list[str] = []
+    notes: list[str] = []
+    ctx = solve_alignment(doc, al, al.profile(None) if al.profiles else None, need_profile=False)
+    index = None
+    if (opts.ground or opts.surface) and ctx.horizontal is not None:
+        ctx, index = attach_surface(ctx, opts.ground, opts.surface)
+    units = doc.units
+    outdir.mkdir(parents=True, exist_ok=True)
+    sheet = opts.sheet
+    layout = default_layout(units, sheet.get("scale"), float(sheet.get("exaggeration", 10.0)))
+    layout = layout.with_layers(opts.layers)
+    if ctx.geometry is not None:
+        d = drafting.profile_drawing(ctx, layout)
+        _write(outdir / "profile.dxf", write_dxf(d, layout, linear_unit=units.linear), inputs, written)
+    if ctx.horizontal is not None:
+        p = drafting.plan_drawing(ctx, layout)
+        _write(outdir / "plan.dxf", write_dxf(p, layout, linear_unit=units.linear), inputs, written)
+    if ctx.geometry is not None:
+        so = SheetOptions(size=sheet.get("size") or ("iso-a1" if units.metric else "ansi-d"),
+                          scale=sheet.get("scale"), exaggeration=float(sheet.get("exaggeration", 10.0)),
+                          interval=sheet.get("interval"), project=str(sheet.get("project", "")),
+                          date=str(sheet.get("date", "")), drawn_by=str(sheet.get("drawn_by", "")),
+                          sheet_prefix=str(sheet.get("sheet_prefix", "")))
+        _write(outdir / "sheets.pdf", render_sheets(ctx, so), inputs, written)
+    _write(outdir / "curves.csv", csv_text(tables.curve_rows(ctx), tables.CURVE_COLUMNS), inputs,
+           written)
+    interval = float(sheet.get("interval") or (20.0 if units.metric else 50.0))
+    stations, tags = tables.table_stations(ctx, interval=interval)
+    rows = tables.station_rows(ctx, stations, tags)
+    columns = tables.STATION_COLUMNS
+    if index is not None:
+        columns = columns + ("ground", "cut_fill")
+        for row, z in zip(rows, ground_at(ctx, index, stations), strict=True):
+            row["ground"] = float(z)
+            row["cut_fill"] = row["elevation"] - float(z)
+    _write(outdir / "table.csv", csv_text(rows, columns), inputs, written)
+    tol = Tolerances()
+    findings = check_document(doc, al.name, tol)
+    over = sum(f.verdict == "over" for f in findings)
+    _write(outdir / "check.txt", check_text(doc, findings, None, tol), inputs, written)
+    review_failed = None
+    if opts.speed is not None and ctx.geometry is not None:
+        from converter import review
+
+        crit = review.load_criteria(None, units.metric)
+        speed = opts.speed
+        if opts.speed_unit and opts.speed_unit != crit.speed_unit:
+            speed = speed * review.MPH_TO_KMH if opts.speed_unit == "mph" else speed / review.MPH_TO_KMH
+        rev = review.review_profile(ctx.geometry, crit, speed, length_unit=units.symbol)
+        review_failed = rev.failed
+        _write(outdir / "review.txt", review_text(ctx, rev), inputs, written)
+    if ctx.horizontal is not None and ctx.horizontal.findings:
+        notes.append(f"{len(ctx.horizontal.findings)} plan geometry findings (see check.txt)")
+    return ItemResult(doc.path, al.name, tuple(written), None, over, review_failed, tuple(notes))
+
+
+def build_file(job: BuildJob, outroot: str) -> list[ItemResult]:
+    """Build every alignment of one file; failures are recorded, never raised."""
+    path = job.path
+    inputs = [path] + [p for p in (job.options.ground,) if p]
+    try:
+        doc = landxml.read(path)
+        if not doc.alignments:
+            doc.alignment(None)  # raises "no alignments"
+    except GradelineError as err:
+        return [ItemResult(path, None, error=str(err))]
+    base = Path(outroot) / slug(Path(path).stem)
+    out: list[ItemResult] = []
+    used: set[str] = set()
+    for al in doc.alignments:
+        name = slug(al.name)
+        while name in used:
+            name += "-x"
+        used.add(name)
+        try:
+            out.append(_build_alignment(doc, al, base / name, job.options, inputs))
+        except GradelineError as err:
+            out.append(ItemResult(path, al.name, error=str(err)))
+        except OSError as err:
+            out.append(ItemResult(path, al.name, error=f"cannot write: {err.strerror or err}"))
+    return out
+
+
+def build(jobs: Sequence[BuildJob], outroot: str, *, workers: int = 1,
+          progress: Callable[[int], None] | None = None) -> list[ItemResult]:
+    """Build all jobs; with ``workers`` > 1 files run in a process pool."""
+    results: list[list[ItemResult]] = [[] for _ in jobs]
+    if workers > 1 and len(jobs) > 1:
+        with ProcessPoolExecutor(max_workers=workers) as pool:
+            futures = {pool.submit(build_file, j, outroot): i for i, j in enumerate(jobs)}
+            from concurrent.futures import as_completed
+
+            for fut in as_completed(futures):
+                results[futures[fut]] = fut.result()
+                if progress:
+                    progress(1)
+    else:
+        for i, j in enumerate(jobs):
+            results[i] = build_file(j, outroot)
+            if progress:
+                progress(1)
+    return [r for rs in results for r in rs]
+
+
+def write_index(results: Sequence[ItemResult], outroot: str) -> tuple[str, str]:
+    """The summary index, as JSON and text, written into ``outroot``."""
+    root = Path(outroot)
+
+    def rel(p: str) -> str:
+        return os.path.relpath(p, root)
+
+    items = [
+        {"file": r.file, "alignment": r.alignment, "failed": r.failed, "error": r.error,
+         "outputs": [rel(o) for o in r.outputs], "check_over_tolerance": r.check_over,
+         "review_failed": r.review_failed, "notes": list(r.notes)}
+        for r in results
+    ]
+    failed = sum(r.failed for r in results)
+    built = len(results) - failed
+    head = (f"{built} alignment{'s' if built != 1 else ''} built, {failed} failed; "
+            f"{sum(len(r.outputs) for r in results)} files written")
+    lines = [head, ""]
+    for r in results:
+        who = f"{r.file}" + (f" / {r.alignment}" if r.alignment else "")
+        if r.failed:
+            lines.append(f"FAILED  {who}: {r.error}")
+            continue
+        flags = []
+        if r.check_over:
+            flags.append(f"check: {r.check_over} over tolerance")
+        if r.review_failed:
+            flags.append("review: fails")
+        elif r.review_failed is False:
+            flags.append("review: passes")
+        lines.append(f"ok      {who}" + (f" ({'; '.join(flags)})" if flags else ""))
+        lines += [f"          {rel(o)}" for o in r.outputs]
+        lines += [f"          note: {n}" for n in r.notes]
+    text = "\n".join(lines) + "\n"
+    data = json_text({"summary": head, "items": items})
+    root.mkdir(parents=True, exist_ok=True)
+    write_atomic(root / "index.txt", text)
+    write_atomic(root / "index.json", data)
+    return text, data

@@ -1,0 +1,1 @@
+"""The bundled sample LandXML files (an invented scenario) for `gradeline demo`."""

@@ -1,0 +1,81 @@
+"""build and demo: every deliverable, an index, determinism, no input overwritten."""
+
+from __future__ import annotations
+
+import json
+import os
+import subprocess
+import sys
+
+import pytest
+
+from converter.cli import main
+from tests.conftest import METRIC_SAMPLE, SAMPLES, US_SAMPLE
+
+
+def _tree(root):
+    return {str(p.relative_to(root)): p.read_bytes() for p in sorted(root.rglob("*")) if p.is_file()}
+
+
+def test_demo_builds_everything(tmp_path, capsys):
+    out = tmp_path / "demo"
+    code = main(["demo", "-o", str(out)])
+    text = capsys.readouterr().out
+    assert code in (0, 1)
+    assert text.startswith("3 alignments built, 0 failed")
+    index = json.loads((out / "index.json").read_text())
+    for item in index["items"]:
+        names = {os.path.basename(o) for o in item["outputs"]}
+        assert names == {"profile.dxf", "plan.dxf", "sheets.pdf", "curves.csv", "table.csv",
+                         "check.txt", "review.txt"}
+    table = (out / "orrin-vale-bypass" / "orrin-vale-bypass" / "table.csv").read_text()
+    assert table.splitlines()[0].endswith(",ground,cut_fill")
+
+
+def test_build_twice_gives_identical_bytes(tmp_path):
+    trees = []
+    for k, seed in enumerate(("2", "97")):
+        out = tmp_path / f"b{k}"
+        subprocess.run([sys.executable, "-m", "converter", "build", str(US_SAMPLE),
+                        str(METRIC_SAMPLE), "-o", str(out), "--speed", "50", "--jobs", "2"],
+                       check=False, env=dict(os.environ, PYTHONHASHSEED=seed), timeout=300,
+                       capture_output=True)
+        trees.append(_tree(out))
+    assert trees[0].keys() == trees[1].keys() and len(trees[0]) > 10
+    assert trees[0] == trees[1]
+
+
+def test_folder_input(tmp_path, capsys):
+    folder = tmp_path / "in"
+    folder.mkdir()
+    (folder / "a.xml").write_bytes(METRIC_SAMPLE.read_bytes())
+    (folder / "notes.txt").write_text("not LandXML")
+    out = tmp_path / "out"
+    code = main(["build", str(folder), "-o", str(out), "--jobs", "1"])
+    assert code in (0, 1)
+    assert (out / "a" / "tarnholm-link-road" / "profile.dxf").exists()
+    assert "1 alignment built, 0 failed" in capsys.readouterr().out
+
+
+def test_output_folder_may_not_be_an_input(tmp_path, capsys):
+    src = tmp_path / "x.xml"
+    src.write_bytes(METRIC_SAMPLE.read_bytes())
+    code = main(["build", str(src), "-o", str(src)])
+    assert code == 2
+    assert "never overwritten" in capsys.readouterr().err
+    assert src.read_bytes() == METRIC_SAMPLE.read_bytes()
+
+
+def test_review_findings_give_exit_1(tmp_path, capsys):
+    code = main(["build", str(US_SAMPLE), "-o", str(tmp_path / "o"), "--speed", "70"])
+    assert code == 1
+    assert "review: fails" in capsys.readouterr().out
+
+
+@pytest.mark.cli
+def test_demo_from_console(tmp_path):
+    done = subprocess.run(["gradeline", "demo", "-o", str(tmp_path / "d")], capture_output=True,
+                          text=True, timeout=300)
+    assert done.returncode in (0, 1), done.stderr
+    assert (tmp_path / "d" / "index.txt").exists()
+    assert SAMPLES.exists()
