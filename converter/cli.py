@@ -420,12 +420,21 @@ def cmd_build(args: argparse.Namespace) -> int:
     return _run_build([BuildJob(f, opts) for f in files], args.output, workers)
 
 
-def cmd_demo(args: argparse.Namespace) -> int:
+def _samples_dir():
+    """The bundled samples: packaged as converter.samples, or the source tree's samples/."""
     from importlib import resources
+    from pathlib import Path
 
+    try:
+        return resources.files("converter.samples")
+    except ModuleNotFoundError:  # running from a source checkout
+        return Path(__file__).resolve().parent.parent / "samples"
+
+
+def cmd_demo(args: argparse.Namespace) -> int:
     from converter.build import BuildJob, BuildOptions
 
-    base = resources.files("converter.samples")
+    base = _samples_dir()
     bypass = str(base / "orrin-vale-bypass.xml")
     terrain = str(base / "orrin-vale-terrain.xml")
     link = str(base / "tarnholm-link.xml")
