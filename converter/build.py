@@ -97,7 +97,7 @@ def _build_alignment(doc, al, outdir: Path, opts: BuildOptions, inputs: list[str
     from converter.dxf import write_dxf
     from converter.layout import default_layout
     from converter.reports import check_text, review_text
-    from converter.selection import attach_surface, ground_at, solve_alignment
+    from converter.selection import attach_surface, solve_alignment
     from sheets.pdf import SheetOptions, render_sheets
 
     written: list[str] = []
@@ -131,10 +131,7 @@ def _build_alignment(doc, al, outdir: Path, opts: BuildOptions, inputs: list[str
     rows = tables.station_rows(ctx, stations, tags)
     columns = tables.STATION_COLUMNS
     if index is not None:
-        columns = columns + ("ground", "cut_fill")
-        for row, z in zip(rows, ground_at(ctx, index, stations), strict=True):
-            row["ground"] = float(z)
-            row["cut_fill"] = row["elevation"] - float(z)
+        columns = tables.add_ground_columns(ctx, index, stations, rows)
     _write(outdir / "table.csv", csv_text(rows, columns), inputs, written)
     tol = Tolerances()
     findings = check_document(doc, al.name, tol)

@@ -14,6 +14,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from converter import horizontal, vertical
+from converter._runs import true_runs
 from converter.errors import GradelineError
 from converter.horizontal import HorizontalGeometry
 from converter.model import Alignment, Document, HCurve, HIrregular, HLine, HSpiral, SourceRef
@@ -354,18 +355,8 @@ def check_linework(lines: list[np.ndarray], geom: vertical.VerticalGeometry, tol
     order = np.argsort(s[inside])
     ss, dd = s[inside][order], dev[inside][order]
     absd = np.abs(dd)
-    over_runs = []
-    bad = absd > tol
-    i = 0
-    while i < len(ss):
-        if not bad[i]:
-            i += 1
-            continue
-        j = i
-        while j + 1 < len(ss) and bad[j + 1]:
-            j += 1
-        over_runs.append((float(ss[i]), float(ss[j]), float(dd[i + int(np.argmax(absd[i:j + 1]))])))
-        i = j + 1
+    over_runs = [(float(ss[i]), float(ss[j]), float(dd[i + int(np.argmax(absd[i:j + 1]))]))
+                 for i, j in true_runs(absd > tol)]
     # coverage: union of the x-ranges of the pieces
     spans = sorted((float(p[:, 0].min()), float(p[:, 0].max())) for p in lines)
     uncovered = []

@@ -114,12 +114,7 @@ def cmd_table(args: argparse.Namespace) -> int:
     rows = tables.station_rows(ctx, stations, tags)
     columns = tables.STATION_COLUMNS
     if index is not None:
-        from converter.selection import ground_at
-
-        columns = columns + ("ground", "cut_fill")
-        for row, z in zip(rows, ground_at(ctx, index, stations), strict=True):
-            row["ground"] = float(z)
-            row["cut_fill"] = row["elevation"] - float(z)
+        columns = tables.add_ground_columns(ctx, index, stations, rows)
     _warn(ctx)
     inputs = [args.file] + ([args.ground] if args.ground else [])
     _emit(_render(ctx, args.format, columns, rows), args.output, inputs)

@@ -19,6 +19,7 @@ from numpy.typing import ArrayLike, NDArray
 
 from converter import horizontal
 from converter.horizontal import HorizontalGeometry
+from converter._runs import true_runs
 from converter.model import GroundPiece, GroundProfile, SourceRef
 
 __all__ = ["Surface", "TriangleIndex", "ground_profile", "interpolate", "sample_alignment"]
@@ -216,19 +217,8 @@ def sample_alignment(hz: HorizontalGeometry, index: TriangleIndex, *, step: floa
 def ground_profile(name: str, stations: NDArray[np.float64], ground: NDArray[np.float64],
                    source: SourceRef | None = None) -> GroundProfile:
     """A :class:`GroundProfile` with one piece per run of stations on the surface."""
-    ok = np.isfinite(ground)
-    pieces = []
-    i = 0
-    n = len(stations)
-    while i < n:
-        if not ok[i]:
-            i += 1
-            continue
-        j = i
-        while j + 1 < n and ok[j + 1]:
-            j += 1
-        if j > i:
-            pieces.append(GroundPiece(tuple(stations[i:j + 1].tolist()),
-                                      tuple(ground[i:j + 1].tolist()), source))
-        i = j + 1
+    pieces = [
+        GroundPiece(tuple(stations[i:j + 1].tolist()), tuple(ground[i:j + 1].tolist()), source)
+        for i, j in true_runs(np.isfinite(ground)) if j > i
+    ]
     return GroundProfile(name, tuple(pieces), source)

@@ -30,6 +30,7 @@ from numpy.lib.stride_tricks import sliding_window_view
 from numpy.typing import NDArray
 
 from converter import vertical
+from converter._runs import true_runs
 from converter.errors import InputError, UsageError
 from converter.model import SourceRef
 from converter.vertical import VerticalGeometry
@@ -395,21 +396,9 @@ class Deficiency:
 
 def _runs(stations, available, required, kind, direction) -> list[Deficiency]:
     short = available < required - 1e-6
-    out = []
-    i = 0
-    n = len(stations)
-    while i < n:
-        if not short[i]:
-            i += 1
-            continue
-        j = i
-        while j + 1 < n and short[j + 1]:
-            j += 1
-        seg = slice(i, j + 1)
-        out.append(Deficiency(kind, direction, float(stations[i]), float(stations[j]),
-                              float(np.min(available[seg])), float(np.max(required[seg]))))
-        i = j + 1
-    return out
+    return [Deficiency(kind, direction, float(stations[i]), float(stations[j]),
+                       float(np.min(available[i:j + 1])), float(np.max(required[i:j + 1])))
+            for i, j in true_runs(short)]
 
 
 @dataclass(frozen=True, eq=False)

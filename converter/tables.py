@@ -274,3 +274,17 @@ def horizontal_curve_rows(ctx: AlignmentContext) -> list[Row]:
 def curve_rows(ctx: AlignmentContext) -> list[Row]:
     """Horizontal curve rows, then vertical curve rows, all with :data:`CURVE_COLUMNS`."""
     return horizontal_curve_rows(ctx) + vertical_curve_rows(ctx)
+
+
+def add_ground_columns(ctx: AlignmentContext, index, stations: ArrayLike,
+                       rows: list[Row]) -> tuple[str, ...]:
+    """Add ``ground`` and ``cut_fill`` (finished grade minus ground) from a TIN index.
+
+    Returns the column names of the widened table.
+    """
+    from converter.selection import ground_at
+
+    for row, z in zip(rows, ground_at(ctx, index, stations), strict=True):
+        row["ground"] = float(z)
+        row["cut_fill"] = row["elevation"] - float(z)
+    return STATION_COLUMNS + ("ground", "cut_fill")
