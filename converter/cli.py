@@ -296,7 +296,6 @@ def cmd_check(args: argparse.Namespace) -> int:
 def cmd_fit(args: argparse.Namespace) -> int:
     import os
 
-    import numpy as np
 
     from converter import fit
     from converter.dxf import layer_names, read_drawing, read_linework, read_mapping

@@ -14,7 +14,6 @@ import io
 import logging
 import math
 from collections.abc import Iterator
-from typing import Any
 
 import ezdxf
 import numpy as np

@@ -15,7 +15,7 @@ from collections.abc import Iterator
 
 from lxml import etree
 
-from converter.errors import GradelineError, InputError, ModelError
+from converter.errors import InputError, ModelError
 from converter.model import (
     Alignment,
     Document,
@@ -544,11 +544,11 @@ def _iter_surfaces(path: str, want: str | None, names_only: bool):
                 parent = el.getparent()
                 if parent is not holder:
                     holder = parent
-                    surface = parent.getparent().getparent() if parent is not None else None
+                    surface = parent
+                    while surface is not None and not str(surface.tag).endswith("Surface"):
+                        surface = surface.getparent()
                     name = surface.get("name") if surface is not None else None
                     take = (not names_only) and surface is not None and (want is None or name == want)
-                    if take and last == "P" and not ids:
-                        line = surface.sourceline
                 if take:
                     if last == "P":
                         ids.append(el.get("id") or "")

@@ -20,7 +20,8 @@ __all__ = [
     "Viewport",
     "sheet_frames",
     "sheet_geometry",
-    "table_pages",
+    "pack_tables",
+    "table_capacity",
 ]
 
 POINT_M = 0.0254 / 72.0  # one PDF point in metres
