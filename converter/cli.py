@@ -61,7 +61,13 @@ def _with_ground(ctx: AlignmentContext, args: argparse.Namespace):
         return ctx, None
     from converter.selection import attach_surface
 
-    return attach_surface(ctx, args.ground, args.surface)
+    ctx2, index = attach_surface(ctx, args.ground, args.surface)
+    surf = index.s
+    if surf.skipped_faces:
+        err = GradelineError(f"{surf.skipped_faces} zero-area faces of surface {surf.name!r} "
+                             "were ignored", surf.source, "F")
+        sys.stderr.write(f"{PROG}: warning: {err}\n")
+    return ctx2, index
 
 
 def _add_output(p: argparse.ArgumentParser) -> None:

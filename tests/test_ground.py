@@ -225,3 +225,19 @@ def test_check_compares_ground_profile_with_tin(capsys):
     data = json.loads(capsys.readouterr().out)
     ground = [f for f in data["findings"] if f["element"] == "ProfSurf"]
     assert code == 1 and ground and ground[0]["verdict"] == "over"  # invented data differ
+
+
+def test_degenerate_faces_warn_on_the_command_line(tmp_path, capsys):
+    text = TERRAIN.read_text()
+    # turn the first face into a sliver with a repeated point
+    first = text.index("<F>") + 3
+    end = text.index("</F>", first)
+    a = text[first:end].split()[0]
+    bad = text[:first] + f"{a} {a} {a}" + text[end:]
+    path = tmp_path / "t.xml"
+    path.write_text(bad)
+    code = main(["table", str(US_SAMPLE), "--alignment", "Orrin Vale Bypass", "--ground", str(path),
+                 "--at", "20+00"])
+    err = capsys.readouterr().err
+    assert code == 0
+    assert "gradeline: warning: " in err and "1 zero-area faces of surface" in err
