@@ -510,14 +510,16 @@ def read_surface(path: str | os.PathLike[str], name: str | None = None):
 def _iter_surfaces(path: str, want: str | None, names_only: bool):
     """Yield (name, data or None) for every surface; data only for the wanted one.
 
-    Only ``Surface``, ``P``, ``F`` and the unit elements reach Python (lxml
-    filters the rest in C); each is cleared and dropped from its parent once
-    read, so memory holds the numbers, not a tree.
+    Only ``Surface``, ``P``, ``F``, ``Pnts``, ``Faces`` and the unit elements
+    reach Python (lxml filters the rest in C). Points and faces are taken from
+    their parent in batches of a few thousand and then dropped, so the tree
+    never holds more than one batch.
     """
     import numpy as np
 
     src = SourceRef(path, None)
-    tags = ("{*}Surface", "{*}P", "{*}F", "{*}Imperial", "{*}Metric")
+    tags = ("{*}Surface", "{*}P", "{*}F", "{*}Pnts", "{*}Faces", "{*}Imperial", "{*}Metric")
+    batch = 4096
     try:
         context = etree.iterparse(
             path, events=("end",), tag=tags, resolve_entities=False, no_network=True,
@@ -525,12 +527,36 @@ def _iter_surfaces(path: str, want: str | None, names_only: bool):
         )
         unit = None
         checked = False
-        holder = None  # the Pnts or Faces element whose children are being read
-        take = False
         pts_text: list[str] = []
         ids: list[str] = []
         faces_text: list[str] = []
-        hidden: list[int] = []
+        hidden_flags: list[str | None] = []
+        taking: dict[int, bool] = {}
+        count = 0
+
+        def wanted(holder) -> bool:
+            key = id(holder)
+            if key not in taking:
+                surface = holder
+                while surface is not None and not str(surface.tag).endswith("Surface"):
+                    surface = surface.getparent()
+                name = surface.get("name") if surface is not None else None
+                taking.clear()
+                taking[key] = (not names_only) and surface is not None and (
+                    want is None or name == want)
+            return taking[key]
+
+        def take(holder, upto: int | None) -> None:
+            kids = holder[:upto]
+            if wanted(holder):
+                if str(holder.tag).endswith("Pnts"):
+                    ids.extend(k.get("id") or "" for k in kids)
+                    pts_text.extend(k.text or "" for k in kids)
+                else:
+                    faces_text.extend(k.text or "" for k in kids)
+                    hidden_flags.extend(k.get("i") for k in kids)
+            del holder[:upto]
+
         for _, el in context:
             if not checked:
                 checked = True
@@ -541,37 +567,26 @@ def _iter_surfaces(path: str, want: str | None, names_only: bool):
             tag = el.tag
             last = tag[-1]
             if last in "PF" and (len(tag) == 1 or tag[-2] == "}"):
-                parent = el.getparent()
-                if parent is not holder:
-                    holder = parent
-                    surface = parent
-                    while surface is not None and not str(surface.tag).endswith("Surface"):
-                        surface = surface.getparent()
-                    name = surface.get("name") if surface is not None else None
-                    take = (not names_only) and surface is not None and (want is None or name == want)
-                if take:
-                    if last == "P":
-                        ids.append(el.get("id") or "")
-                        pts_text.append(el.text or "")
-                    else:
-                        faces_text.append(el.text or "")
-                        if el.get("i") == "1":
-                            hidden.append(len(faces_text) - 1)
-                el.clear(keep_tail=False)
-                if el.getprevious() is not None:  # the tree never holds more than two
-                    del parent[0]
+                count += 1
+                if count % batch == 0:
+                    parent = el.getparent()
+                    if parent is not None:
+                        take(parent, -1)  # keep the newest element: lxml may still hold it
+                continue
+            if tag.endswith("Pnts") or tag.endswith("Faces"):
+                take(el, None)
                 continue
             if tag.endswith("Surface"):
                 current = el.get("name") or f"surface {el.sourceline}"
-                wanted = (not names_only) and (want is None or current == want)
-                if wanted and (ids or faces_text):
+                if (not names_only) and (want is None or current == want) and (ids or faces_text):
+                    hidden = [i for i, f in enumerate(hidden_flags) if f == "1"]
                     yield current, _surface_arrays(path, current, el.sourceline, unit, ids,
                                                    pts_text, faces_text, hidden, np)
-                    ids, pts_text, faces_text, hidden = [], [], [], []
+                    ids, pts_text, faces_text, hidden_flags = [], [], [], []
                 else:
                     yield current, None
                 el.clear(keep_tail=False)
-                holder = None
+                taking.clear()
             elif unit is None:
                 unit = el.get("linearUnit")
     except etree.XMLSyntaxError as err:
