@@ -231,9 +231,13 @@ def cmd_review(args: argparse.Namespace) -> int:
     given = args.units or crit.speed_unit
     if given != crit.speed_unit:  # the file's units decide the controls; convert the speed
         speed = speed * review.MPH_TO_KMH if given == "mph" else speed / review.MPH_TO_KMH
+    from converter import horizontal as hz_mod
+
+    hcurves = hz_mod.curve_data(ctx.horizontal) if ctx.horizontal is not None else ()
     rev = review.review_profile(ctx.geometry, crit, speed, curbed=args.curbed,
                                 passing=args.passing, step=args.step,
-                                length_unit=ctx.document.units.symbol)
+                                length_unit=ctx.document.units.symbol,
+                                horizontal_curves=hcurves, e_max=args.emax)
     text = json_text(review_payload(ctx, rev)) if args.json else review_text(ctx, rev)
     _emit(text, args.output, [args.file])
     return 1 if rev.failed else 0
@@ -703,6 +707,8 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("--curbed", action="store_true", help="curbed section: flag drainage on flat curves")
     p.add_argument("--passing", action="store_true", help="also check passing sight distance on crests")
     p.add_argument("--criteria", metavar="FILE", help="TOML design controls (see converter/criteria/)")
+    p.add_argument("--emax", type=float, metavar="E",
+                   help="maximum superelevation rate for the minimum-radius check (default 0.08)")
     p.add_argument("--step", type=float, metavar="D",
                    help="station step of the sight-distance run (default 10 ft / 5 m)")
     p.add_argument("--json", action="store_true", help="write JSON instead of text")

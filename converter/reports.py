@@ -29,12 +29,16 @@ def review_summary(rev: Review) -> str:
     """The first line: what failed, out of how much."""
     failed_curves = sum(c.failed for c in rev.curves)
     ranges = len(rev.deficiencies)
-    checks = sum(len(c.checks) for c in rev.curves)
+    checks = sum(len(c.checks) for c in rev.curves) + len(rev.radius_checks)
+    tight = sum(ch.verdict == "fail" for _, ch in rev.radius_checks)
     if not rev.failed:
-        return (f"PASS: all {checks} checks on {len(rev.curves)} vertical curves pass and sight "
-                "distance is available everywhere")
+        return (f"PASS: all {checks} checks on {len(rev.curves)} vertical curves"
+                + (f" and {len(rev.radius_checks)} horizontal curves" if rev.radius_checks else "")
+                + " pass and sight distance is available everywhere")
     return (f"FAIL: {failed_curves} of {len(rev.curves)} vertical curves fail a check; "
-            f"{ranges} station range{'s' if ranges != 1 else ''} lack sight distance")
+            f"{ranges} station range{'s' if ranges != 1 else ''} lack sight distance"
+            + (f"; {tight} horizontal curve{'s' if tight != 1 else ''} below the minimum radius"
+               if tight else ""))
 
 
 def review_text(ctx: AlignmentContext, rev: Review) -> str:
@@ -66,6 +70,13 @@ def review_text(ctx: AlignmentContext, rev: Review) -> str:
             lines.append(f"  {ch.name:<{width}}  {_num(ch.required):>10}  {_num(ch.provided):>10}  "
                          f"{m:>10}  {ch.verdict.upper() if ch.verdict != 'pass' else 'pass'}"
                          + (f"  ({ch.note})" if ch.note else ""))
+        lines.append("")
+    if rev.radius_checks:
+        lines.append("horizontal curves:")
+        for i, (station, ch) in enumerate(rev.radius_checks, start=1):
+            lines.append(f"  curve {i} at {st.label(station)}: {ch.name}: required R {ch.required:.1f} "
+                         f"{lu}, provided {ch.provided:.1f} {lu}, margin {ch.margin:+.1f}  "
+                         f"{'pass' if ch.verdict == 'pass' else ch.verdict.upper()}")
         lines.append("")
     step = rev.sight.stations[1] - rev.sight.stations[0] if len(rev.sight.stations) > 1 else 0
     lines.append(f"sight distance along the finished grade (every {step:g} {lu}, both directions):")
@@ -125,6 +136,12 @@ def review_payload(ctx: AlignmentContext, rev: Review) -> dict[str, Any]:
              "start_label": st.label(d.start), "end_label": st.label(d.end),
              "available_min": d.available_min, "required": d.required}
             for d in rev.deficiencies
+        ],
+        "horizontal_curves": [
+            {"number": i, "pc_station": s, "pc_label": st.label(s), "name": ch.name,
+             "required_radius": ch.required, "radius": ch.provided, "margin": ch.margin,
+             "verdict": ch.verdict}
+            for i, (s, ch) in enumerate(rev.radius_checks, start=1)
         ],
         "notes": list(rev.notes),
         "caution": labels.CAUTION,

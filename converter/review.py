@@ -81,7 +81,21 @@ class Criteria:
     appearance_per_speed: float
     drainage_k_max: float
     passing_object_height: float
+    radius_coefficient: float = 15.0
+    e_max: float = 0.08
     passing_sight_distance: tuple[tuple[float, float], ...] = ()
+    side_friction: tuple[tuple[float, float], ...] = ()
+
+    def min_radius(self, speed: float, e_max: float | None = None) -> float | None:
+        """Minimum horizontal radius V^2 / (c (e + f)) for a design speed (None off the table)."""
+        if not self.side_friction:
+            return None
+        v = np.array([p[0] for p in self.side_friction])
+        f = np.array([p[1] for p in self.side_friction])
+        if speed < v[0] or speed > v[-1]:
+            return None
+        e = self.e_max if e_max is None else e_max
+        return speed**2 / (self.radius_coefficient * (e + float(np.interp(speed, v, f))))
 
     @property
     def crest_constant(self) -> float:
@@ -128,14 +142,18 @@ def load_criteria(path: str | None, metric: bool) -> Criteria:
     if not isinstance(table, dict):
         raise InputError(f"no [{key}] table of design controls", SourceRef(where), "criteria")
     values: dict[str, Any] = {"name": str(data.get("name", where))}
+    optional = ("radius_coefficient", "e_max")
     for f in Criteria.__dataclass_fields__:
-        if f in ("name", "passing_sight_distance"):
+        if f in ("name", "passing_sight_distance", "side_friction"):
+            continue
+        if f in optional and f not in table:
             continue
         if f not in table:
             raise InputError(f"[{key}] lacks {f!r}", SourceRef(where), "criteria")
         values[f] = table[f] if f == "speed_unit" else float(table[f])
-    psd = table.get("passing_sight_distance", {})
-    values["passing_sight_distance"] = tuple(sorted((float(k), float(v)) for k, v in psd.items()))
+    for key_name in ("passing_sight_distance", "side_friction"):
+        tab = table.get(key_name, {})
+        values[key_name] = tuple(sorted((float(k), float(v)) for k, v in tab.items()))
     return Criteria(**values)
 
 
@@ -413,16 +431,33 @@ class Review:
     sight: SightDistance
     deficiencies: tuple[Deficiency, ...]
     notes: tuple[str, ...] = field(default=())
+    radius_checks: tuple[tuple[float, Check], ...] = ()  # (PC/TS station, check)
 
     @property
     def failed(self) -> bool:
-        """True when any curve check fails or any station range lacks sight distance."""
-        return any(c.failed for c in self.curves) or bool(self.deficiencies)
+        """True when any check fails or any station range lacks sight distance."""
+        return (any(c.failed for c in self.curves) or bool(self.deficiencies)
+                or any(ch.verdict == "fail" for _, ch in self.radius_checks))
+
+
+def radius_checks(curves, crit: Criteria, speed: float, e_max: float | None = None,
+                  lu: str = "ft") -> tuple[tuple[float, Check], ...]:
+    """Minimum radius for the design speed against each horizontal curve's radius."""
+    need = crit.min_radius(speed, e_max)
+    if need is None:
+        return ()
+    e = crit.e_max if e_max is None else e_max
+    return tuple(
+        (c.start_station, Check(f"minimum radius (e max {100 * e:g} %)", need, c.radius, lu,
+                                _verdict(c.radius >= need - 1e-9)))
+        for c in curves
+    )
 
 
 def review_profile(geom: VerticalGeometry, crit: Criteria, speed: float, *,
                    curbed: bool = False, passing: bool = False, step: float | None = None,
-                   length_unit: str = "ft") -> Review:
+                   length_unit: str = "ft", horizontal_curves=(),
+                   e_max: float | None = None) -> Review:
     """Review ``geom`` for a design ``speed`` in the criteria's speed unit."""
     if not (math.isfinite(speed) and speed > 0):
         raise UsageError(f"design speed must be a positive number, got {speed:g}")
@@ -449,4 +484,5 @@ def review_profile(geom: VerticalGeometry, crit: Criteria, speed: float, *,
         "Checks do not replace the governing agency's standards or the responsible "
         "engineer's judgment.",
     )
-    return Review(crit, speed, crit.speed_unit, ssd, curves, sd, tuple(defs), notes)
+    radii = radius_checks(horizontal_curves, crit, speed, e_max, length_unit)
+    return Review(crit, speed, crit.speed_unit, ssd, curves, sd, tuple(defs), notes, radii)

@@ -162,3 +162,24 @@ def test_speed_unit_conversion(capsys):
     data = json.loads(capsys.readouterr().out)
     assert data["design_speed"] == pytest.approx(50 * 1.609344)
     assert data["speed_unit"] == "kmh"
+
+
+@pytest.mark.parametrize(("crit", "speed", "radius"), [
+    # AASHTO 2018 Table 3-7, e max = 8 % (values recalled from memory): R = V^2 / (15 (e + f))
+    (US, 50, 758), (US, 60, 1200),
+    # metric: R = V^2 / (127 (e + f))
+    (SI, 80, 229), (SI, 100, 394),
+], ids=["50mph", "60mph", "80kmh", "100kmh"])
+def test_minimum_radius(crit, speed, radius):
+    assert round(crit.min_radius(speed)) == radius
+
+
+def test_radius_check_flags_a_tight_curve(capsys):
+    code = main(["review", str(US_SAMPLE), "--alignment", "Orrin Vale Bypass", "--speed", "65",
+                 "--json"])
+    data = json.loads(capsys.readouterr().out)
+    assert code == 1
+    radii = data["horizontal_curves"]
+    # 65 mph: R = 65^2 / (15 (0.08 + 0.11)) = 1482 ft; the sample curves are 1200 and 1500 ft
+    assert [r["verdict"] for r in radii] == ["fail", "pass"]
+    assert radii[0]["required_radius"] == pytest.approx(65**2 / (15 * 0.19))
