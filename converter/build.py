@@ -145,7 +145,11 @@ def _build_alignment(doc, al, outdir: Path, opts: BuildOptions, inputs: list[str
         speed = opts.speed
         if opts.speed_unit and opts.speed_unit != crit.speed_unit:
             speed = speed * review.MPH_TO_KMH if opts.speed_unit == "mph" else speed / review.MPH_TO_KMH
-        rev = review.review_profile(ctx.geometry, crit, speed, length_unit=units.symbol)
+        from converter import horizontal
+
+        hcurves = horizontal.curve_data(ctx.horizontal) if ctx.horizontal is not None else ()
+        rev = review.review_profile(ctx.geometry, crit, speed, length_unit=units.symbol,
+                                    horizontal_curves=hcurves)
         review_failed = rev.failed
         _write(outdir / "review.txt", review_text(ctx, rev), inputs, written)
     if ctx.horizontal is not None and ctx.horizontal.findings:
