@@ -1,6 +1,7 @@
 """Fuzzing: mutated sample files never give a traceback, a hang or a half-written output.
 
-A short run is part of the test suite. The long run (at least 2,000 cases):
+Each case runs table, curves, check, dxf, review and sheets. A short run is part
+of the test suite. The long run (at least 2,000 cases):
 
     GRADELINE_FUZZ_EXAMPLES=2000 python -m pytest tests/test_fuzz.py -q -p no:cacheprovider
 """
@@ -69,6 +70,7 @@ def test_mutated_files(tmp_path, seed, count, which):
         (["dxf", str(src), "-o", str(tmp_path / "p.dxf"), "--plan", str(tmp_path / "q.dxf")],
          tmp_path / "p.dxf"),
         (["review", str(src), "--speed", "50"], None),
+        (["sheets", str(src), "-o", str(tmp_path / "s.pdf")], tmp_path / "s.pdf"),
     ]
     for args, out in runs:
         if out is not None and out.exists():
@@ -82,7 +84,7 @@ def test_mutated_files(tmp_path, seed, count, which):
             # outputs are complete or absent: written in full only on success
             assert out.exists() == (code == 0)
             if code == 0:
-                assert out.read_bytes().rstrip().endswith(b"EOF")
+                assert out.read_bytes().rstrip().endswith((b"EOF", b"%%EOF"))
     leftovers = [p for p in tmp_path.iterdir() if p.name.startswith(".gradeline-")]
     assert leftovers == []
 
