@@ -330,8 +330,8 @@ def _sheet(c, ctx, opts, geo, lay, frame: Frame, total_frames: int, total_pages:
         if other < 1 or other > total_frames:
             continue
         _style(c, "match", f)
-        xm, _ = xf(m, 0.0)
-        c.line(xm, vp.y, xm, vp.y + vp.h - 2.2 * ts)
+        xm, grid_bottom = xf(m, 0.0)  # from the grid's bottom up, clear of the strip
+        c.line(xm, max(vp.y, grid_bottom), xm, vp.y + vp.h - 2.2 * ts)
         c.setFont(FONT_BOLD, 0.85 * ts)
         text = _match_label(st.label(m), other)
         if other < frame.number:
