@@ -173,7 +173,7 @@ class _PieceLookup:
     @classmethod
     def build(cls, starts: NDArray[np.float64], end: float) -> _PieceLookup:
         n = len(starts)
-        buckets = int(min(max(8 * n, 16), 1 << 20))
+        buckets = int(min(max(32 * n, 16), 1 << 20))
         width = (end - starts[0]) / buckets
         edges = starts[0] + width * np.arange(buckets)
         table = np.searchsorted(starts, edges, side="right") - 1
