@@ -346,6 +346,9 @@ def check_linework(lines: list[np.ndarray], geom: vertical.VerticalGeometry, tol
                    exaggeration: float, datum: float, mapping_from: str,
                    step: float = 1.0) -> DrawingCheck:
     """Deviation of drawn linework from the computed grade, sampled every ``step``."""
+    span = sum(float(np.abs(np.diff(p[:, 0])).sum()) for p in lines)
+    if span / step > 50_000_000:
+        raise GradelineError(f"the linework spans {span:g} in x: too long to sample every {step:g}")
     pts = _sample(lines, step)
     s = pts[:, 0]
     z_drawn = pts[:, 1] / exaggeration + datum

@@ -20,7 +20,7 @@ from typing import Any
 import numpy as np
 
 from converter import horizontal, labels, vertical
-from converter.layout import DraftingLayout
+from converter.layout import DraftingLayout, guard_count
 from converter.selection import AlignmentContext
 
 __all__ = [
@@ -194,6 +194,7 @@ class _Profile:
             self.x0, self.x1 = float(window[0]), float(window[1])
         # the part of the profile that is drawn
         self.s0, self.s1 = max(g.start, self.x0), min(g.end, self.x1)
+        guard_count((self.x1 - self.x0) / layout.station_minor, "profile grid lines")
 
     def y(self, z):
         return (np.asarray(z, dtype=float) - self.datum) * self.lay.exaggeration
@@ -506,6 +507,7 @@ def plan_drawing(ctx: AlignmentContext, layout: DraftingLayout) -> Drawing:
             continue
         kmax = max(abs(el.k0), abs(el.k1))
         step = math.sqrt(8.0 * tol / kmax) if kmax > 0 else el.length
+        guard_count(el.length / step, "plan polyline vertices")
         n = max(2, math.ceil(el.length / step) + 1)
         s = np.linspace(el.start_station, el.end_station, n)
         north, east, _ = horizontal.evaluate(hz, s)
@@ -524,6 +526,7 @@ def plan_drawing(ctx: AlignmentContext, layout: DraftingLayout) -> Drawing:
         items.append(item)
         taken.append(item.corners())
 
+    guard_count((hz.end - hz.start) / layout.plan_tick, "plan station ticks")
     ticks = st.round_stations(layout.plan_tick, hz.start, hz.end)
     north, east, head = horizontal.evaluate(hz, ticks)
     for s, n_, e_, hd in zip(ticks.tolist(), north.tolist(), east.tolist(), head.tolist(), strict=True):

@@ -199,6 +199,11 @@ def sample_alignment(hz: HorizontalGeometry, index: TriangleIndex, *, step: floa
         k = max(abs(g.k0), abs(g.k1))
         h = min(index.cell * 0.9, math.sqrt(8 * chord / k) if k > 0 else index.cell * 0.9)
         n = max(2, math.ceil((s1 - s0) / h) + 1)
+        if n > 20_000_000:
+            from converter.errors import UsageError
+
+            raise UsageError(f"sampling the surface along {s1 - s0:g} of alignment needs "
+                             f"{n:,} points (at most 20,000,000); is a length in the file wrong?")
         base.append(np.linspace(s0, s1, n))
     ss = np.unique(np.concatenate(base))
     north, east, _ = horizontal.evaluate(hz, ss)

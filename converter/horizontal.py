@@ -366,6 +366,12 @@ def _spiral(index: int, el: HSpiral, station: float, prev: ElementGeom | None) -
     law = _LAW[el.spi_type]
     dk = k1 - k0
     L = el.length
+    turn = abs(k0 + dk * float(_shape_integral(np.array([law]), np.array([1.0]))[0])) * L
+    if turn > TWO_PI:
+        raise ModelError(
+            f"spiral turns through {math.degrees(turn):.0f} degrees (length {L:g} with radii "
+            f"{el.radius_start:g} and {el.radius_end:g}); a road transition turns far less than "
+            "a full circle", el.source, "Spiral")
     n = _panels(law, L, k0, dk)
     x, y = xs, ys
     for i in range(n):

@@ -13,7 +13,20 @@ from dataclasses import dataclass, field, replace
 from converter.errors import UsageError
 from converter.units import Units
 
-__all__ = ["LAYER_ROLES", "DraftingLayout", "default_layout", "nice_step"]
+__all__ = ["LAYER_ROLES", "MAX_DRAWN_LINES", "DraftingLayout", "default_layout", "guard_count",
+           "nice_step"]
+
+#: Most grid lines, ticks, sheets or table rows one command will produce: far
+#: beyond any real alignment (a 50-mile profile has about 5,300 minor grid lines),
+#: and a stop for absurd lengths in broken files before they exhaust memory.
+MAX_DRAWN_LINES = 200_000
+
+
+def guard_count(count: float, what: str, hint: str = "") -> None:
+    """Refuse work that would produce more than :data:`MAX_DRAWN_LINES` items."""
+    if not count <= MAX_DRAWN_LINES:
+        raise UsageError(f"{what}: {count:,.0f} would be needed (at most {MAX_DRAWN_LINES:,}); "
+                         + (hint or "is a length in the file wrong?"))
 
 #: Drawing roles and the default layer name of each (our own names).
 LAYER_ROLES: dict[str, str] = {

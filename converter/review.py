@@ -384,6 +384,9 @@ def sight_distance(geom: VerticalGeometry, crit: Criteria, *, step: float, reach
     if not (step > 0 and reach > 0):
         raise UsageError("step and reach must be positive")
     dx = sample or min(step / 10.0, 1.0)
+    if (geom.end - geom.start) / dx > 50_000_000:
+        raise UsageError(f"the profile is {geom.end - geom.start:g} long: too long to sample every "
+                         f"{dx:g} for sight distance (at most 50,000,000 samples)")
     n = int(math.floor((geom.end - geom.start) / dx)) + 1
     xs = geom.start + dx * np.arange(n)
     z, g = vertical.evaluate(geom, xs)

@@ -236,6 +236,9 @@ class Stationing:
         """Internal stations in [lo, hi] whose labels are multiples of ``interval``."""
         if not (interval > 0 and math.isfinite(interval)):
             raise UsageError(f"interval must be a positive number, got {interval:g}")
+        if (hi - lo) / interval > 2_000_000:
+            raise UsageError(f"interval {interval:g} gives {(hi - lo) / interval:,.0f} stations "
+                             "(at most 2,000,000); choose a larger interval")
         starts, offsets = self._tables()
         ends = np.append(starts[1:], np.inf)
         out: list[NDArray[np.float64]] = []

@@ -156,6 +156,9 @@ def sheet_frames(start: float, end: float, geometry: SheetGeometry,
         )
     first = math.floor(start / major + 1e-9) * major
     count = max(1, math.ceil((end - first) / span - 1e-9))
+    if count > 5000:
+        raise UsageError(f"{count:,} sheets would be needed (at most 5,000); is a length in the "
+                         "file wrong, or should the scale be smaller?")
     frames = []
     for i in range(count):
         m0 = first + i * span

@@ -97,3 +97,29 @@ def test_one_bad_file_does_not_stop_the_others(tmp_path):
     assert "truncated-2.xml:15: XML: not well-formed" in bad[0]["error"]
     for rel in ok[0]["outputs"]:
         assert (out / rel).stat().st_size > 0
+
+
+def test_spiral_of_absurd_length_is_refused_quickly(tmp_path):
+    """Regression (issue 10 fuzzing): a 1e9-ft spiral made `check` run for minutes."""
+    text = (Path(__file__).resolve().parent.parent / "samples" / "orrin-vale-bypass.xml").read_text()
+    path = tmp_path / "spiral.xml"
+    path.write_text(text.replace('length="250.000000" radiusStart="1200.000000"',
+                                 'length="1e9" radiusStart="1200.000000"', 1))
+    done = run("check", path, timeout=30)
+    _assert_one_line(done, path)
+    assert "spiral turns through" in done.stderr
+
+
+@pytest.mark.parametrize("command", [["table", "--interval", "100"], ["dxf", "-o", "x.dxf"],
+                                     ["sheets", "-o", "x.pdf"], ["review", "--speed", "50"]],
+                         ids=["table", "dxf", "sheets", "review"])
+def test_absurd_profile_length_is_refused_quickly(tmp_path, command):
+    path = tmp_path / "long.xml"
+    path.write_text('<LandXML><Units><Imperial linearUnit="foot"/></Units><Alignments>'
+                    '<Alignment name="L"><Profile><ProfAlign><PVI>0 100</PVI><PVI>1000000000 101'
+                    "</PVI></ProfAlign></Profile></Alignment></Alignments></LandXML>")
+    args = [a if a not in ("x.dxf", "x.pdf") else tmp_path / a for a in command[1:]]
+    done = run(command[0], path, *args, timeout=30)
+    assert done.returncode == 2 and done.stderr.count("\n") == 1
+    assert "Traceback" not in done.stderr and "at most" in done.stderr
+    assert not (tmp_path / "x.dxf").exists() and not (tmp_path / "x.pdf").exists()
