@@ -72,6 +72,10 @@ CONVENTIONS = {
 }
 
 _GL_T, _GL_W = np.polynomial.legendre.leggauss(8)
+
+#: Stations this close beyond the POB or POE (file units) evaluate at the end:
+#: exported coordinates are rounded, so a profile's end can sit a hair past the plan's.
+END_TOLERANCE = 1e-6
 _PANEL_TURN = 0.25  # radians of turning per quadrature panel
 
 
@@ -558,8 +562,9 @@ def evaluate(
     """
     s_in = np.asarray(stations, dtype=np.float64)
     s = s_in.reshape(-1)
-    outside = ~((s >= geom.start) & (s <= geom.end))
-    s_eval = np.where(outside, geom.start, s) if outside.any() else s
+    # a station within rounding (1e-6) of an end counts as that end
+    outside = ~((s >= geom.start - END_TOLERANCE) & (s <= geom.end + END_TOLERANCE))
+    s_eval = np.clip(np.where(outside, geom.start, s), geom.start, geom.end)
     x, y, h, _ = _state(geom, s_eval)
     if outside.any():
         x[outside] = y[outside] = h[outside] = np.nan

@@ -108,11 +108,17 @@ def key_points(ctx: AlignmentContext) -> list[KeyPoint]:
     found += [(e.internal, "EQUATION") for e in ctx.stationing.equations if lo <= e.internal <= hi]
     found = [(s, t) for s, t in found if lo - JOIN_TOLERANCE <= s <= hi + JOIN_TOLERANCE]
     found.sort(key=lambda p: p[0])
+    vertical_tags = {"START", "END", "PVI", "BVC", "EVC", "HIGH", "LOW"}
     merged: list[KeyPoint] = []
     for station, tag in found:
         if merged and abs(station - merged[-1].station) <= JOIN_TOLERANCE:
             if tag not in merged[-1].tags:
-                merged[-1] = KeyPoint(merged[-1].station, merged[-1].tags + (tag,))
+                keep = merged[-1].station
+                # where plan and profile key points coincide within rounding, the row
+                # takes the profile's station (its elevation is the one tabulated)
+                if tag in vertical_tags and not vertical_tags & set(merged[-1].tags):
+                    keep = station
+                merged[-1] = KeyPoint(keep, merged[-1].tags + (tag,))
         else:
             merged.append(KeyPoint(station, (tag,)))
     return merged
