@@ -140,10 +140,40 @@ def _draw_items(c, items, xf: _Xform, vp: Viewport, f: float) -> None:
             x, y = xf(*item.center)
             c.circle(x, y, item.radius * xf.k, stroke=1, fill=0)
     c.restoreState()
-    for item in items:
+    notes: list[Text] = []
+    for item in list(items) + [None]:
+        if isinstance(item, Text) and item.role == "plan_notes":
+            notes.append(item)  # a curve-data note: its lines move and show together
+            continue
+        if notes:
+            _note_block(c, notes, xf, vp, f)
+            notes = []
         if isinstance(item, Text):
             _style(c, item.role, f)
             _text(c, item, xf, vp)
+
+
+def _note_block(c, lines: list[Text], xf: _Xform, vp: Viewport, f: float) -> None:
+    """Draw a note's lines as one block, nudged into the viewport when it pokes out.
+
+    A note is skipped whole when it cannot fit; it is never drawn in part.
+    """
+    boxes = []
+    for t in lines:
+        x, y = xf(t.x, t.y)
+        boxes.append(Text(t.role, t.text, x, y, t.height * xf.k, t.rotation + xf.angle_deg,
+                          t.halign, t.valign).corners())
+    pts = np.concatenate(boxes)
+    x0, y0 = pts.min(axis=0)
+    x1, y1 = pts.max(axis=0)
+    if x1 - x0 > vp.w or y1 - y0 > vp.h:
+        return
+    dx = max(0.0, vp.x - x0) - max(0.0, x1 - (vp.x + vp.w))
+    dy = max(0.0, vp.y - y0) - max(0.0, y1 - (vp.y + vp.h))
+    shift = _Xform(1.0 / xf.k, (xf.ox, xf.oy), (xf.tx + dx, xf.ty + dy), -math.radians(xf.angle_deg))
+    for t in lines:
+        _style(c, t.role, f)
+        _text(c, t, shift, vp)
 
 
 def _item_boxes(drawing: Drawing) -> np.ndarray:
