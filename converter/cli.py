@@ -243,6 +243,23 @@ def cmd_review(args: argparse.Namespace) -> int:
     return 1 if rev.failed else 0
 
 
+def _drawing_mapping(args: argparse.Namespace, stored: dict[str, str]):
+    """(exaggeration, datum, how) from the options or the drawing; None when neither says."""
+    if (args.exaggeration is None) != (args.datum is None):
+        raise UsageError("give both --exaggeration and --datum, or neither")
+    if args.exaggeration is not None:
+        return args.exaggeration, args.datum, "given"
+    if "exaggeration" in stored and "datum" in stored:
+        return float(stored["exaggeration"]), float(stored["datum"]), "from the drawing"
+    return None
+
+
+def _add_report(p: argparse.ArgumentParser) -> None:
+    p.add_argument("--json", action="store_true", help="write JSON instead of text")
+    p.add_argument("-o", "--output", metavar="PATH", help="write the report here instead of "
+                   "standard output")
+
+
 def cmd_check(args: argparse.Namespace) -> int:
     import math
 
@@ -280,17 +297,12 @@ def cmd_check(args: argparse.Namespace) -> int:
         if not lines:
             raise UsageError(f"{args.dxf}: no LINE, LWPOLYLINE, POLYLINE, SPLINE or ARC on layer "
                              f"{layer!r}; layers with linework: " + (", ".join(names) or "none"))
-        if (args.exaggeration is None) != (args.datum is None):
-            raise UsageError("give both --exaggeration and --datum, or neither")
-        if args.exaggeration is not None:
-            exag, datum, how = args.exaggeration, args.datum, "given"
+        found = _drawing_mapping(args, read_mapping(dxf_doc))
+        if found is not None:
+            exag, datum, how = found
         else:
-            mapping = read_mapping(dxf_doc)
-            if "exaggeration" in mapping and "datum" in mapping:
-                exag, datum, how = float(mapping["exaggeration"]), float(mapping["datum"]), "from the drawing"
-            else:
-                exag, datum = check.fit_mapping(lines, ctx.geometry)
-                how = "fitted by least squares"
+            exag, datum = check.fit_mapping(lines, ctx.geometry)
+            how = "fitted by least squares"
         drawing = check.check_linework(lines, ctx.geometry, tol.distance, exag, datum, how)
         stationing = ctx.stationing
     if args.json:
@@ -319,15 +331,11 @@ def cmd_fit(args: argparse.Namespace) -> int:
         raise UsageError(f"{args.drawing}: no LINE, LWPOLYLINE, POLYLINE, SPLINE or ARC on layer "
                          f"{args.layer!r}; layers with linework: " + (", ".join(names) or "none"))
     mapping = read_mapping(dxf_doc)
-    if (args.exaggeration is None) != (args.datum is None):
-        raise UsageError("give both --exaggeration and --datum, or neither")
-    if args.exaggeration is not None:
-        exag, datum = args.exaggeration, args.datum
-    elif "exaggeration" in mapping and "datum" in mapping:
-        exag, datum = float(mapping["exaggeration"]), float(mapping["datum"])
-    else:
+    found = _drawing_mapping(args, mapping)
+    if found is None:
         raise UsageError(f"{args.drawing}: the drawing does not say how it maps to elevations; "
                          "give --exaggeration and --datum")
+    exag, datum, _ = found
     if exag <= 0:
         raise UsageError("--exaggeration must be positive")
     unit = args.units or ("m" if mapping.get("linear_unit") == "meter" else "ft")
@@ -711,8 +719,7 @@ def build_parser() -> argparse.ArgumentParser:
                    help="maximum superelevation rate for the minimum-radius check (default 0.08)")
     p.add_argument("--step", type=float, metavar="D",
                    help="station step of the sight-distance run (default 10 ft / 5 m)")
-    p.add_argument("--json", action="store_true", help="write JSON instead of text")
-    p.add_argument("-o", "--output", metavar="PATH", help="write here instead of standard output")
+    _add_report(p)
     p.set_defaults(func=cmd_review)
 
     p = sub.add_parser(
@@ -739,8 +746,7 @@ def build_parser() -> argparse.ArgumentParser:
                    help="distance and elevation tolerance in file units (default 0.01)")
     p.add_argument("--angle-tolerance", type=float, default=2.0, metavar="SEC",
                    help="angle and direction tolerance in seconds of arc (default 2)")
-    p.add_argument("--json", action="store_true", help="write JSON instead of text")
-    p.add_argument("-o", "--output", metavar="PATH", help="write the report here")
+    _add_report(p)
     p.set_defaults(func=cmd_check)
 
     p = sub.add_parser(
