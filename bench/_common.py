@@ -7,8 +7,7 @@ import time
 from collections.abc import Callable
 
 import numpy as np
-
-from converter.model import Profile, PVISpec
+from gradeline.model import Profile, PVISpec
 
 
 def best_of(fn: Callable[[], object], repeat: int = 5) -> float:
@@ -48,8 +47,8 @@ def synthetic_profile(n_pvi: int, spacing: float = 660.0, seed: int = 1) -> Prof
 
 def synthetic_plan(n_groups: int, seed: int = 3):
     """A plan of ``n_groups`` x (line, spiral, arc, spiral) elements, chained exactly."""
-    from converter import horizontal
-    from converter.model import HCurve, HLine, HorizontalAlignment, HSpiral
+    from gradeline.geometry import horizontal
+    from gradeline.model import HCurve, HLine, HorizontalAlignment, HSpiral
 
     rng = np.random.default_rng(seed)
     x, y, h = 500000.0, 4000000.0, 0.3

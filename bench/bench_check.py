@@ -15,11 +15,13 @@ import numpy as np
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
+from gradeline.analysis import check
+from gradeline.geometry import horizontal, vertical
+from gradeline.io.dxf_read import read_drawing, read_linework  # noqa: E402
+from gradeline.model import Alignment, Document  # noqa: E402
+from gradeline.model.units import Units  # noqa: E402
+
 from bench._common import synthetic_plan, synthetic_profile  # noqa: E402
-from converter import check, horizontal, vertical  # noqa: E402
-from converter.dxf import read_drawing, read_linework  # noqa: E402
-from converter.model import Alignment, Document  # noqa: E402
-from converter.units import Units  # noqa: E402
 
 
 def main() -> None:

@@ -19,14 +19,16 @@ import numpy as np
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
+from gradeline.model import Alignment, Document, GroundPiece, GroundProfile  # noqa: E402
+from gradeline.model.units import Units  # noqa: E402
+from gradeline.present import drafting
+from gradeline.present.items import ArcItem, Circle, QuadCurve, Text  # noqa: E402
+from gradeline.present.items import Path as DPath
+from gradeline.present.layout import default_layout  # noqa: E402
+from gradeline.render.dxf import add_vertices, write_dxf  # noqa: E402
+from gradeline.solved import solve_alignment  # noqa: E402
+
 from bench._common import synthetic_profile  # noqa: E402
-from converter import drafting  # noqa: E402
-from converter.drafting import ArcItem, Circle, Path as DPath, QuadCurve, Text  # noqa: E402
-from converter.dxf import add_vertices, write_dxf  # noqa: E402
-from converter.layout import default_layout  # noqa: E402
-from converter.model import Alignment, Document, GroundPiece, GroundProfile  # noqa: E402
-from converter.selection import solve_alignment  # noqa: E402
-from converter.units import Units  # noqa: E402
 
 
 def bare_write(drawing) -> float:

@@ -22,9 +22,11 @@ import numpy as np
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
+from gradeline.geometry import ground, horizontal
+from gradeline.io import surface_reader
+
 from bench._common import synthetic_plan  # noqa: E402
 from bench.make_surface import write  # noqa: E402
-from converter import ground, horizontal, landxml  # noqa: E402
 
 
 def bare_pass(path: str) -> int:
@@ -54,7 +56,7 @@ def main() -> None:
         bare_pass(path)
         t_bare = time.perf_counter() - t0
         t0 = time.perf_counter()
-        surf = landxml.read_surface(path)
+        surf = surface_reader.read_surface(path)
         t_parse = time.perf_counter() - t0
     t0 = time.perf_counter()
     index = ground.TriangleIndex(surf)

@@ -18,8 +18,10 @@ import numpy as np
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
+from gradeline.geometry import horizontal as H
+from gradeline.geometry.station_offset import station_offset
+
 from bench._common import best_of, synthetic_plan  # noqa: E402
-from converter import horizontal as H  # noqa: E402
 
 GL_T, GL_W = np.polynomial.legendre.leggauss(8)
 GL_T, GL_W = GL_T.tolist(), GL_W.tolist()
@@ -86,8 +88,8 @@ def main() -> None:
     off = rng.uniform(-60, 60, 100_000)
     n, e, hd = H.evaluate(geom, s_pts)
     pn, pe = n - off * np.cos(hd), e + off * np.sin(hd)
-    t_inv = best_of(lambda: H.station_offset(geom, pn, pe), repeat=3)
-    s_back, o_back, _ = H.station_offset(geom, pn, pe)
+    t_inv = best_of(lambda: station_offset(geom, pn, pe), repeat=3)
+    s_back, o_back, _ = station_offset(geom, pn, pe)
     worst = max(np.max(np.abs(s_back - s_pts)), np.max(np.abs(o_back - off)))
     samples = np.linspace(geom.start, geom.end, 2000)
     sn, se, _ = H.evaluate(geom, samples)

@@ -17,8 +17,10 @@ import numpy as np
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
+from gradeline.analysis import review
+from gradeline.geometry import vertical
+
 from bench._common import synthetic_profile  # noqa: E402
-from converter import review, vertical  # noqa: E402
 
 
 def python_sd(z, i, dx, window, h1, h2):

@@ -15,12 +15,13 @@ import numpy as np
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
+from gradeline.geometry import horizontal
+from gradeline.model import Alignment, Document, GroundPiece, GroundProfile  # noqa: E402
+from gradeline.model.units import Units  # noqa: E402
+from gradeline.sheets.pdf import SheetOptions, page_plan, render_sheets  # noqa: E402
+from gradeline.solved import solve_alignment  # noqa: E402
+
 from bench._common import synthetic_plan, synthetic_profile  # noqa: E402
-from converter import horizontal  # noqa: E402
-from converter.model import Alignment, Document, GroundPiece, GroundProfile  # noqa: E402
-from converter.selection import solve_alignment  # noqa: E402
-from converter.units import Units  # noqa: E402
-from sheets.pdf import SheetOptions, page_plan, render_sheets  # noqa: E402
 
 
 def main() -> None:

@@ -24,8 +24,9 @@ import numpy as np
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
+from gradeline.geometry import vertical
+
 from bench._common import best_of, synthetic_profile  # noqa: E402
-from converter import vertical  # noqa: E402
 
 N_STATIONS = 1_000_000
 N_PVI = 500

@@ -1,9 +1,9 @@
 """gradeline: independent vertical geometry from LandXML road designs.
 
-Pipeline: :mod:`converter.landxml` (reader) -> :mod:`converter.model`
-(immutable objects) -> :mod:`converter.vertical` (numpy evaluation) ->
-:mod:`converter.tables` and :mod:`converter.outputs` (rows, CSV/JSON) ->
-:mod:`converter.cli` (thin command line).
+Pipeline: :mod:`gradeline.io.landxml` (reader) -> :mod:`gradeline.model`
+(immutable objects) -> :mod:`gradeline.geometry.vertical` (numpy evaluation) ->
+:mod:`gradeline.present.tables` and :mod:`gradeline.render.outputs` (rows, CSV/JSON) ->
+:mod:`gradeline.cli` (thin command line).
 """
 
 __version__ = "0.1.0"

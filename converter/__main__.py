@@ -1,5 +1,5 @@
-"""``python -m converter`` runs the gradeline command."""
+"""``python -m gradeline`` runs the gradeline command."""
 
-from converter.cli import main
+from gradeline.cli import main
 
 raise SystemExit(main())

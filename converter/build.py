@@ -17,9 +17,9 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
-from converter import landxml
-from converter.errors import GradelineError
-from converter.outputs import csv_text, json_text, refuse_overwrite, write_atomic
+from gradeline.errors import GradelineError
+from gradeline.io import landxml
+from gradeline.render.outputs import json_text, refuse_overwrite, write_atomic
 
 __all__ = ["BuildJob", "BuildOptions", "ItemResult", "build", "collect_inputs", "write_index"]
 
@@ -92,68 +92,44 @@ def _write(path: Path, data: str | bytes, inputs: Sequence[str], written: list[s
 
 
 def _build_alignment(doc, al, outdir: Path, opts: BuildOptions, inputs: list[str]) -> ItemResult:
-    from converter import drafting, tables
-    from converter.check import Tolerances, check_document
-    from converter.dxf import write_dxf
-    from converter.layout import default_layout
-    from converter.reports import check_text, review_text
-    from converter.selection import attach_surface, solve_alignment
-    from sheets.pdf import SheetOptions, render_sheets
+    from gradeline import deliverables as dl
+    from gradeline.solved import solve_alignment
 
     written: list[str] = []
     notes: list[str] = []
-    ctx = solve_alignment(doc, al, al.profile(None) if al.profiles else None, need_profile=False)
-    index = None
-    if (opts.ground or opts.surface) and ctx.horizontal is not None:
-        ctx, index = attach_surface(ctx, opts.ground, opts.surface)
-    units = doc.units
+    solved = solve_alignment(doc, al, al.profile(None) if al.profiles else None,
+                             need_profile=False)
+    if (opts.ground or opts.surface) and solved.horizontal is not None:
+        solved, _ = dl.attach_ground(solved, opts.ground, opts.surface)
     outdir.mkdir(parents=True, exist_ok=True)
     sheet = opts.sheet
-    layout = default_layout(units, sheet.get("scale"), float(sheet.get("exaggeration", 10.0)))
-    layout = layout.with_layers(opts.layers)
-    if ctx.geometry is not None:
-        d = drafting.profile_drawing(ctx, layout)
-        _write(outdir / "profile.dxf", write_dxf(d, layout, linear_unit=units.linear), inputs, written)
-    if ctx.horizontal is not None:
-        p = drafting.plan_drawing(ctx, layout)
-        _write(outdir / "plan.dxf", write_dxf(p, layout, linear_unit=units.linear), inputs, written)
-    if ctx.geometry is not None:
-        so = SheetOptions(size=sheet.get("size") or ("iso-a1" if units.metric else "ansi-d"),
-                          scale=sheet.get("scale"), exaggeration=float(sheet.get("exaggeration", 10.0)),
-                          interval=sheet.get("interval"), project=str(sheet.get("project", "")),
-                          date=str(sheet.get("date", "")), drawn_by=str(sheet.get("drawn_by", "")),
-                          sheet_prefix=str(sheet.get("sheet_prefix", "")))
-        _write(outdir / "sheets.pdf", render_sheets(ctx, so), inputs, written)
-    _write(outdir / "curves.csv", csv_text(tables.curve_rows(ctx), tables.CURVE_COLUMNS), inputs,
+    drawing = dl.DrawingOptions(sheet.get("scale"), float(sheet.get("exaggeration", 10.0)),
+                                layers=opts.layers)
+    if solved.geometry is not None:
+        _write(outdir / "profile.dxf", dl.profile_dxf(solved, drawing), inputs, written)
+    if solved.horizontal is not None:
+        _write(outdir / "plan.dxf", dl.plan_dxf(solved, drawing), inputs, written)
+    if solved.geometry is not None:
+        sheet_opts = dl.sheet_options(solved, {k: v for k, v in sheet.items()
+                                               if k in dl.SHEET_KEYS})
+        _write(outdir / "sheets.pdf", dl.sheets_pdf(solved, sheet_opts), inputs, written)
+    _write(outdir / "curves.csv", dl.curve_table(solved), inputs, written)
+    interval = float(sheet.get("interval") or doc.units.defaults.table_interval)
+    _write(outdir / "table.csv", dl.station_table(solved, dl.TableOptions(interval)), inputs,
            written)
-    interval = float(sheet.get("interval") or (20.0 if units.metric else 50.0))
-    stations, tags = tables.table_stations(ctx, interval=interval)
-    rows = tables.station_rows(ctx, stations, tags)
-    columns = tables.STATION_COLUMNS
-    if index is not None:
-        columns = tables.add_ground_columns(ctx, index, stations, rows)
-    _write(outdir / "table.csv", csv_text(rows, columns), inputs, written)
-    tol = Tolerances()
-    findings = check_document(doc, al.name, tol)
+    check_opts = dl.CheckOptions()
+    tol = check_opts.tolerances()
+    findings = dl.check_findings(solved, tol)
     over = sum(f.verdict == "over" for f in findings)
-    _write(outdir / "check.txt", check_text(doc, findings, None, tol), inputs, written)
+    text, _ = dl.check_report(doc, findings, tol, check_opts)
+    _write(outdir / "check.txt", text, inputs, written)
     review_failed = None
-    if opts.speed is not None and ctx.geometry is not None:
-        from converter import review
-
-        crit = review.load_criteria(None, units.metric)
-        speed = opts.speed
-        if opts.speed_unit and opts.speed_unit != crit.speed_unit:
-            speed = speed * review.MPH_TO_KMH if opts.speed_unit == "mph" else speed / review.MPH_TO_KMH
-        from converter import horizontal
-
-        hcurves = horizontal.curve_data(ctx.horizontal) if ctx.horizontal is not None else ()
-        rev = review.review_profile(ctx.geometry, crit, speed, length_unit=units.symbol,
-                                    horizontal_curves=hcurves)
-        review_failed = rev.failed
-        _write(outdir / "review.txt", review_text(ctx, rev), inputs, written)
-    if ctx.horizontal is not None and ctx.horizontal.findings:
-        notes.append(f"{len(ctx.horizontal.findings)} plan geometry findings (see check.txt)")
+    if opts.speed is not None and solved.geometry is not None:
+        text, review_failed = dl.review_report(solved, dl.ReviewOptions(opts.speed,
+                                                                        opts.speed_unit))
+        _write(outdir / "review.txt", text, inputs, written)
+    if solved.horizontal is not None and solved.horizontal.findings:
+        notes.append(f"{len(solved.horizontal.findings)} plan geometry findings (see check.txt)")
     return ItemResult(doc.path, al.name, tuple(written), None, over, review_failed, tuple(notes))
 
 

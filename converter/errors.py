@@ -9,7 +9,7 @@ from __future__ import annotations
 from typing import TYPE_CHECKING
 
 if TYPE_CHECKING:
-    from converter.model import SourceRef
+    from gradeline.model import SourceRef
 
 __all__ = ["GradelineError", "InputError", "ModelError", "UsageError"]
 

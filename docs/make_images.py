@@ -45,10 +45,10 @@ def render_dxf(dxf_bytes: bytes, window: tuple[float, float, float, float], widt
 
 
 def main() -> None:
-    from converter import drafting
-    from converter.dxf import write_dxf
-    from converter.layout import default_layout
-    from converter.selection import select
+    from gradeline.present import drafting
+    from gradeline.present.layout import default_layout
+    from gradeline.render.dxf import write_dxf
+    from gradeline.solved import select
 
     ctx = select(ROOT / "samples" / "orrin-vale-bypass.xml", "Orrin Vale Bypass")
     lay = default_layout(ctx.document.units)
@@ -65,9 +65,9 @@ def sheet_page() -> None:
     import subprocess
     import tempfile
 
-    from converter.config import read_config
-    from converter.selection import select
-    from sheets.pdf import SheetOptions, render_sheets
+    from gradeline.io.config import read_config
+    from gradeline.sheets.pdf import SheetOptions, render_sheets
+    from gradeline.solved import select
 
     cfg = read_config(str(ROOT / "samples" / "sheets.toml"))["sheet"]
     ctx = select(ROOT / "samples" / "orrin-vale-bypass.xml", "Orrin Vale Bypass")

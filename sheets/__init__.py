@@ -1,3 +1,3 @@
-"""PDF plan-and-profile sheets and plan-set tables (built on :mod:`converter`)."""
+"""PDF plan-and-profile sheets and plan-set tables (built on :mod:`gradeline`)."""
 
 __all__: list[str] = []

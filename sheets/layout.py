@@ -1,7 +1,7 @@
 """Sheet layout engine: paper, viewports and the sheet series, as pure functions.
 
 Everything is in PDF points (1/72 in) on paper and in file units in the model.
-Nothing here draws; :mod:`sheets.pdf` uses these numbers, and tests check them
+Nothing here draws; :mod:`gradeline.sheets.pdf` uses these numbers, and tests check them
 without rendering anything.
 """
 
@@ -10,11 +10,12 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from converter.errors import UsageError
-from converter.layout import DraftingLayout
+from gradeline.errors import UsageError
+from gradeline.present.layout import DraftingLayout
 
 __all__ = [
     "PAPER_SIZES",
+    "TABLE_ROW",
     "Frame",
     "SheetGeometry",
     "Viewport",
@@ -134,8 +135,8 @@ def sheet_frames(start: float, end: float, geometry: SheetGeometry,
 
     Examples
     --------
-    >>> from converter.layout import default_layout
-    >>> from converter.units import Units
+    >>> from gradeline.present.layout import default_layout
+    >>> from gradeline.model.units import Units
     >>> lay = default_layout(Units("foot"))
     >>> fr = sheet_frames(1000.0, 6200.0, sheet_geometry("ansi-d"), lay)
     >>> len(fr), fr[0].match_start, fr[0].match_end, fr[0].view_start
@@ -209,26 +210,6 @@ def pack_tables(counts: list[int], capacity: int) -> list[list[tuple[int, int, i
         pages.append(page)
     return pages
 
-
-#: How each drawing role looks on a PDF sheet: RGB (0-1), line width in points
-#: on a full-size sheet, dash pattern in points (empty for solid).
-PDF_STYLE: dict[str, tuple[tuple[float, float, float], float, tuple[float, ...]]] = {
-    "grade": ((0.05, 0.15, 0.75), 1.4, ()),
-    "ground": ((0.55, 0.33, 0.12), 0.8, (5.0, 3.0)),
-    "grid": ((0.78, 0.80, 0.84), 0.25, ()),
-    "grid_major": ((0.55, 0.58, 0.64), 0.5, ()),
-    "labels": ((0.0, 0.0, 0.0), 0.4, ()),
-    "pvi": ((0.60, 0.10, 0.55), 0.6, ()),
-    "tangents": ((0.60, 0.10, 0.55), 0.4, (4.0, 2.5)),
-    "info": ((0.35, 0.35, 0.35), 0.4, ()),
-    "plan": ((0.05, 0.15, 0.75), 1.4, ()),
-    "plan_ticks": ((0.0, 0.0, 0.0), 0.5, ()),
-    "plan_labels": ((0.0, 0.0, 0.0), 0.4, ()),
-    "plan_points": ((0.60, 0.10, 0.55), 0.6, ()),
-    "plan_notes": ((0.0, 0.0, 0.0), 0.4, ()),
-    "match": ((0.80, 0.10, 0.10), 0.9, (9.0, 3.0, 2.0, 3.0)),
-    "frame": ((0.0, 0.0, 0.0), 1.0, ()),
-}
 
 #: Height of a table row as a multiple of the sheet text size.
 TABLE_ROW = 1.7

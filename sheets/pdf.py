@@ -1,27 +1,23 @@
 """PDF plan-and-profile sheets and table pages: the only module that imports reportlab.
 
 It lays out records computed elsewhere -- drafting items from
-:mod:`converter.drafting`, table text from :mod:`sheets.tables`, frames and
-viewports from :mod:`sheets.layout` -- and never computes geometry itself.
+:mod:`gradeline.present.drafting`, table text from :mod:`gradeline.sheets.tables`, frames and
+viewports from :mod:`gradeline.sheets.layout` -- and never computes geometry itself.
 """
 
 from __future__ import annotations
 
 import io
 import math
-from dataclasses import dataclass, replace
+from dataclasses import dataclass
 
 import numpy as np
-from reportlab.pdfbase.pdfmetrics import stringWidth
-from reportlab.pdfgen import canvas as rl_canvas
-
-from converter import drafting, horizontal, labels
-from converter.drafting import ArcItem, Circle, Drawing, Path, QuadCurve, Text
-from converter.layout import DraftingLayout, default_layout
-from converter.selection import AlignmentContext
-from sheets import tables
-from sheets.layout import (
-    PDF_STYLE,
+from gradeline.present import drafting, labels
+from gradeline.present.items import ArcItem, Circle, Drawing, Path, QuadCurve, Text
+from gradeline.present.layout import DraftingLayout, default_layout
+from gradeline.present.roles import ROLE_STYLE, Role
+from gradeline.sheets import tables
+from gradeline.sheets.layout import (
     TABLE_ROW,
     Frame,
     SheetGeometry,
@@ -32,6 +28,10 @@ from sheets.layout import (
     sheet_geometry,
     table_capacity,
 )
+from gradeline.sheets.views import SheetView, sheet_view
+from gradeline.solved import SolvedAlignment
+from reportlab.pdfbase.pdfmetrics import stringWidth
+from reportlab.pdfgen import canvas as rl_canvas
 
 __all__ = ["SheetOptions", "page_plan", "render_sheets"]
 
@@ -77,7 +77,8 @@ class _Xform:
 
 
 def _style(c, role: str, f: float) -> None:
-    rgb, width, dash = PDF_STYLE.get(role, PDF_STYLE["labels"])
+    style = ROLE_STYLE[Role(role)]
+    rgb, width, dash = style.rgb, style.width, style.dash
     c.setStrokeColorRGB(*rgb)
     c.setFillColorRGB(*rgb)
     c.setLineWidth(width * max(f, 0.6))
@@ -209,18 +210,18 @@ class PagePlan:
         return len(self.frames) + len(self.table_pages)
 
 
-def _layout(ctx: AlignmentContext, opts: SheetOptions) -> DraftingLayout:
+def _layout(ctx: SolvedAlignment, opts: SheetOptions) -> DraftingLayout:
     return default_layout(ctx.document.units, opts.scale, opts.exaggeration)
 
 
-def page_plan(ctx: AlignmentContext, opts: SheetOptions) -> PagePlan:
+def page_plan(ctx: SolvedAlignment, opts: SheetOptions) -> PagePlan:
     """Sheets and table pages of the document, without drawing anything."""
     geo = sheet_geometry(opts.size)
     lay = _layout(ctx, opts)
     start = min(ctx.start, ctx.horizontal.start if ctx.horizontal else ctx.start)
     end = max(ctx.end, ctx.horizontal.end if ctx.horizontal else ctx.end)
     frames = sheet_frames(start, end, geo, lay) if ctx.geometry is not None else []
-    interval = opts.interval or (50.0 if not ctx.document.units.metric else 20.0)
+    interval = opts.interval or ctx.document.units.defaults.table_interval
     tabs = []
     if ctx.horizontal is not None:
         tabs.append(tables.horizontal_curve_table(ctx))
@@ -232,7 +233,7 @@ def page_plan(ctx: AlignmentContext, opts: SheetOptions) -> PagePlan:
     return PagePlan(frames, tabs, pages)
 
 
-def _title_block(c, geo: SheetGeometry, ctx: AlignmentContext, opts: SheetOptions,
+def _title_block(c, geo: SheetGeometry, ctx: SolvedAlignment, opts: SheetOptions,
                  page: int, total: int, scales: str) -> None:
     t = geo.title
     f = geo.factor
@@ -276,13 +277,7 @@ def _wrap(text: str, font: str, size: float, width: float) -> list[str]:
     return lines + ([line] if line else [])
 
 
-def _scale_text(ctx: AlignmentContext, lay: DraftingLayout) -> str:
-    if ctx.document.units.metric:
-        return f"H 1:{lay.scale:g}  V 1:{lay.scale / lay.exaggeration:g}"
-    return f'H 1" = {lay.scale:g}\'  V 1" = {lay.scale / lay.exaggeration:g}\''
-
-
-def _scale_bars(c, geo: SheetGeometry, ctx: AlignmentContext, lay: DraftingLayout) -> None:
+def _scale_bars(c, geo: SheetGeometry, ctx: SolvedAlignment, lay: DraftingLayout) -> None:
     f, ts = geo.factor, geo.text
     per_pt = model_per_point(lay)
     # in the title block's SCALES cell, under its text
@@ -334,25 +329,15 @@ def _north_arrow(c, geo: SheetGeometry, angle: float) -> None:
     c.drawCentredString(cx + nx * (r + 0.9 * ts), cy + ny * (r + 0.9 * ts) - 0.36 * ts, "N")
 
 
-def _match_label(station: str, sheet: int | None) -> str:
-    return f"MATCH LINE STA {station}" + (f" - SEE SHEET {sheet}" if sheet else "")
-
-
-def _sheet(c, ctx, opts, geo, lay, frame: Frame, total_frames: int, total_pages: int,
+def _sheet(c, ctx, opts, geo, view: SheetView, total_frames: int, total_pages: int,
            plan: Drawing | None, plan_boxes: np.ndarray | None) -> None:
     f, ts = geo.factor, geo.text
-    per_pt = model_per_point(lay)
-    h = lay.text_height
+    frame, prof, used = view.frame, view.profile, view.layout
+    per_pt = model_per_point(used)
+    h = used.text_height
     st = ctx.stationing
-    # -- profile: its own datum; exaggeration reduced if the window is too tall --
-    used = lay
-    for exag in (lay.exaggeration, lay.exaggeration / 2, lay.exaggeration / 5, lay.exaggeration / 10):
-        used = replace(lay, exaggeration=exag)
-        prof = drafting.profile_drawing(ctx, used, window=(frame.view_start, frame.view_end),
-                                        strip=True)
-        x0, y0, x1, y1 = prof.extents
-        if (y1 - y0) / per_pt <= geo.profile.h - 2.5 * ts or exag <= 1:
-            break
+    # -- profile: its own datum and the exaggeration the view chose -----------
+    _, y0, _, _ = prof.extents
     vp = geo.profile
     xf = _Xform(per_pt, (frame.view_start - 9 * h, y0), (vp.x, vp.y))
     _draw_items(c, prof.items, xf, vp, f)
@@ -363,22 +348,17 @@ def _sheet(c, ctx, opts, geo, lay, frame: Frame, total_frames: int, total_pages:
         xm, grid_bottom = xf(m, 0.0)  # from the grid's bottom up, clear of the strip
         c.line(xm, max(vp.y, grid_bottom), xm, vp.y + vp.h - 2.2 * ts)
         c.setFont(FONT_BOLD, 0.85 * ts)
-        text = _match_label(st.label(m), other)
+        text = labels.match_line_text(st.label(m), other)
         if other < frame.number:
             c.drawString(xm + 0.4 * ts, vp.y + vp.h - 2.0 * ts, text)
         else:
             c.drawRightString(xm - 0.4 * ts, vp.y + vp.h - 2.0 * ts, text)
     # -- plan: the alignment turned to run left to right ----------------------
-    angle = 0.0
-    if plan is not None and ctx.horizontal is not None:
-        hz = ctx.horizontal
-        a = min(max(frame.match_start, hz.start), hz.end)
-        b = min(max(frame.match_end, hz.start), hz.end)
-        (na, nb), (ea, eb), _ = horizontal.evaluate(hz, [a, b])
-        angle = math.atan2(nb - na, eb - ea)
-        mid = ((ea + eb) / 2, (na + nb) / 2)
+    pv = view.plan
+    if plan is not None and pv is not None and plan_boxes is not None:
+        angle, mid = pv.angle, pv.centre
         pvp = geo.plan
-        center_x = xf((a + b) / 2, 0.0)[0]
+        center_x = xf((pv.start + pv.end) / 2, 0.0)[0]
         pxf = _Xform(per_pt, mid, (center_x, pvp.cy), angle)
         # cull items far from this sheet (bounding boxes in model space)
         reach = math.hypot(pvp.w, pvp.h) * per_pt
@@ -386,12 +366,9 @@ def _sheet(c, ctx, opts, geo, lay, frame: Frame, total_frames: int, total_pages:
                 & (plan_boxes[:, 3] >= mid[1] - reach) & (plan_boxes[:, 1] <= mid[1] + reach))
         items = [plan.items[i] for i in np.flatnonzero(near)]
         _draw_items(c, items, pxf, pvp, f)
-        for m, other in ((frame.match_start, frame.number - 1), (frame.match_end, frame.number + 1)):
-            if other < 1 or other > total_frames or not (hz.start <= m <= hz.end):
-                continue
-            n_, e_, hd = (float(v) for v in horizontal.evaluate(hz, m))
-            px, py = pxf(e_, n_)
-            da = hd - angle
+        for mark in pv.marks:
+            px, py = pxf(mark.easting, mark.northing)
+            da = mark.heading - angle
             dx, dy = -math.sin(da), math.cos(da)
             span = pvp.h * 0.42
             _style(c, "match", f)
@@ -400,8 +377,8 @@ def _sheet(c, ctx, opts, geo, lay, frame: Frame, total_frames: int, total_pages:
             c.saveState()
             c.translate(px + dx * span, py + dy * span)
             c.rotate(math.degrees(math.atan2(dy, dx)) - 180)
-            c.drawString(0.3 * ts, (0.3 if other > frame.number else -1.1) * ts,
-                         _match_label(st.label(m), other))
+            c.drawString(0.3 * ts, (0.3 if mark.other_sheet > frame.number else -1.1) * ts,
+                         labels.match_line_text(st.label(mark.station), mark.other_sheet))
             c.restoreState()
         _north_arrow(c, geo, angle)
     _style(c, "frame", f)
@@ -412,7 +389,7 @@ def _sheet(c, ctx, opts, geo, lay, frame: Frame, total_frames: int, total_pages:
     c.setFillColorRGB(0, 0, 0)
     c.drawString(geo.plan.x + 0.5 * ts, geo.plan.y + geo.plan.h - 1.6 * ts, "PLAN")
     c.drawString(vp.x + 0.5 * ts, vp.y + vp.h - 1.6 * ts, "PROFILE")
-    _title_block(c, geo, ctx, opts, frame.number, total_pages, _scale_text(ctx, used))
+    _title_block(c, geo, ctx, opts, frame.number, total_pages, labels.scale_text(used.scale, used.exaggeration, ctx.document.units.metric))
     _scale_bars(c, geo, ctx, used)
 
 
@@ -460,7 +437,7 @@ def _table_page(c, geo: SheetGeometry, chunks) -> None:
         top = y_end - 2 * rh
 
 
-def render_sheets(ctx: AlignmentContext, opts: SheetOptions) -> bytes:
+def render_sheets(ctx: SolvedAlignment, opts: SheetOptions) -> bytes:
     """The whole PDF: plan-and-profile sheets, then curve and station tables.
 
     Deterministic: reportlab's invariant mode pins dates and document IDs.
@@ -479,13 +456,14 @@ def render_sheets(ctx: AlignmentContext, opts: SheetOptions) -> bytes:
     plan = drafting.plan_drawing(ctx, lay) if ctx.horizontal is not None else None
     boxes = _item_boxes(plan) if plan is not None else None
     for frame in plan_info.frames:
-        _sheet(c, ctx, opts, geo, lay, frame, len(plan_info.frames), total, plan, boxes)
+        view = sheet_view(ctx, lay, geo, frame, len(plan_info.frames))
+        _sheet(c, ctx, opts, geo, view, len(plan_info.frames), total, plan, boxes)
         c.showPage()
     page = len(plan_info.frames)
     for chunks in plan_info.table_pages:
         page += 1
         _table_page(c, geo, [(plan_info.tables[i], a, b) for i, a, b in chunks])
-        _title_block(c, geo, ctx, opts, page, total, _scale_text(ctx, lay))
+        _title_block(c, geo, ctx, opts, page, total, labels.scale_text(lay.scale, lay.exaggeration, ctx.document.units.metric))
         c.showPage()
     c.save()
     return buf.getvalue()

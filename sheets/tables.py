@@ -1,7 +1,7 @@
 """Plan-set tables as text: the same rows as ``gradeline curves`` and ``table``.
 
-Values come from :mod:`converter.tables` and are formatted by
-:mod:`converter.labels` to the printed precision; the PDF only lays them out.
+Values come from :mod:`gradeline.present.tables` and are formatted by
+:mod:`gradeline.present.labels` to the printed precision; the PDF only lays them out.
 """
 
 from __future__ import annotations
@@ -10,10 +10,9 @@ import math
 from dataclasses import dataclass
 
 import numpy as np
-
-from converter import labels
-from converter import tables as rows
-from converter.selection import AlignmentContext
+from gradeline.present import labels
+from gradeline.present import tables as rows
+from gradeline.solved import SolvedAlignment
 
 __all__ = ["TextTable", "horizontal_curve_table", "station_table", "vertical_curve_table"]
 
@@ -28,11 +27,11 @@ class TextTable:
     widths: tuple[float, ...]
 
 
-def _len(value: float | None, ctx: AlignmentContext) -> str:
+def _len(value: float | None, ctx: SolvedAlignment) -> str:
     return "" if value is None or not math.isfinite(value) else labels.length_text(value, ctx.document.units)
 
 
-def _sta(value: float | None, ctx: AlignmentContext) -> str:
+def _sta(value: float | None, ctx: SolvedAlignment) -> str:
     return "" if value is None else ctx.stationing.label(value)
 
 
@@ -40,7 +39,7 @@ def _pct(value: float | None) -> str:
     return "" if value is None else labels.grade_text(value / 100.0)
 
 
-def vertical_curve_table(ctx: AlignmentContext) -> TextTable:
+def vertical_curve_table(ctx: SolvedAlignment) -> TextTable:
     """Vertical curve data: PVI, grades, A, L, K, BVC/EVC, high/low point."""
     out = []
     for i, r in enumerate(rows.vertical_curve_rows(ctx), start=1):
@@ -64,12 +63,11 @@ def vertical_curve_table(ctx: AlignmentContext) -> TextTable:
     )
 
 
-def horizontal_curve_table(ctx: AlignmentContext) -> TextTable:
+def horizontal_curve_table(ctx: SolvedAlignment) -> TextTable:
     """Horizontal curve data: PI, R, delta, L, T, chord, E, M, PC/PT or TS/SC/CS/ST."""
-    from converter import horizontal
 
     out = []
-    curves = horizontal.curve_data(ctx.horizontal) if ctx.horizontal else ()
+    curves = ctx.curves
     for c, r in zip(curves, rows.horizontal_curve_rows(ctx), strict=True):
         spirals = c.spiral_in > 0 or c.spiral_out > 0
         out.append((
@@ -93,7 +91,7 @@ def horizontal_curve_table(ctx: AlignmentContext) -> TextTable:
     )
 
 
-def station_table(ctx: AlignmentContext, interval: float) -> TextTable:
+def station_table(ctx: SolvedAlignment, interval: float) -> TextTable:
     """Station/elevation table at ``interval`` plus key points (tangent, offset, grade)."""
     stations, tags = rows.table_stations(ctx, interval=interval)
     data = rows.station_rows(ctx, stations, tags)
@@ -117,7 +115,7 @@ def station_table(ctx: AlignmentContext, interval: float) -> TextTable:
     )
 
 
-def _ground_at(ctx: AlignmentContext, stations: np.ndarray) -> np.ndarray:
+def _ground_at(ctx: SolvedAlignment, stations: np.ndarray) -> np.ndarray:
     out = np.full(len(stations), np.nan)
     for gr in ctx.alignment.grounds[:1]:
         for p in gr.pieces:

@@ -8,8 +8,8 @@ import subprocess
 import sys
 
 import pytest
+from gradeline.cli import main
 
-from converter.cli import main
 from tests.conftest import METRIC_SAMPLE, SAMPLES, US_SAMPLE
 
 
@@ -36,7 +36,7 @@ def test_build_twice_gives_identical_bytes(tmp_path):
     trees = []
     for k, seed in enumerate(("2", "97")):
         out = tmp_path / f"b{k}"
-        subprocess.run([sys.executable, "-m", "converter", "build", str(US_SAMPLE),
+        subprocess.run([sys.executable, "-m", "gradeline", "build", str(US_SAMPLE),
                         str(METRIC_SAMPLE), "-o", str(out), "--speed", "50", "--jobs", "2"],
                        check=False, env=dict(os.environ, PYTHONHASHSEED=seed), timeout=300,
                        capture_output=True)

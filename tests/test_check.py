@@ -8,13 +8,16 @@ import json
 import ezdxf
 import numpy as np
 import pytest
+from gradeline.analysis import check
+from gradeline.cli import main
+from gradeline.deliverables import open_alignment
+from gradeline.geometry import vertical
+from gradeline.io import landxml
+from gradeline.present import drafting
+from gradeline.present.layout import default_layout
+from gradeline.render.dxf import write_dxf
 from lxml import etree
 
-from converter import check, drafting, landxml, vertical
-from converter.cli import main
-from converter.dxf import write_dxf
-from converter.layout import default_layout
-from converter.selection import select
 from tests.conftest import METRIC_SAMPLE, US_SAMPLE
 
 NS = "{http://www.landxml.org/schema/LandXML-1.2}"
@@ -153,7 +156,7 @@ def test_pvi_outside_alignment_is_named():
 
 # --- DXF linework ---------------------------------------------------------------------
 def _our_dxf(curves="spline", path=US_SAMPLE, name="Orrin Vale Bypass"):
-    ctx = select(path, name)
+    ctx = open_alignment(path, name)
     lay = default_layout(ctx.document.units)
     return ctx, write_dxf(drafting.profile_drawing(ctx, lay, curves), lay, curves=curves,
                           linear_unit=ctx.document.units.linear)
@@ -194,7 +197,7 @@ def test_moved_vertex_is_flagged_at_its_station(tmp_path, capsys):
 
 
 def test_coarse_chords_flagged_only_where_the_chord_error_is_large(tmp_path, capsys):
-    ctx = select(US_SAMPLE, "Orrin Vale Bypass")
+    ctx = open_alignment(US_SAMPLE, "Orrin Vale Bypass")
     g = ctx.geometry
     s = np.arange(g.start, g.end + 1e-9, 50.0)  # 50-ft chords
     z = vertical.elevation(g, s)
@@ -221,7 +224,7 @@ def test_coarse_chords_flagged_only_where_the_chord_error_is_large(tmp_path, cap
 
 
 def test_fitted_mapping_when_not_given(tmp_path, capsys):
-    ctx = select(METRIC_SAMPLE)
+    ctx = open_alignment(METRIC_SAMPLE)
     g = ctx.geometry
     s = np.arange(g.start, g.end + 1e-9, 0.5)
     doc = ezdxf.new("R2010")
@@ -238,7 +241,7 @@ def test_fitted_mapping_when_not_given(tmp_path, capsys):
 
 
 def test_partial_drawing_reports_uncovered(tmp_path, capsys):
-    ctx = select(METRIC_SAMPLE)
+    ctx = open_alignment(METRIC_SAMPLE)
     g = ctx.geometry
     s = np.arange(g.start, 1000.0, 1.0)
     doc = ezdxf.new("R2010")

@@ -10,8 +10,8 @@ import subprocess
 import sys
 
 import pytest
+from gradeline.cli import main
 
-from converter.cli import main
 from tests.conftest import METRIC_SAMPLE, ROOT, US_SAMPLE
 
 BYPASS = ["--alignment", "Orrin Vale Bypass"]
@@ -167,7 +167,7 @@ def test_bad_interval(capsys):
 
 
 @pytest.mark.cli
-@pytest.mark.parametrize("launcher", [["gradeline"], [sys.executable, "-m", "converter"]],
+@pytest.mark.parametrize("launcher", [["gradeline"], [sys.executable, "-m", "gradeline"]],
                          ids=["console", "module"])
 def test_installed_command(launcher):
     env = dict(os.environ, PYTHONHASHSEED="7")

@@ -10,13 +10,17 @@ import subprocess
 import ezdxf
 import numpy as np
 import pytest
+from gradeline.cli import main
+from gradeline.deliverables import open_alignment
+from gradeline.geometry import vertical
+from gradeline.geometry.curve_data import curve_data
+from gradeline.geometry.station_offset import station_offset
+from gradeline.io.dxf_read import read_mapping
+from gradeline.present import drafting, items
+from gradeline.present.layout import default_layout
+from gradeline.render.dxf import write_dxf
 from numpy.testing import assert_allclose
 
-from converter import drafting, horizontal, vertical
-from converter.cli import main
-from converter.dxf import read_mapping, write_dxf
-from converter.layout import default_layout
-from converter.selection import select
 from tests.conftest import METRIC_SAMPLE, US_SAMPLE
 
 SAMPLES = [(US_SAMPLE, "Orrin Vale Bypass"), (METRIC_SAMPLE, None), (US_SAMPLE, "Kettle Lane")]
@@ -25,7 +29,7 @@ R12_TYPES = {"LINE", "POLYLINE", "VERTEX", "SEQEND", "ARC", "CIRCLE", "TEXT", "P
 
 
 def _make(path, name, version="R2010", curves="spline", plan=False):
-    ctx = select(path, name)
+    ctx = open_alignment(path, name)
     lay = default_layout(ctx.document.units)
     d = drafting.plan_drawing(ctx, lay) if plan else drafting.profile_drawing(ctx, lay, curves)
     data = write_dxf(d, lay, version=version, curves=curves, linear_unit=ctx.document.units.linear)
@@ -109,12 +113,12 @@ def test_plan_reads_back_onto_computed_alignment(path, name):
         else:
             pts += [(x, y) for x, y, *_ in e.get_points()]
     arr = np.array([(p[0], p[1]) for p in pts])
-    st, off, status = horizontal.station_offset(ctx.horizontal, arr[:, 1], arr[:, 0])
+    st, off, status = station_offset(ctx.horizontal, arr[:, 1], arr[:, 0])
     assert np.all(status == 0)
     assert np.max(np.abs(off)) < 1e-6  # ft or m: the linework lies on the alignment
     # ARC entities carry the true radius of each curve
     radii = sorted(round(e.dxf.radius, 3) for e in doc.modelspace().query("ARC[layer=='PLAN-ALIGNMENT']"))
-    assert radii == sorted(round(c.radius, 3) for c in horizontal.curve_data(ctx.horizontal))
+    assert radii == sorted(round(c.radius, 3) for c in curve_data(ctx.horizontal))
 
 
 def _text_boxes(doc):
@@ -123,7 +127,7 @@ def _text_boxes(doc):
         halign = {0: "left", 1: "center", 2: "right"}[e.dxf.halign]
         valign = {0: "bottom", 1: "bottom", 2: "middle", 3: "top"}[e.dxf.valign]
         p = e.dxf.align_point if (e.dxf.halign or e.dxf.valign) else e.dxf.insert
-        t = drafting.Text("x", e.dxf.text, p[0], p[1], e.dxf.height, e.dxf.rotation, halign, valign)
+        t = items.Text("x", e.dxf.text, p[0], p[1], e.dxf.height, e.dxf.rotation, halign, valign)
         boxes.append((e.dxf.text, t.corners()))
     return boxes
 
@@ -135,7 +139,7 @@ def test_labels_do_not_overlap(path, name, plan):
     boxes = _text_boxes(doc)
     assert len(boxes) > 10
     clashes = [(a[0], b[0]) for i, a in enumerate(boxes) for b in boxes[i + 1:]
-               if drafting.boxes_overlap(a[1], b[1])]
+               if items.boxes_overlap(a[1], b[1])]
     assert clashes == []
 
 
@@ -196,7 +200,7 @@ def test_unknown_layer_role(tmp_path, capsys):
 
 
 def test_exaggeration_one_gives_arcs_for_circular_curves():
-    ctx = select(METRIC_SAMPLE)
+    ctx = open_alignment(METRIC_SAMPLE)
     lay = default_layout(ctx.document.units, exaggeration=1.0)
     d = drafting.profile_drawing(ctx, lay)
     doc = ezdxf.read(io.StringIO(write_dxf(d, lay, linear_unit="meter").decode()))
@@ -215,7 +219,7 @@ def test_rendered_png_is_not_blank(tmp_path):
 
     from docs.make_images import render_dxf
 
-    ctx = select(US_SAMPLE, "Orrin Vale Bypass")
+    ctx = open_alignment(US_SAMPLE, "Orrin Vale Bypass")
     lay = default_layout(ctx.document.units)
     data = write_dxf(drafting.profile_drawing(ctx, lay), lay, linear_unit="USSurveyFoot")
     out = tmp_path / "p.png"

@@ -7,11 +7,12 @@ import json
 import ezdxf
 import numpy as np
 import pytest
+from gradeline.analysis.fit import FitError, chain, fit_profile
+from gradeline.cli import main
+from gradeline.deliverables import open_alignment
+from gradeline.geometry import vertical
+from gradeline.io import landxml, landxml_write
 
-from converter import landxml, vertical
-from converter.cli import main
-from converter.fit import FitError, chain, fit_profile
-from converter.selection import select
 from tests.conftest import METRIC_SAMPLE, US_SAMPLE
 
 # Issue 9 tolerances: PVIs within 0.01 ft / 0.003 m, curve lengths within 0.1 ft / 0.03 m
@@ -43,9 +44,9 @@ def test_round_trip_through_our_dxf(tmp_path, capsys, path, name, unit, curves):
     report = json.loads(capsys.readouterr().out)
     assert report["max_residual"] < TOL[unit][0]
     fitted = landxml.read(out).alignment().profile()
-    _compare(fitted, select(path, name).profile, *TOL[unit])
+    _compare(fitted, open_alignment(path, name).profile, *TOL[unit])
     # kinds recovered too (exact linework tells a circle from a parabola)
-    assert [p.kind for p in fitted.pvis] == [p.kind for p in select(path, name).profile.pvis]
+    assert [p.kind for p in fitted.pvis] == [p.kind for p in open_alignment(path, name).profile.pvis]
     # check and fit agree on the same drawing
     assert main(["check", str(out), "--dxf", str(dxf)]) == 0
 
@@ -53,7 +54,7 @@ def test_round_trip_through_our_dxf(tmp_path, capsys, path, name, unit, curves):
 @pytest.mark.parametrize(("path", "name", "unit"), SAMPLES, ids=["bypass-ft", "tarnholm-m"])
 def test_noisy_polyline_recovers_the_geometry(path, name, unit):
     # 1-ft (0.3-m) chords with vertices rounded to 0.01 ft (0.001 m)
-    truth = select(path, name).profile
+    truth = open_alignment(path, name).profile
     g = vertical.solve(truth)
     step, dec = (1.0, 2) if unit == "ft" else (0.3, 3)
     s = np.arange(g.start, g.end + 1e-9, step)
@@ -113,17 +114,17 @@ def test_mapping_required_for_foreign_drawings(tmp_path, capsys):
 def test_writer_round_trip_is_exact():
     for path in (US_SAMPLE, METRIC_SAMPLE):
         doc = landxml.read(path)
-        again = landxml.parse_bytes(landxml.write_landxml(doc), "rt.xml")
+        again = landxml.parse_bytes(landxml_write.write_landxml(doc), "rt.xml")
         for a, b in zip(doc.alignments, again.alignments, strict=True):
             assert a.profiles == b.profiles and a.horizontal == b.horizontal
             assert a.equations == b.equations and a.grounds == b.grounds
-        assert landxml.write_landxml(doc) == landxml.write_landxml(again)  # stable bytes
+        assert landxml_write.write_landxml(doc) == landxml_write.write_landxml(again)  # stable bytes
 
 
 def test_writer_element_order_follows_the_schema():
     from lxml import etree
 
-    root = etree.fromstring(landxml.write_landxml(landxml.read(METRIC_SAMPLE)))
+    root = etree.fromstring(landxml_write.write_landxml(landxml.read(METRIC_SAMPLE)))
     top = [etree.QName(c).localname for c in root]
     assert top == ["Units", "Project", "Application", "Alignments"]
     al = root[3][0]

@@ -12,11 +12,11 @@ import os
 import random
 
 import pytest
+from gradeline.cli import main
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 from lxml import etree
 
-from converter.cli import main
 from tests.conftest import METRIC_SAMPLE, US_SAMPLE
 
 EXAMPLES = int(os.environ.get("GRADELINE_FUZZ_EXAMPLES", "40"))

@@ -8,15 +8,16 @@ import math
 
 import numpy as np
 import pytest
+from gradeline.cli import main
+from gradeline.deliverables import attach_ground, open_alignment
+from gradeline.errors import InputError
+from gradeline.geometry import ground as G
+from gradeline.geometry import horizontal
+from gradeline.io import surface_reader
+from gradeline.model import HLine, HorizontalAlignment
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from converter import ground as G
-from converter import horizontal, landxml
-from converter.cli import main
-from converter.errors import InputError
-from converter.model import HLine, HorizontalAlignment
-from converter.selection import attach_surface, ground_at, select
 from tests.conftest import METRIC_SAMPLE, SAMPLES, US_SAMPLE
 
 TERRAIN = SAMPLES / "orrin-vale-terrain.xml"
@@ -35,7 +36,7 @@ def _tin_xml(points, faces, name="S", unit="meter", hidden=()):
 
 @pytest.fixture(scope="module")
 def bypass_tin():
-    surf = landxml.read_surface(TERRAIN)
+    surf = surface_reader.read_surface(TERRAIN)
     return surf, G.TriangleIndex(surf)
 
 
@@ -84,7 +85,7 @@ def test_vertex_on_the_alignment_gives_its_elevation():
     with tempfile.TemporaryDirectory() as tmp:
         path = Path(tmp) / "t.xml"
         path.write_text(_tin_xml(pts, faces))
-        surf = landxml.read_surface(path)
+        surf = surface_reader.read_surface(path)
     index = G.TriangleIndex(surf)
     hz = horizontal.solve(HorizontalAlignment((HLine((10.0, 0.0), (10.0, 100.0)),)))
     s, z = G.sample_alignment(hz, index)
@@ -101,9 +102,9 @@ def test_vertex_on_the_alignment_gives_its_elevation():
 @settings(max_examples=25, deadline=None)
 @given(st.floats(0.05, 0.95))
 def test_ground_linear_between_breakpoints_on_sample(frac):
-    surf = landxml.read_surface(TERRAIN)
+    surf = surface_reader.read_surface(TERRAIN)
     index = G.TriangleIndex(surf)
-    ctx = select(US_SAMPLE, "Orrin Vale Bypass")
+    ctx = open_alignment(US_SAMPLE, "Orrin Vale Bypass")
     # the last tangent: straight, so the ground is exactly linear between crossings
     line = ctx.horizontal.elements[-1]
     s, z = G.sample_alignment(ctx.horizontal, index, lo=line.start_station, hi=line.end_station)
@@ -116,21 +117,21 @@ def test_ground_linear_between_breakpoints_on_sample(frac):
 
 
 def test_hole_gives_a_gap(bypass_tin):
-    ctx = select(US_SAMPLE, "Orrin Vale Bypass")
-    with_tin, index = attach_surface(ctx, TERRAIN, None)
+    ctx = open_alignment(US_SAMPLE, "Orrin Vale Bypass")
+    with_tin, _ = attach_ground(ctx, TERRAIN, None)
     pieces = with_tin.alignment.grounds[0].pieces
     assert len(pieces) == 2  # split by the pond
     gap = (pieces[0].stations[-1], pieces[1].stations[0])
     assert 4600 < gap[0] < gap[1] < 4800
-    assert math.isnan(float(ground_at(with_tin, index, [(gap[0] + gap[1]) / 2])[0]))
+    assert math.isnan(float(with_tin.ground_at([(gap[0] + gap[1]) / 2])[0]))
 
 
 def test_alignment_leaving_the_surface(tmp_path):
-    ctx = select(METRIC_SAMPLE)
-    with_tin, index = attach_surface(ctx, None, "Survey 2026 west")
+    ctx = open_alignment(METRIC_SAMPLE)
+    with_tin, _ = attach_ground(ctx, None, "Survey 2026 west")
     g = with_tin.alignment.grounds[0]
     assert g.pieces[-1].stations[-1] < 1100  # the surface covers the west part only
-    assert math.isnan(float(ground_at(with_tin, index, [2000.0])[0]))
+    assert math.isnan(float(with_tin.ground_at([2000.0])[0]))
 
 
 @pytest.mark.parametrize(("faces", "points", "pattern"), [
@@ -142,9 +143,9 @@ def test_bad_faces(tmp_path, faces, points, pattern):
     path.write_text(_tin_xml(points, faces))
     if pattern:
         with pytest.raises(InputError, match=pattern):
-            landxml.read_surface(path)
+            surface_reader.read_surface(path)
     else:
-        assert len(landxml.read_surface(path).faces) == 1
+        assert len(surface_reader.read_surface(path).faces) == 1
 
 
 def test_duplicate_point_ids(tmp_path):
@@ -152,27 +153,27 @@ def test_duplicate_point_ids(tmp_path):
     path.write_text(_tin_xml({1: (0, 0, 1), 2: (0, 10, 1), 3: (10, 0, 1)}, [(1, 2, 3)])
                     .replace('<P id="3">', '<P id="2">'))
     with pytest.raises(InputError, match="point id 2 is used twice"):
-        landxml.read_surface(path)
+        surface_reader.read_surface(path)
 
 
 def test_degenerate_faces_are_dropped_and_counted(tmp_path):
     pts = {1: (0, 0, 1), 2: (0, 10, 1), 3: (10, 0, 1), 4: (0, 20, 1)}
     path = tmp_path / "g.xml"
     path.write_text(_tin_xml(pts, [(1, 2, 3), (1, 2, 4)]))  # 1, 2, 4 are collinear
-    surf = landxml.read_surface(path)
+    surf = surface_reader.read_surface(path)
     assert len(surf.faces) == 1 and surf.skipped_faces == 1
 
 
 def test_unknown_and_ambiguous_surface_names(tmp_path):
     with pytest.raises(InputError, match="no surface named 'Nope'; surfaces: Existing ground 2026"):
-        landxml.read_surface(TERRAIN, "Nope")
+        surface_reader.read_surface(TERRAIN, "Nope")
     two = _tin_xml({1: (0, 0, 1), 2: (0, 10, 1), 3: (10, 0, 1)}, [(1, 2, 3)], "A")
     two = two.replace("</Surfaces>", '<Surface name="B"><Definition><Pnts/><Faces/></Definition>'
                       "</Surface></Surfaces>")
     path = tmp_path / "two.xml"
     path.write_text(two)
     with pytest.raises(InputError, match="2 surfaces; choose one with --surface: A, B"):
-        landxml.read_surface(path)
+        surface_reader.read_surface(path)
 
 
 def test_units_must_match(tmp_path, capsys):
@@ -206,15 +207,15 @@ def test_dxf_draws_the_tin_ground(tmp_path):
     doc = ezdxf.readfile(out)
     lines = doc.modelspace().query('LWPOLYLINE[layer=="PROFILE-GROUND"]')
     assert len(lines) == 2  # two pieces around the pond
-    ctx = select(US_SAMPLE, "Orrin Vale Bypass")
-    with_tin, index = attach_surface(ctx, TERRAIN, None)
-    from converter.dxf import read_mapping
+    ctx = open_alignment(US_SAMPLE, "Orrin Vale Bypass")
+    with_tin, _ = attach_ground(ctx, TERRAIN, None)
+    from gradeline.io.dxf_read import read_mapping
 
     m = read_mapping(doc)
     for lw in lines:
         pts = np.array([(x, y) for x, y, *_ in lw.get_points()])
         z = pts[:, 1] / float(m["exaggeration"]) + float(m["datum"])
-        np.testing.assert_allclose(z, ground_at(with_tin, index, pts[:, 0]), atol=1e-6)
+        np.testing.assert_allclose(z, with_tin.ground_at(pts[:, 0]), atol=1e-6)
 
 
 def test_check_compares_ground_profile_with_tin(capsys):

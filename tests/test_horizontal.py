@@ -6,17 +6,19 @@ import math
 
 import numpy as np
 import pytest
+from gradeline.deliverables import open_alignment
+from gradeline.errors import InputError, ModelError
+from gradeline.geometry import horizontal as H
+from gradeline.geometry.curve_data import curve_data
+from gradeline.geometry.station_offset import station_offset
+from gradeline.io import landxml
+from gradeline.model import HCurve, HLine, HorizontalAlignment, HSpiral
 from hypothesis import given, settings
 from hypothesis import strategies as st
 from numpy.testing import assert_allclose
 from scipy import integrate
 from scipy.special import fresnel
 
-from converter import horizontal as H
-from converter import landxml
-from converter.errors import InputError, ModelError
-from converter.model import HCurve, HLine, HorizontalAlignment, HSpiral
-from converter.selection import select
 from tests.conftest import METRIC_SAMPLE, US_SAMPLE
 
 # --- FHWA Bridge Geometry Manual, Appendix B example alignment ----------------------
@@ -64,7 +66,7 @@ def _fhwa_landxml() -> bytes:
 
 @pytest.fixture(scope="module")
 def fhwa():
-    return select(landxml.parse_bytes(_fhwa_landxml(), "fhwa.xml"))
+    return open_alignment(landxml.parse_bytes(_fhwa_landxml(), "fhwa.xml"))
 
 
 def test_fhwa_curve_lengths_and_tangent_runs(fhwa):
@@ -78,7 +80,7 @@ def test_fhwa_curve_lengths_and_tangent_runs(fhwa):
 
 def test_fhwa_pc_pt_at_computed_stations(fhwa):
     h = fhwa.horizontal
-    curves = H.curve_data(h)
+    curves = curve_data(h)
     n, e, _ = H.evaluate(h, [c.start_station for c in curves])
     assert_allclose(np.column_stack([e, n]), FHWA_PC, atol=1e-4)
     n, e, _ = H.evaluate(h, [c.end_station for c in curves])
@@ -86,7 +88,7 @@ def test_fhwa_pc_pt_at_computed_stations(fhwa):
 
 
 def test_fhwa_curve_data_recovers_pis(fhwa):
-    curves = H.curve_data(fhwa.horizontal)
+    curves = curve_data(fhwa.horizontal)
     got = [(c.pi_easting, c.pi_northing) for c in curves]
     assert_allclose(got, FHWA_PIS[1:4], atol=1e-6)
     for c, r, lc in zip(curves, FHWA_R, FHWA_LC, strict=True):
@@ -181,7 +183,7 @@ def test_unsupported_spiral_refused_by_name(kind):
 @pytest.mark.parametrize(("path", "name"), [(US_SAMPLE, "Orrin Vale Bypass"),
                                             (METRIC_SAMPLE, None), (US_SAMPLE, "Kettle Lane")])
 def test_samples_are_continuous_and_match_stated_values(path, name):
-    ctx = select(path, name)
+    ctx = open_alignment(path, name)
     h = ctx.horizontal
     assert h.findings == ()
     assert h.convention == "ccw-north"
@@ -196,7 +198,7 @@ def test_samples_are_continuous_and_match_stated_values(path, name):
 
 
 def test_polyline_length_converges_to_stated_length():
-    ctx = select(US_SAMPLE, "Orrin Vale Bypass")
+    ctx = open_alignment(US_SAMPLE, "Orrin Vale Bypass")
     h = ctx.horizontal
     errors = []
     for n in (100, 400, 1600):
@@ -208,8 +210,8 @@ def test_polyline_length_converges_to_stated_length():
 
 
 def test_station_equation_applies_to_horizontal_labels():
-    ctx = select(METRIC_SAMPLE)
-    c = H.curve_data(ctx.horizontal)[1]
+    ctx = open_alignment(METRIC_SAMPLE)
+    c = curve_data(ctx.horizontal)[1]
     # the second curve lies after the equation at 1200 (labels +50 m)
     assert c.start_station > 1200
     assert ctx.stationing.label(c.start_station) == f"1+{c.start_station + 50 - 1000:07.3f}"
@@ -219,14 +221,14 @@ def test_station_equation_applies_to_horizontal_labels():
 @settings(max_examples=60, deadline=None)
 @given(st.floats(0.0, 1.0), st.floats(-300.0, 300.0))
 def test_inverse_returns_station_and_offset(frac, off):
-    ctx = select(US_SAMPLE, "Orrin Vale Bypass")
+    ctx = open_alignment(US_SAMPLE, "Orrin Vale Bypass")
     h = ctx.horizontal
     s = h.start + frac * (h.end - h.start)
     n, e, hd = H.evaluate(h, s)
     # offset positive to the right: right of heading (cos, sin) is (sin, -cos)
     pn = float(n) - off * math.cos(float(hd))
     pe = float(e) + off * math.sin(float(hd))
-    s2, o2, status = H.station_offset(h, [pn], [pe])
+    s2, o2, status = station_offset(h, [pn], [pe])
     if 0 < frac < 1 or abs(off) < 1e-9:
         assert int(status[0]) == 0
         assert float(s2[0]) == pytest.approx(s, abs=1e-6)
@@ -234,13 +236,13 @@ def test_inverse_returns_station_and_offset(frac, off):
 
 
 def test_points_beyond_the_ends_are_flagged():
-    ctx = select(US_SAMPLE, "Orrin Vale Bypass")
+    ctx = open_alignment(US_SAMPLE, "Orrin Vale Bypass")
     h = ctx.horizontal
     n0, e0, h0 = (float(v) for v in H.evaluate(h, h.start))
     n1, e1, h1 = (float(v) for v in H.evaluate(h, h.end))
     pts_n = [n0 - 40 * math.sin(h0), n1 + 25 * math.sin(h1)]
     pts_e = [e0 - 40 * math.cos(h0), e1 + 25 * math.cos(h1)]
-    s, o, status = H.station_offset(h, pts_n, pts_e)
+    s, o, status = station_offset(h, pts_n, pts_e)
     assert status.tolist() == [-1, 1]
     assert_allclose(s, [h.start - 40, h.end + 25], atol=1e-6)
     assert_allclose(o, [0, 0], atol=1e-6)

@@ -24,7 +24,7 @@ def _limits():  # bounded memory for the child: 2 GiB of address space
 
 
 def run(*args, timeout=60):
-    return subprocess.run([sys.executable, "-m", "converter", *map(str, args)],
+    return subprocess.run([sys.executable, "-m", "gradeline", *map(str, args)],
                           capture_output=True, text=True, timeout=timeout, preexec_fn=_limits,
                           env=dict(os.environ, PYTHONHASHSEED="1"))
 

@@ -3,9 +3,9 @@
 from __future__ import annotations
 
 import pytest
+from gradeline.errors import InputError
+from gradeline.io import landxml
 
-from converter import landxml
-from converter.errors import InputError
 from tests.conftest import METRIC_SAMPLE, US_SAMPLE
 
 MINIMAL = """<?xml version="1.0" encoding="{enc}"?>

@@ -6,10 +6,9 @@ import dataclasses
 import math
 
 import pytest
-
-from converter.errors import ModelError
-from converter.model import Profile, PVISpec, StationEquation
-from converter.units import Units
+from gradeline.errors import ModelError
+from gradeline.model import Profile, PVISpec, StationEquation
+from gradeline.model.units import Units
 
 
 def test_pvi_is_frozen():

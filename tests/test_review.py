@@ -6,10 +6,10 @@ import json
 import math
 
 import pytest
+from gradeline.analysis import review as R
+from gradeline.cli import main
+from gradeline.geometry import vertical
 
-from converter import review as R
-from converter import vertical
-from converter.cli import main
 from tests.conftest import METRIC_SAMPLE, US_SAMPLE, profile_of
 
 US = R.load_criteria(None, metric=False)
@@ -126,7 +126,7 @@ def test_drainage_flag_is_a_check_not_a_failure():
 
 
 def test_criteria_file_overrides(tmp_path):
-    text = (R.resources.files("converter.criteria") / "aashto-2018.toml").read_text()
+    text = (R.resources.files("gradeline.criteria") / "aashto-2018.toml").read_text()
     custom = tmp_path / "agency.toml"
     custom.write_text(text.replace("eye_height = 3.5", "eye_height = 3.0"))
     crit = R.load_criteria(str(custom), metric=False)

@@ -11,15 +11,15 @@ import subprocess
 
 import numpy as np
 import pytest
+from gradeline.cli import main
+from gradeline.deliverables import open_alignment
+from gradeline.model.units import Units
+from gradeline.present import drafting, items, labels
+from gradeline.present.layout import default_layout
+from gradeline.sheets.layout import PAPER_SIZES, pack_tables, sheet_frames, sheet_geometry
+from gradeline.sheets.pdf import SheetOptions, page_plan, render_sheets
 from reportlab.pdfbase.pdfmetrics import stringWidth
 
-from converter import drafting, labels
-from converter.cli import main
-from converter.layout import default_layout
-from converter.selection import select
-from converter.units import Units
-from sheets.layout import PAPER_SIZES, pack_tables, sheet_frames, sheet_geometry
-from sheets.pdf import SheetOptions, page_plan, render_sheets
 from tests.conftest import METRIC_SAMPLE, SAMPLES, US_SAMPLE
 
 pypdf = pytest.importorskip("pypdf", reason="pypdf extracts the PDF text")
@@ -32,7 +32,7 @@ IDS = ["bypass-ansi-d", "tarnholm-iso-a1", "lane-ansi-b"]
 @pytest.fixture(scope="module", params=CASES, ids=IDS)
 def rendered(request):
     path, name, size = request.param
-    ctx = select(path, name)
+    ctx = open_alignment(path, name)
     opts = SheetOptions(size=size, project="Test project", date="2026-11-30")
     pdf = render_sheets(ctx, opts)
     reader = pypdf.PdfReader(io.BytesIO(pdf))
@@ -187,7 +187,7 @@ def test_sheet_labels_do_not_collide_with_real_font_widths(rendered):
             assert stringWidth(t.text, "Helvetica", t.height) <= t.width + 1e-9
         boxes = [t.corners() for t in texts]
         clashes = [(texts[i].text, texts[j].text) for i in range(len(boxes))
-                   for j in range(i + 1, len(boxes)) if drafting.boxes_overlap(boxes[i], boxes[j])]
+                   for j in range(i + 1, len(boxes)) if items.boxes_overlap(boxes[i], boxes[j])]
         assert clashes == []
 
 

@@ -4,13 +4,12 @@ from __future__ import annotations
 
 import numpy as np
 import pytest
+from gradeline.errors import UsageError
+from gradeline.geometry.stations import Stationing, format_station, parse_station
+from gradeline.model import StationEquation
+from gradeline.model.units import Units
 from hypothesis import given
 from hypothesis import strategies as st
-
-from converter.errors import UsageError
-from converter.model import StationEquation
-from converter.stations import Stationing, format_station, parse_station
-from converter.units import Units
 
 FT = Units("foot")
 M = Units("meter")

@@ -4,11 +4,12 @@ from __future__ import annotations
 
 import numpy as np
 import pytest
+from gradeline.deliverables import open_alignment
+from gradeline.model import Alignment, Document
+from gradeline.model.units import Units
+from gradeline.present import tables
+from gradeline.solved import solve_alignment
 
-from converter import tables
-from converter.model import Alignment, Document
-from converter.selection import select, solve_alignment
-from converter.units import Units
 from tests.conftest import CASES, METRIC_SAMPLE, US_SAMPLE
 
 
@@ -50,7 +51,7 @@ def test_rows_have_exact_columns():
 
 
 def test_curve_rows_us_sample():
-    ctx = select(US_SAMPLE, "Orrin Vale Bypass")
+    ctx = open_alignment(US_SAMPLE, "Orrin Vale Bypass")
     rows = tables.vertical_curve_rows(ctx)
     assert [r["type"] for r in rows] == ["crest", "sag", "crest", "sag", "crest"]
     unsym = rows[2]
@@ -60,7 +61,7 @@ def test_curve_rows_us_sample():
 
 
 def test_metric_table_tags_the_equation():
-    ctx = select(METRIC_SAMPLE)
+    ctx = open_alignment(METRIC_SAMPLE)
     stations, tags = tables.table_stations(ctx, interval=100.0)
     i = tags.index("EQUATION")
     assert stations[i] == 1200.0

@@ -9,14 +9,14 @@ from fractions import Fraction
 import numpy as np
 import pytest
 import sympy
+from gradeline.errors import ModelError
+from gradeline.geometry import vertical
+from gradeline.model import Profile, PVISpec
 from hypothesis import given, settings
 from hypothesis import strategies as st
 from numpy.testing import assert_allclose
 from scipy import integrate
 
-from converter import vertical
-from converter.errors import ModelError
-from converter.model import Profile, PVISpec
 from tests.conftest import CASES, profile_of
 
 # Tolerances: 1e-6 file units is far below survey precision (0.001 ft / 0.001 m)
@@ -377,4 +377,8 @@ def test_key_points_merge_shared_stations():
     tags = {round(k.station, 6): k.text for k in keys}
     assert tags[600.0] == "EVC;BVC"
     assert tags[0.0] == "START" and tags[1200.0] == "END"
-    assert "HIGH" in tags[400.0] or any("HIGH" in t for t in tags.values())
+    # high point of the crest at x = -g1 L / A = -2 * 400 / -4 = 200 ft past the BVC, i.e.
+    # on the PVI; low point of the sag at 2 * 400 / 3 = 266.67 ft past its BVC at 600
+    # (common practice: the turning point of a parabola lies where the grade is zero)
+    assert set(tags[400.0].split(";")) == {"PVI", "HIGH"}
+    assert tags[round(600.0 + 800.0 / 3.0, 6)] == "LOW"

@@ -1,0 +1,1 @@
+"""Judgements on solved geometry: design-control review, cross-check, fit of drawn profiles."""

@@ -1,0 +1,491 @@
+"""Design-control review of a profile: K-value checks and exact sight distance.
+
+Per vertical curve (closed-form design checks, common practice after AASHTO
+2018 Chapter 3): stopping sight distance on crests (both S < L and S > L),
+headlight sight distance on sags, comfort, appearance, drainage on curbed
+sections and, on request, passing sight distance.
+
+Along the whole profile (exact, vectorised): the available sight distance at
+every station in both directions of travel -- the distance to the first point
+where an object of height h2 is hidden from an eye at h1 by the finished grade,
+and the distance to the first point where the upper edge of the headlight
+beam (height h, rising at angle beta) strikes the road -- compared with the
+required stopping sight distance, with the grade correction on steep downgrades.
+
+The controls are data (:mod:`gradeline.criteria`); results are plain records,
+never printed here. These checks do not replace the governing agency's
+standards or the responsible engineer's judgment.
+"""
+
+from __future__ import annotations
+
+import math
+import tomllib
+from dataclasses import dataclass, field
+from importlib import resources
+from typing import Any
+
+import numpy as np
+from gradeline.errors import InputError, UsageError
+from gradeline.geometry import vertical
+from gradeline.geometry._runs import true_runs
+from gradeline.geometry.vertical import VerticalGeometry
+from gradeline.model import SourceRef
+from gradeline.model.units import UNIT_DEFAULTS
+from numpy.lib.stride_tricks import sliding_window_view
+from numpy.typing import NDArray
+
+__all__ = [
+    "Check",
+    "Criteria",
+    "CurveReview",
+    "Deficiency",
+    "Review",
+    "SightDistance",
+    "crest_length",
+    "design_k_crest",
+    "design_k_sag",
+    "design_ssd",
+    "load_criteria",
+    "review_profile",
+    "sag_length",
+    "sight_distance",
+    "stopping_distance",
+]
+
+MPH_TO_KMH = 1.609344
+
+
+@dataclass(frozen=True, slots=True)
+class Criteria:
+    """One set of design controls (US customary or metric)."""
+
+    name: str
+    speed_unit: str
+    eye_height: float
+    object_height: float
+    headlight_height: float
+    headlight_angle_deg: float
+    sag_constant: float
+    sag_per_distance: float
+    reaction_time: float
+    deceleration: float
+    brake_reaction_coefficient: float
+    braking_coefficient: float
+    gravity: float
+    grade_coefficient: float
+    grade_correction_from: float
+    ssd_round_to: float
+    k_round_slack: float
+    comfort_divisor: float
+    appearance_per_speed: float
+    drainage_k_max: float
+    passing_object_height: float
+    radius_coefficient: float = 15.0
+    e_max: float = 0.08
+    passing_sight_distance: tuple[tuple[float, float], ...] = ()
+    side_friction: tuple[tuple[float, float], ...] = ()
+
+    def min_radius(self, speed: float, e_max: float | None = None) -> float | None:
+        """Minimum horizontal radius V^2 / (c (e + f)) for a design speed (None off the table)."""
+        if not self.side_friction:
+            return None
+        v = np.array([p[0] for p in self.side_friction])
+        f = np.array([p[1] for p in self.side_friction])
+        if speed < v[0] or speed > v[-1]:
+            return None
+        e = self.e_max if e_max is None else e_max
+        return speed**2 / (self.radius_coefficient * (e + float(np.interp(speed, v, f))))
+
+    @property
+    def crest_constant(self) -> float:
+        """200 (sqrt h1 + sqrt h2)^2: 2158 ft with 3.5/2.0 ft, 658 m with 1.08/0.60 m."""
+        return 200.0 * (math.sqrt(self.eye_height) + math.sqrt(self.object_height)) ** 2
+
+    def sag_denominator(self, s: float) -> float:
+        """200 (h + S tan(beta)) as the published formula writes it: 400 + 3.5 S (ft), 120 + 3.5 S (m)."""
+        return self.sag_constant + self.sag_per_distance * s
+
+    def psd(self, speed: float) -> float | None:
+        """Passing sight distance for a design speed (linear between table rows)."""
+        if not self.passing_sight_distance:
+            return None
+        v = np.array([p[0] for p in self.passing_sight_distance])
+        d = np.array([p[1] for p in self.passing_sight_distance])
+        if speed < v[0] or speed > v[-1]:
+            return None
+        return float(np.interp(speed, v, d))
+
+
+def load_criteria(path: str | None, metric: bool) -> Criteria:
+    """Read a criteria TOML file (default: the shipped AASHTO 2018 set).
+
+    Raises
+    ------
+    InputError
+        The file cannot be read, is not TOML, or lacks a value.
+    """
+    where = path or "aashto-2018.toml"
+    try:
+        if path is None:
+            text = resources.files("gradeline.criteria").joinpath("aashto-2018.toml").read_bytes()
+        else:
+            with open(path, "rb") as fh:
+                text = fh.read()
+        data = tomllib.loads(text.decode("utf-8"))
+    except OSError as err:
+        raise InputError(f"cannot read the file ({err.strerror})", SourceRef(where), "criteria") from None
+    except (tomllib.TOMLDecodeError, UnicodeDecodeError) as err:
+        raise InputError(f"not valid TOML: {err}", SourceRef(where), "criteria") from None
+    key = "metric" if metric else "us"
+    table = data.get(key)
+    if not isinstance(table, dict):
+        raise InputError(f"no [{key}] table of design controls", SourceRef(where), "criteria")
+    values: dict[str, Any] = {"name": str(data.get("name", where))}
+    optional = ("radius_coefficient", "e_max")
+    for f in Criteria.__dataclass_fields__:
+        if f in ("name", "passing_sight_distance", "side_friction"):
+            continue
+        if f in optional and f not in table:
+            continue
+        if f not in table:
+            raise InputError(f"[{key}] lacks {f!r}", SourceRef(where), "criteria")
+        values[f] = table[f] if f == "speed_unit" else float(table[f])
+    for key_name in ("passing_sight_distance", "side_friction"):
+        tab = table.get(key_name, {})
+        values[key_name] = tuple(sorted((float(k), float(v)) for k, v in tab.items()))
+    return Criteria(**values)
+
+
+# --------------------------------------------------------------------------- formulas
+def stopping_distance(crit: Criteria, speed: float, downgrade: float = 0.0) -> float:
+    """Stopping sight distance (unrounded) for a design speed.
+
+    ``downgrade`` (ratio, positive downhill) applies the grade correction
+    V^2 / (c (a/g - G)) from ``grade_correction_from`` on.
+
+    Examples
+    --------
+    >>> crit = load_criteria(None, metric=False)
+    >>> round(stopping_distance(crit, 50.0), 1)  # 1.47*50*2.5 + 1.075*50^2/11.2
+    423.7
+    """
+    reaction = crit.brake_reaction_coefficient * speed * crit.reaction_time
+    if downgrade >= crit.grade_correction_from:
+        braking = speed**2 / (crit.grade_coefficient * (crit.deceleration / crit.gravity - downgrade))
+    else:
+        braking = crit.braking_coefficient * speed**2 / crit.deceleration
+    return reaction + braking
+
+
+def design_ssd(crit: Criteria, speed: float, downgrade: float = 0.0) -> float:
+    """Stopping sight distance rounded up to the design step (5 ft / 5 m)."""
+    raw = stopping_distance(crit, speed, downgrade)
+    return math.ceil(raw / crit.ssd_round_to - 1e-9) * crit.ssd_round_to
+
+
+def _round_k(k: float, crit: Criteria) -> float:
+    return float(math.ceil(k - crit.k_round_slack))
+
+
+def design_k_crest(crit: Criteria, ssd: float) -> float:
+    """Design K of a crest for stopping sight distance: S^2 / 2158 (658), rounded up."""
+    return _round_k(ssd**2 / crit.crest_constant, crit)
+
+
+def design_k_sag(crit: Criteria, ssd: float) -> float:
+    """Design K of a sag for headlight sight distance: S^2 / (400 + 3.5 S), rounded up."""
+    return _round_k(ssd**2 / crit.sag_denominator(ssd), crit)
+
+
+def crest_length(a_pct: float, s: float, constant: float) -> float:
+    """Minimum crest length for sight distance S: A S^2/C when S < L, else 2S - C/A."""
+    a = abs(a_pct)
+    if a == 0:
+        return 0.0
+    long = a * s * s / constant
+    return long if long >= s else max(0.0, 2.0 * s - constant / a)
+
+
+def sag_length(a_pct: float, s: float, crit: Criteria) -> float:
+    """Minimum sag length for headlight sight distance (S < L and S > L cases)."""
+    a = abs(a_pct)
+    if a == 0:
+        return 0.0
+    long = a * s * s / crit.sag_denominator(s)
+    return long if long >= s else max(0.0, 2.0 * s - crit.sag_denominator(s) / a)
+
+
+# --------------------------------------------------------------------------- per curve
+@dataclass(frozen=True, slots=True)
+class Check:
+    """One control: what is required, what the curve provides, and the verdict."""
+
+    name: str
+    required: float
+    provided: float
+    unit: str
+    verdict: str  # "pass", "fail" or "check"
+    note: str = ""
+    at_most: bool = False  # the provided value must not exceed the required one
+
+    @property
+    def margin(self) -> float:
+        """Spare: provided minus required (required minus provided for an upper limit)."""
+        return self.required - self.provided if self.at_most else self.provided - self.required
+
+
+@dataclass(frozen=True, slots=True)
+class CurveReview:
+    """The checks of one vertical curve."""
+
+    index: int
+    curve: vertical.VerticalCurve
+    checks: tuple[Check, ...]
+
+    @property
+    def failed(self) -> bool:
+        """True when any check fails."""
+        return any(c.verdict == "fail" for c in self.checks)
+
+
+def _verdict(ok: bool) -> str:
+    return "pass" if ok else "fail"
+
+
+def check_curve(curve: vertical.VerticalCurve, crit: Criteria, speed: float, *,
+                curbed: bool = False, passing: bool = False, lu: str = "ft") -> tuple[Check, ...]:
+    """All closed-form checks of one curve."""
+    a = abs(curve.a_pct)
+    length = curve.length
+    k = curve.k if curve.k is not None else math.inf
+    ssd = design_ssd(crit, speed)
+    out: list[Check] = []
+    note = "" if curve.kind == "parabolic" else (
+        f"{curve.kind} curve: formulas assume a symmetric parabola; see the exact sight distance")
+    if curve.curve_type == "crest":
+        need = crest_length(a, ssd, crit.crest_constant)
+        case = "S < L" if a * ssd * ssd / crit.crest_constant >= ssd else "S > L"
+        out.append(Check(f"stopping sight distance {ssd:g} {lu} ({case})", need, length, lu,
+                         _verdict(length >= need - 1e-9), note))
+        kd = design_k_crest(crit, ssd)
+        out.append(Check("design K, crest", kd, k, f"{lu}/%", _verdict(k >= kd - 1e-9)))
+        if passing:
+            psd = crit.psd(speed)
+            if psd is not None:
+                cp = 200.0 * (math.sqrt(crit.eye_height) + math.sqrt(crit.passing_object_height)) ** 2
+                need = crest_length(a, psd, cp)
+                out.append(Check(f"passing sight distance {psd:g} {lu}", need, length, lu,
+                                 _verdict(length >= need - 1e-9)))
+    elif curve.curve_type == "sag":
+        need = sag_length(a, ssd, crit)
+        case = "S < L" if a * ssd * ssd / crit.sag_denominator(ssd) >= ssd else "S > L"
+        out.append(Check(f"headlight sight distance {ssd:g} {lu} ({case})", need, length, lu,
+                         _verdict(length >= need - 1e-9), note))
+        kd = design_k_sag(crit, ssd)
+        out.append(Check("design K, sag", kd, k, f"{lu}/%", _verdict(k >= kd - 1e-9)))
+        need = a * speed**2 / crit.comfort_divisor
+        out.append(Check("comfort (A V^2 / %g)" % crit.comfort_divisor, need, length, lu,
+                         _verdict(length >= need - 1e-9)))
+    need = crit.appearance_per_speed * speed
+    out.append(Check(f"appearance ({crit.appearance_per_speed:g} V)", need, length, lu,
+                     _verdict(length >= need - 1e-9)))
+    if curbed and curve.curve_type != "flat":
+        flat = k > crit.drainage_k_max
+        out.append(Check(f"drainage, curbed (K at most {crit.drainage_k_max:g})",
+                         crit.drainage_k_max, k, f"{lu}/%", "check" if flat else "pass",
+                         "a level spot near the high/low point needs drainage attention" if flat else "",
+                         at_most=True))
+    return tuple(out)
+
+
+# --------------------------------------------------------------------------- sight distance
+@dataclass(frozen=True, eq=False)
+class SightDistance:
+    """Available sight distance at each station, both directions (inf: not limited)."""
+
+    stations: NDArray[np.float64]
+    ahead: NDArray[np.float64]  # object visibility, travelling up-station
+    behind: NDArray[np.float64]  # travelling down-station
+    headlight_ahead: NDArray[np.float64]
+    headlight_behind: NDArray[np.float64]
+    reach: float  # distances are looked for up to this far
+
+
+def _line_of_sight(z: NDArray[np.float64], eyes: NDArray[np.intp], dx: float, window: int,
+                   h1: float, h2: float) -> NDArray[np.float64]:
+    """Distance from each eye sample to the first hidden object position."""
+    n = len(z)
+    pad = np.concatenate([z, np.full(window + 1, np.nan)])
+    out = np.full(len(eyes), np.inf)
+    k = np.arange(1, window + 1, dtype=np.float64)
+    for lo in range(0, len(eyes), 2048):
+        idx = eyes[lo:lo + 2048]
+        win = sliding_window_view(pad, window + 1)[idx]  # (m, window + 1); column 0 = eye
+        eye = win[:, :1] + h1
+        ahead = win[:, 1:]
+        slope = (ahead - eye) / (k * dx)
+        target = (ahead + h2 - eye) / (k * dx)
+        blocker = np.maximum.accumulate(np.where(np.isnan(slope), -np.inf, slope), axis=1)
+        prior = np.concatenate([np.full((len(idx), 1), -np.inf), blocker[:, :-1]], axis=1)
+        margin = target - prior  # > 0 while the object top is in view
+        hidden = (margin <= 0) & ~np.isnan(target)
+        first = np.argmax(hidden, axis=1)
+        has = hidden[np.arange(len(idx)), first]
+        # interpolate the crossing between the last visible and first hidden positions
+        j = first[has]
+        rows = np.flatnonzero(has)
+        m1 = margin[rows, j]
+        m0 = np.where(j > 0, margin[rows, np.maximum(j - 1, 0)], np.inf)
+        frac = np.where(np.isfinite(m0), m0 / np.where(m0 - m1 != 0, m0 - m1, 1.0), 1.0)
+        dist = (j + np.clip(frac, 0.0, 1.0)) * dx
+        res = np.full(len(idx), np.inf)
+        res[rows] = dist
+        # profile end reached before anything hid the object: not limited here
+        out[lo:lo + 2048] = res
+    _ = n
+    return out
+
+
+def _headlight(z: NDArray[np.float64], eyes: NDArray[np.intp], slopes: NDArray[np.float64],
+               dx: float, window: int, h: float, beta: float) -> NDArray[np.float64]:
+    """Distance to where the top edge of the headlight beam meets the road."""
+    pad = np.concatenate([z, np.full(window + 1, np.nan)])
+    out = np.full(len(eyes), np.inf)
+    k = np.arange(1, window + 1, dtype=np.float64) * dx
+    tb = np.tan(np.arctan(slopes) + beta)
+    for lo in range(0, len(eyes), 2048):
+        idx = eyes[lo:lo + 2048]
+        win = sliding_window_view(pad, window + 1)[idx]
+        beam = win[:, :1] + h + tb[lo:lo + 2048, None] * k[None, :]
+        under = beam - win[:, 1:]  # > 0 while the beam is above the road
+        hit = (under <= 0) & ~np.isnan(under)
+        first = np.argmax(hit, axis=1)
+        has = hit[np.arange(len(idx)), first]
+        rows = np.flatnonzero(has)
+        j = first[has]
+        u1 = under[rows, j]
+        u0 = np.where(j > 0, under[rows, np.maximum(j - 1, 0)], h)
+        frac = u0 / np.where(u0 - u1 != 0, u0 - u1, 1.0)
+        res = np.full(len(idx), np.inf)
+        res[rows] = (j + np.clip(frac, 0.0, 1.0)) * dx
+        out[lo:lo + 2048] = res
+    return out
+
+
+def sight_distance(geom: VerticalGeometry, crit: Criteria, *, step: float, reach: float,
+                   sample: float | None = None) -> SightDistance:
+    """Available stopping and headlight sight distance every ``step`` along the profile.
+
+    The finished grade is sampled every ``sample`` (default step/10, at most 1 ft
+    or 0.3 m) and crossings are interpolated between samples; distances are looked
+    for up to ``reach``.
+    """
+    if not (step > 0 and reach > 0):
+        raise UsageError("step and reach must be positive")
+    dx = sample or min(step / 10.0, 1.0)
+    if (geom.end - geom.start) / dx > 50_000_000:
+        raise UsageError(f"the profile is {geom.end - geom.start:g} long: too long to sample every "
+                         f"{dx:g} for sight distance (at most 50,000,000 samples)")
+    n = int(math.floor((geom.end - geom.start) / dx)) + 1
+    xs = geom.start + dx * np.arange(n)
+    z, g = vertical.evaluate(geom, xs)
+    every = max(1, int(round(step / dx)))
+    eyes = np.arange(0, n, every, dtype=np.intp)
+    window = int(math.ceil(reach / dx))
+    beta = math.radians(crit.headlight_angle_deg)
+    ahead = _line_of_sight(z, eyes, dx, window, crit.eye_height, crit.object_height)
+    head_a = _headlight(z, eyes, g[eyes], dx, window, crit.headlight_height, beta)
+    zr = z[::-1].copy()
+    rev = (n - 1 - eyes)
+    behind = _line_of_sight(zr, rev, dx, window, crit.eye_height, crit.object_height)
+    head_b = _headlight(zr, rev, -g[eyes], dx, window, crit.headlight_height, beta)
+    return SightDistance(xs[eyes], np.minimum(ahead, np.inf), behind, head_a, head_b, reach)
+
+
+@dataclass(frozen=True, slots=True)
+class Deficiency:
+    """A station range where available sight distance is below the requirement."""
+
+    kind: str  # "stopping" or "headlight"
+    direction: str  # "ahead" (up-station) or "behind"
+    start: float
+    end: float
+    available_min: float
+    required: float
+
+
+def _runs(stations, available, required, kind, direction) -> list[Deficiency]:
+    short = available < required - 1e-6
+    return [Deficiency(kind, direction, float(stations[i]), float(stations[j]),
+                       float(np.min(available[i:j + 1])), float(np.max(required[i:j + 1])))
+            for i, j in true_runs(short)]
+
+
+@dataclass(frozen=True, eq=False)
+class Review:
+    """Everything the review found."""
+
+    criteria: Criteria
+    speed: float
+    speed_unit: str
+    ssd: float
+    curves: tuple[CurveReview, ...]
+    sight: SightDistance
+    deficiencies: tuple[Deficiency, ...]
+    notes: tuple[str, ...] = field(default=())
+    radius_checks: tuple[tuple[float, Check], ...] = ()  # (PC/TS station, check)
+
+    @property
+    def failed(self) -> bool:
+        """True when any check fails or any station range lacks sight distance."""
+        return (any(c.failed for c in self.curves) or bool(self.deficiencies)
+                or any(ch.verdict == "fail" for _, ch in self.radius_checks))
+
+
+def radius_checks(curves, crit: Criteria, speed: float, e_max: float | None = None,
+                  lu: str = "ft") -> tuple[tuple[float, Check], ...]:
+    """Minimum radius for the design speed against each horizontal curve's radius."""
+    need = crit.min_radius(speed, e_max)
+    if need is None:
+        return ()
+    e = crit.e_max if e_max is None else e_max
+    return tuple(
+        (c.start_station, Check(f"minimum radius (e max {100 * e:g} %)", need, c.radius, lu,
+                                _verdict(c.radius >= need - 1e-9)))
+        for c in curves
+    )
+
+
+def review_profile(geom: VerticalGeometry, crit: Criteria, speed: float, *,
+                   curbed: bool = False, passing: bool = False, step: float | None = None,
+                   length_unit: str = "ft", horizontal_curves=(),
+                   e_max: float | None = None) -> Review:
+    """Review ``geom`` for a design ``speed`` in the criteria's speed unit."""
+    if not (math.isfinite(speed) and speed > 0):
+        raise UsageError(f"design speed must be a positive number, got {speed:g}")
+    ssd = design_ssd(crit, speed)
+    curves = tuple(
+        CurveReview(i + 1, c, check_curve(c, crit, speed, curbed=curbed, passing=passing,
+                                          lu=length_unit))
+        for i, c in enumerate(geom.curves)
+    )
+    st = step or UNIT_DEFAULTS[length_unit == "m"].sight_step
+    steepest = float(np.max(np.abs(geom.grades))) if len(geom.grades) else 0.0
+    reach = 1.25 * design_ssd(crit, speed, steepest)
+    sd = sight_distance(geom, crit, step=st, reach=reach)
+    _, g = vertical.evaluate(geom, sd.stations)
+    req_ahead = np.array([design_ssd(crit, speed, max(0.0, -x)) for x in g])
+    req_behind = np.array([design_ssd(crit, speed, max(0.0, x)) for x in g])
+    defs = (_runs(sd.stations, sd.ahead, req_ahead, "stopping", "ahead")
+            + _runs(sd.stations, sd.behind, req_behind, "stopping", "behind")
+            + _runs(sd.stations, sd.headlight_ahead, req_ahead, "headlight", "ahead")
+            + _runs(sd.stations, sd.headlight_behind, req_behind, "headlight", "behind"))
+    notes = (
+        "Sight distance is measured on the finished grade alone: cuts, barriers, "
+        "structures and horizontal curvature can shorten it further.",
+        "Checks do not replace the governing agency's standards or the responsible "
+        "engineer's judgment.",
+    )
+    radii = radius_checks(horizontal_curves, crit, speed, e_max, length_unit)
+    return Review(crit, speed, crit.speed_unit, ssd, curves, sd, tuple(defs), notes, radii)

@@ -1,0 +1,63 @@
+"""Command-line interface: one module per command, each with its parser and handler.
+
+A command module has ``NAME``, ``add_parser(subparsers)`` and ``run(args) ->
+int``; this package collects them in :data:`COMMANDS` (in the order ``--help``
+lists them). No geometry lives here. Every
+:class:`~gradeline.errors.GradelineError` is caught once in :func:`main` and
+printed as one line; exit codes are 0 (ok), 1 (findings, for review/check), 2
+(bad input or usage). Heavy libraries are imported inside each ``run``, so
+``gradeline --help`` starts fast.
+"""
+
+from __future__ import annotations
+
+import importlib
+import sys
+from collections.abc import Sequence
+
+from gradeline import __version__
+from gradeline.cli._common import PROG, Parser
+from gradeline.errors import GradelineError
+
+__all__ = ["COMMANDS", "build_parser", "main"]
+
+#: Command modules of :mod:`gradeline.cli`, in the order of ``--help``.
+COMMANDS = ("info", "table", "dxf", "sheets", "review", "check", "fit", "build", "demo", "curves")
+
+
+def build_parser() -> Parser:
+    """The argument parser of the ``gradeline`` command."""
+    parser = Parser(
+        prog=PROG,
+        description=(
+            "Compute and draft highway vertical geometry from LandXML. Computed "
+            "geometry is for review: verify it against the governing agency's "
+            "standards; design decisions rest with the responsible licensed engineer."
+        ),
+    )
+    parser.add_argument("--version", action="version", version=f"{PROG} {__version__}")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=Parser)
+    sub.required = True
+    for name in COMMANDS:
+        importlib.import_module(f"gradeline.cli.{name}").add_parser(sub)
+    return parser
+
+
+def main(argv: Sequence[str] | None = None) -> int:
+    """Run the ``gradeline`` command; return its exit code."""
+    parser = build_parser()
+    args = parser.parse_args(argv)
+    try:
+        return int(args.func(args))
+    except GradelineError as err:
+        sys.stderr.write(f"{PROG}: {err}\n")
+        return 2
+    except BrokenPipeError:
+        return 0
+    except KeyboardInterrupt:
+        sys.stderr.write(f"{PROG}: interrupted\n")
+        return 130
+
+
+if __name__ == "__main__":  # pragma: no cover
+    raise SystemExit(main())

@@ -1,0 +1,79 @@
+"""``gradeline build``: every deliverable for every alignment, with a summary index."""
+
+from __future__ import annotations
+
+import argparse
+import sys
+from typing import Any
+
+from gradeline.cli._common import add_ground
+from gradeline.errors import UsageError
+
+NAME = "build"
+
+
+def add_parser(sub: Any) -> None:
+    """Register the command."""
+    p = sub.add_parser(
+        NAME,
+        help="every deliverable for every alignment of files or folders, with a summary index",
+        description=(
+            "For every alignment: profile.dxf, plan.dxf, sheets.pdf, curves.csv, table.csv, "
+            "check.txt and, with --speed, review.txt, in OUTDIR/<file>/<alignment>/, plus "
+            "OUTDIR/index.txt and index.json. One failing alignment or file does not stop the "
+            "others. Exit 0 all built and clean, 1 built with check or review findings, 2 when "
+            "anything failed to build."
+        ),
+    )
+    p.add_argument("inputs", nargs="+", metavar="FILE_OR_FOLDER", help="LandXML files or folders")
+    p.add_argument("-o", "--output", required=True, metavar="OUTDIR", help="output folder")
+    p.add_argument("--speed", type=float, metavar="V", help="design speed for the review")
+    p.add_argument("--units", choices=("mph", "kmh"), help="unit of --speed (default: the file's)")
+    add_ground(p)
+    p.add_argument("--jobs", type=int, metavar="N", help="parallel processes (default: one a core)")
+    p.add_argument("--config", metavar="FILE", help="TOML with [sheet] and [layers] tables")
+    p.set_defaults(func=run)
+
+
+def run_jobs(jobs: list[Any], outdir: str, workers: int) -> int:
+    """Build the jobs with a progress bar on a terminal; print the index; exit code."""
+    from gradeline.build import build, write_index
+    from gradeline.render.outputs import refuse_overwrite
+
+    for j in jobs:  # the output folder may not be an input file
+        refuse_overwrite(outdir, [j.path])
+    bar = None
+    if sys.stderr.isatty():
+        from tqdm import tqdm
+
+        bar = tqdm(total=len(jobs), unit="file", desc="gradeline build", file=sys.stderr)
+    try:
+        results = build(jobs, outdir, workers=workers, progress=bar.update if bar else None)
+    finally:
+        if bar is not None:
+            bar.close()
+    text, _ = write_index(results, outdir)
+    sys.stdout.write(text)
+    if any(r.failed for r in results):
+        return 2
+    if any(r.check_over or r.review_failed for r in results):
+        return 1
+    return 0
+
+
+def run(args: argparse.Namespace) -> int:
+    """Build every input."""
+    import os
+
+    from gradeline.build import BuildJob, BuildOptions, collect_inputs
+    from gradeline.io.config import read_config
+
+    cfg = read_config(args.config) if args.config else {}
+    files = collect_inputs(args.inputs)
+    if not files:
+        raise UsageError("no LandXML files found in " + ", ".join(args.inputs))
+    opts = BuildOptions(speed=args.speed, speed_unit=args.units, ground=args.ground,
+                        surface=args.surface, sheet=dict(cfg.get("sheet", {})),
+                        layers=dict(cfg.get("layers", {})))
+    workers = args.jobs or min(len(files), os.cpu_count() or 1)
+    return run_jobs([BuildJob(f, opts) for f in files], args.output, workers)

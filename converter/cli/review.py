@@ -1,0 +1,53 @@
+"""``gradeline review``: design-control review of the profile for a design speed."""
+
+from __future__ import annotations
+
+import argparse
+from typing import Any
+
+from gradeline.cli._common import add_common, add_report, emit
+
+NAME = "review"
+
+
+def add_parser(sub: Any) -> None:
+    """Register the command."""
+    p = sub.add_parser(
+        NAME,
+        help="design-control review: sight distance, comfort, appearance, drainage (exit 1 on "
+             "failure)",
+        description=(
+            "Closed-form checks of every vertical curve for the design speed (crest stopping "
+            "sight distance, sag headlight sight distance, comfort, appearance, drainage on "
+            "curbed sections, passing sight distance on request) and the exact available "
+            "sight distance along the finished grade in both directions. Default controls: "
+            "AASHTO 2018 values shipped with gradeline; another agency's with --criteria. "
+            "The review does not replace the governing agency's standards or the "
+            "responsible engineer's judgment. Exit 0 all pass, 1 something fails, 2 bad input."
+        ),
+    )
+    add_common(p)
+    p.add_argument("--speed", type=float, required=True, metavar="V", help="design speed")
+    p.add_argument("--units", choices=("mph", "kmh"),
+                   help="unit of --speed (default: mph for files in feet, kmh for metres)")
+    p.add_argument("--curbed", action="store_true", help="curbed section: flag drainage on flat curves")
+    p.add_argument("--passing", action="store_true", help="also check passing sight distance on crests")
+    p.add_argument("--criteria", metavar="FILE", help="TOML design controls (see converter/criteria/)")
+    p.add_argument("--emax", type=float, metavar="E",
+                   help="maximum superelevation rate for the minimum-radius check (default 0.08)")
+    p.add_argument("--step", type=float, metavar="D",
+                   help="station step of the sight-distance run (default 10 ft / 5 m)")
+    add_report(p)
+    p.set_defaults(func=run)
+
+
+def run(args: argparse.Namespace) -> int:
+    """Write the review; exit 1 when something fails."""
+    from gradeline import deliverables as dl
+
+    solved = dl.open_alignment(args.file, args.alignment, args.profile, need_profile=True)
+    opts = dl.ReviewOptions(args.speed, args.units, args.curbed, args.passing, args.criteria,
+                            args.emax, args.step, args.json)
+    text, failed = dl.review_report(solved, opts)
+    emit(text, args.output, [args.file])
+    return 1 if failed else 0

@@ -1,0 +1,332 @@
+"""Deliverables: options in, one finished product out (text or bytes).
+
+Each function here makes one deliverable of one solved alignment -- the station
+table, the curve table, the profile and plan DXF, the PDF sheets, the review
+and the cross-check reports -- from a :class:`~gradeline.solved.SolvedAlignment`
+and an options record. The single commands (``gradeline table``, ``dxf`` ...)
+and ``gradeline build`` both call these, so a deliverable is the same bytes
+whichever way it was made. Nothing here writes files or prints; the callers do.
+"""
+
+from __future__ import annotations
+
+import os
+from collections.abc import Mapping, Sequence
+from dataclasses import dataclass, field
+from typing import TYPE_CHECKING, Any
+
+from gradeline.errors import GradelineError, UsageError
+from gradeline.model import Document
+from gradeline.solved import SolvedAlignment, solve, with_surface
+
+if TYPE_CHECKING:
+    from gradeline.analysis.check import Finding, Tolerances
+    from gradeline.present.layout import DraftingLayout
+    from gradeline.sheets.pdf import SheetOptions
+
+__all__ = [
+    "SHEET_KEYS",
+    "CheckOptions",
+    "DrawingOptions",
+    "ReviewOptions",
+    "TableOptions",
+    "attach_ground",
+    "check_sheet_config",
+    "check_findings",
+    "check_report",
+    "curve_table",
+    "open_alignment",
+    "plan_dxf",
+    "plan_warnings",
+    "profile_dxf",
+    "review_report",
+    "sheet_options",
+    "sheets_pdf",
+    "station_table",
+]
+
+
+# --------------------------------------------------------------------------- input
+def open_alignment(
+    source: str | os.PathLike[str] | Document,
+    alignment: str | None = None,
+    profile: str | None = None,
+    *,
+    need_profile: bool = False,
+) -> SolvedAlignment:
+    """Read a LandXML file (unless given a document) and solve one alignment."""
+    from gradeline.io import landxml
+
+    doc = source if isinstance(source, Document) else landxml.read(source)
+    return solve(doc, alignment, profile, need_profile=need_profile)
+
+
+def attach_ground(
+    solved: SolvedAlignment, ground: str | os.PathLike[str] | None, surface: str | None
+) -> tuple[SolvedAlignment, list[GradelineError]]:
+    """Sample a TIN surface of ``ground`` (default: the alignment's own file).
+
+    Returns the alignment with its new ground and the warnings to show (faces
+    of zero area that were dropped).
+    """
+    from gradeline.io.surface_reader import read_surface
+
+    path = os.fspath(ground) if ground is not None else solved.document.path
+    surf = read_surface(path, surface)
+    warnings: list[GradelineError] = []
+    if surf.skipped_faces:
+        warnings.append(GradelineError(f"{surf.skipped_faces} zero-area faces of surface "
+                                       f"{surf.name!r} were ignored", surf.source, "F"))
+    return with_surface(solved, surf), warnings
+
+
+def plan_warnings(solved: SolvedAlignment) -> list[GradelineError]:
+    """Plan-geometry findings (gaps, kinks) as warnings: they do not stop a deliverable."""
+    if solved.horizontal is None:
+        return []
+    out = []
+    for f in solved.horizontal.findings:
+        element = next((g.element for g in solved.horizontal.elements if g.index == f.index), "")
+        out.append(GradelineError(f.message, f.source, element))
+    return out
+
+
+# --------------------------------------------------------------------------- tables
+@dataclass(frozen=True, slots=True)
+class TableOptions:
+    """Rows every ``interval`` plus key points, or exactly at the ``at`` station labels."""
+
+    interval: float | None = None
+    at: tuple[str, ...] | None = None
+    format: str = "csv"
+
+
+def _payload(solved: SolvedAlignment, columns: Sequence[str],
+             rows: list[dict[str, Any]]) -> dict[str, Any]:
+    units = solved.document.units
+    return {
+        "file": solved.document.path,
+        "alignment": solved.alignment.name,
+        "profile": solved.profile.name if solved.profile else None,
+        "linear_unit": units.linear,
+        "angular_unit": units.angular,
+        "direction_unit": units.direction,
+        "direction_convention": solved.horizontal.convention if solved.horizontal else None,
+        "columns": list(columns),
+        "rows": [{c: r.get(c) for c in columns} for r in rows],
+    }
+
+
+def _render(solved: SolvedAlignment, fmt: str, columns: Sequence[str],
+            rows: list[dict[str, Any]]) -> str:
+    from gradeline.render.outputs import csv_text, json_text
+
+    if fmt == "json":
+        return json_text(_payload(solved, columns, rows))
+    return csv_text(rows, columns)
+
+
+def station_table(solved: SolvedAlignment, opts: TableOptions) -> str:
+    """The station/elevation table (with ground columns when a surface is attached)."""
+    from gradeline.present import tables
+
+    if opts.at is not None:
+        texts = [t for t in opts.at if t.strip()]
+        if not texts:
+            raise UsageError("--at needs at least one station")
+        at = [solved.stationing.internal_of(t, solved.start, solved.end) for t in texts]
+        stations, tags = tables.table_stations(solved, at=at)
+    else:
+        interval = opts.interval or solved.document.units.defaults.table_interval
+        stations, tags = tables.table_stations(solved, interval=interval)
+    rows = tables.station_rows(solved, stations, tags)
+    columns = tables.STATION_COLUMNS
+    if solved.surface is not None:
+        columns = tables.add_ground_columns(solved, stations, rows)
+    return _render(solved, opts.format, columns, rows)
+
+
+def curve_table(solved: SolvedAlignment, fmt: str = "csv") -> str:
+    """Horizontal then vertical curve data, one row a curve."""
+    from gradeline.present import tables
+
+    return _render(solved, fmt, tables.CURVE_COLUMNS, tables.curve_rows(solved))
+
+
+# --------------------------------------------------------------------------- drawings
+@dataclass(frozen=True)
+class DrawingOptions:
+    """How the DXF drawings are drafted."""
+
+    scale: float | None = None
+    exaggeration: float = 10.0
+    curves: str = "spline"
+    version: str = "R2010"
+    layers: Mapping[str, str] = field(default_factory=dict)
+
+    def layout(self, solved: SolvedAlignment) -> DraftingLayout:
+        """The drafting layout for the alignment's units."""
+        from gradeline.present.layout import default_layout
+
+        lay = default_layout(solved.document.units, self.scale, self.exaggeration)
+        return lay.with_layers(dict(self.layers))
+
+
+def profile_dxf(solved: SolvedAlignment, opts: DrawingOptions) -> bytes:
+    """The profile drawing (needs a profile)."""
+    from gradeline.present import drafting
+    from gradeline.render.dxf import write_dxf
+
+    lay = opts.layout(solved)
+    drawing = drafting.profile_drawing(solved, lay, opts.curves)
+    return write_dxf(drawing, lay, version=opts.version, curves=opts.curves,
+                     linear_unit=solved.document.units.linear)
+
+
+def plan_dxf(solved: SolvedAlignment, opts: DrawingOptions) -> bytes:
+    """The plan drawing (needs plan geometry)."""
+    from gradeline.present import drafting
+    from gradeline.render.dxf import write_dxf
+
+    if solved.horizontal is None:
+        raise UsageError(f"alignment {solved.alignment.name!r} has no CoordGeom; no plan to draw")
+    lay = opts.layout(solved)
+    drawing = drafting.plan_drawing(solved, lay)
+    return write_dxf(drawing, lay, version=opts.version, curves=opts.curves,
+                     linear_unit=solved.document.units.linear)
+
+
+# --------------------------------------------------------------------------- sheets
+#: Keys of the ``[sheet]`` table of a configuration file.
+SHEET_KEYS = frozenset({"project", "date", "drawn_by", "size", "scale", "exaggeration",
+                        "interval", "sheet_prefix"})
+
+
+def check_sheet_config(config: Mapping[str, Any], config_name: str = "config") -> None:
+    """Refuse unknown keys in a ``[sheet]`` table (typos would be ignored silently)."""
+    unknown = sorted(set(config) - SHEET_KEYS)
+    if unknown:
+        raise UsageError(f"{config_name}: unknown [sheet] key {unknown[0]!r}; keys: "
+                         + ", ".join(sorted(SHEET_KEYS)))
+
+
+def sheet_options(solved: SolvedAlignment, config: Mapping[str, Any] | None = None,
+                  overrides: Mapping[str, Any] | None = None,
+                  config_name: str = "config") -> SheetOptions:
+    """Sheet options: ``overrides`` (command-line values, None = not given) over the
+    ``[sheet]`` table of a configuration over the unit defaults."""
+    from gradeline.sheets.layout import PAPER_SIZES
+    from gradeline.sheets.pdf import SheetOptions
+
+    cfg = dict(config or {})
+    given = {k: v for k, v in (overrides or {}).items() if v is not None}
+    check_sheet_config(cfg, config_name)
+    size = given.get("size") or cfg.get("size") or solved.document.units.defaults.sheet_size
+    if size not in PAPER_SIZES:
+        raise UsageError(f"unknown sheet size {size!r}; choose one of " + ", ".join(PAPER_SIZES))
+
+    def num(name: str, default: float | None) -> float | None:
+        value = given.get(name, cfg.get(name, default))
+        if value is not None and not isinstance(value, (int, float)):
+            raise UsageError(f"{config_name}: [sheet] {name} must be a number")
+        return None if value is None else float(value)
+
+    return SheetOptions(
+        size=size,
+        scale=num("scale", None),
+        exaggeration=num("exaggeration", 10.0) or 10.0,
+        interval=num("interval", None),
+        project=str(cfg.get("project", "")),
+        date=str(cfg.get("date", "")),
+        drawn_by=str(cfg.get("drawn_by", "")),
+        sheet_prefix=str(cfg.get("sheet_prefix", "")),
+    )
+
+
+def sheets_pdf(solved: SolvedAlignment, opts: SheetOptions) -> bytes:
+    """Plan-and-profile sheets, then the curve and station tables (needs a profile)."""
+    from gradeline.sheets.pdf import render_sheets
+
+    return render_sheets(solved, opts)
+
+
+# --------------------------------------------------------------------------- review
+@dataclass(frozen=True, slots=True)
+class ReviewOptions:
+    """Design speed and controls of a review."""
+
+    speed: float
+    speed_unit: str | None = None  # default: the criteria's (mph for feet, km/h for metres)
+    curbed: bool = False
+    passing: bool = False
+    criteria: str | None = None
+    e_max: float | None = None
+    step: float | None = None
+    json: bool = False
+
+
+def review_report(solved: SolvedAlignment, opts: ReviewOptions) -> tuple[str, bool]:
+    """The review report (text or JSON) and whether anything fails (needs a profile)."""
+    from gradeline.analysis import review
+    from gradeline.render.outputs import json_text
+    from gradeline.render.reports import review_payload, review_text
+
+    assert solved.geometry is not None
+    units = solved.document.units
+    crit = review.load_criteria(opts.criteria, units.metric)
+    speed = opts.speed
+    given = opts.speed_unit or crit.speed_unit
+    if given != crit.speed_unit:  # the file's units decide the controls; convert the speed
+        speed = speed * review.MPH_TO_KMH if given == "mph" else speed / review.MPH_TO_KMH
+    rev = review.review_profile(solved.geometry, crit, speed, curbed=opts.curbed,
+                                passing=opts.passing, step=opts.step, length_unit=units.symbol,
+                                horizontal_curves=solved.curves, e_max=opts.e_max)
+    text = json_text(review_payload(solved, rev)) if opts.json else review_text(solved, rev)
+    return text, rev.failed
+
+
+# --------------------------------------------------------------------------- check
+@dataclass(frozen=True, slots=True)
+class CheckOptions:
+    """Tolerances of the cross-check: file units, and seconds of arc."""
+
+    tolerance: float = 0.01
+    angle_tolerance_sec: float = 2.0
+    json: bool = False
+
+    def tolerances(self) -> Tolerances:
+        """The tolerances as the check module takes them."""
+        import math
+
+        from gradeline.analysis.check import Tolerances
+
+        if self.tolerance <= 0 or self.angle_tolerance_sec <= 0:
+            raise UsageError("tolerances must be positive")
+        return Tolerances(self.tolerance, math.radians(self.angle_tolerance_sec / 3600.0))
+
+
+def check_findings(target: SolvedAlignment | Document, tol: Tolerances,
+                   alignment: str | None = None) -> list[Finding]:
+    """Findings of one solved alignment, or of a document's chosen (or every) alignment."""
+    from gradeline.analysis import check
+
+    if isinstance(target, SolvedAlignment):
+        return check.check_alignment(target, tol)
+    return check.check_document(target, alignment, tol)
+
+
+def check_report(doc: Document, findings: list[Finding], tol: Tolerances, opts: CheckOptions,
+                 drawing: Any = None, drawing_name: str = "", layer: str = "",
+                 stationing: Any = None) -> tuple[str, bool]:
+    """The cross-check report (text or JSON) and whether anything is over tolerance."""
+    from gradeline.render.outputs import json_text
+    from gradeline.render.reports import check_payload, check_text
+
+    if opts.json:
+        text = json_text(check_payload(doc, findings, drawing, tol, drawing_name, layer))
+    else:
+        text = check_text(doc, findings, drawing, tol, drawing_name, layer, stationing)
+    over = any(f.verdict == "over" for f in findings) or (
+        drawing is not None and bool(drawing.over or drawing.uncovered))
+    return text, over
+

@@ -1,0 +1,1 @@
+"""Exact geometry over numpy arrays: stations, vertical and horizontal alignment, ground."""

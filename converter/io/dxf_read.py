@@ -1,0 +1,90 @@
+"""DXF reader: linework and the stored profile mapping of a drawing (ezdxf).
+"""
+
+from __future__ import annotations
+
+import contextlib
+
+import ezdxf
+import numpy as np
+from ezdxf.document import Drawing as DxfDocument
+from gradeline.render.dxf import META_PREFIX
+
+__all__ = ["LINEWORK_TYPES", "layer_names", "read_drawing", "read_linework", "read_mapping"]
+
+
+def read_mapping(doc: DxfDocument) -> dict[str, str]:
+    """The gradeline mapping values stored in a DXF document (empty if none)."""
+    out: dict[str, str] = {}
+    with contextlib.suppress(Exception):
+        md = doc.ezdxf_metadata()
+        for key in ("KIND", "EXAGGERATION", "DATUM", "ALIGNMENT", "PROFILE", "LINEAR_UNIT"):
+            full = META_PREFIX + key
+            if full in md:
+                out[key.lower()] = md[full]
+    if not out and doc.dxfversion >= "AC1018":
+        for tag, value in doc.header.custom_vars:
+            if tag.startswith(META_PREFIX):
+                out[tag[len(META_PREFIX):].lower()] = value
+    return out
+
+
+LINEWORK_TYPES = ("LINE", "LWPOLYLINE", "POLYLINE", "SPLINE", "ARC")
+
+
+def read_drawing(path: str):
+    """Open a DXF file for reading; bad files become :class:`InputError`."""
+    from gradeline.errors import InputError
+    from gradeline.model import SourceRef
+
+    try:
+        return ezdxf.readfile(path)
+    except OSError as err:
+        raise InputError(f"cannot read the file ({err.strerror or err})", SourceRef(path), "DXF") from None
+    except ezdxf.DXFStructureError as err:
+        raise InputError(f"not a valid DXF file ({err})", SourceRef(path), "DXF") from None
+    except Exception as err:  # ezdxf raises many kinds on damaged files
+        raise InputError(f"not a readable DXF file ({type(err).__name__}: {err})",
+                         SourceRef(path), "DXF") from None
+
+
+def read_linework(doc: DxfDocument, layer: str, tolerance: float) -> list[np.ndarray]:
+    """Every LINE, LWPOLYLINE, POLYLINE, SPLINE and ARC on ``layer`` as (n, 2) point arrays.
+
+    Curved parts (splines, arcs, polyline bulges) are flattened so no point of the
+    drawn curve is farther than ``tolerance`` from the returned polyline; straight
+    parts keep their vertices exactly.
+    """
+    from ezdxf import path as ezpath
+
+    out: list[np.ndarray] = []
+    query = " ".join(LINEWORK_TYPES)
+    for e in doc.modelspace().query(query):
+        if e.dxf.layer.upper() != layer.upper():
+            continue
+        kind = e.dxftype()
+        try:
+            if kind == "LINE":
+                pts = [e.dxf.start, e.dxf.end]
+            elif kind == "SPLINE":  # on the B-spline itself: ezdxf's path form approximates it
+                pts = list(e.construction_tool().flattening(tolerance))
+            elif kind == "ARC":
+                pts = list(e.construction_tool().flattening(tolerance))
+            elif kind == "LWPOLYLINE" and not any(b for *_, b in e.get_points("xyb")):
+                pts = [(x, y) for x, y in e.get_points("xy")]
+            elif kind == "POLYLINE" and not any(v.dxf.bulge for v in e.vertices):
+                pts = [v.dxf.location for v in e.vertices]
+            else:  # polylines with bulges: flatten their arcs
+                pts = list(ezpath.make_path(e).flattening(distance=tolerance))
+        except Exception:  # noqa: BLE001 - an entity ezdxf cannot evaluate
+            continue
+        arr = np.array([(p[0], p[1]) for p in pts], dtype=np.float64)
+        if len(arr) >= 2:
+            out.append(arr)
+    return out
+
+
+def layer_names(doc: DxfDocument) -> list[str]:
+    """Names of the layers that hold linework."""
+    names = {e.dxf.layer for e in doc.modelspace().query(" ".join(LINEWORK_TYPES))}
+    return sorted(names)

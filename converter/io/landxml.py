@@ -1,0 +1,458 @@
+"""LandXML reader: the only module that touches XML.
+
+The parser is strict and safe: no DTD is loaded, no entity is expanded, no
+network is used, and a document that declares a DOCTYPE is refused outright
+(LandXML needs none). Element names are matched by local name, so LandXML
+1.0, 1.1, 1.2 and national extensions that keep the names all read alike.
+The encoding the XML declaration names is honoured (the bytes go to lxml).
+"""
+
+from __future__ import annotations
+
+import math
+import os
+from collections.abc import Iterator
+
+from gradeline.errors import InputError, ModelError
+from gradeline.model import (
+    Alignment,
+    Document,
+    GroundPiece,
+    GroundProfile,
+    HCurve,
+    HElement,
+    HIrregular,
+    HLine,
+    HorizontalAlignment,
+    HSpiral,
+    Profile,
+    PVISpec,
+    SourceRef,
+    StationEquation,
+)
+from gradeline.model.units import ANGLE_UNITS, LINEAR_UNITS, Units
+from lxml import etree
+
+__all__ = ["parse_bytes", "read"]
+
+
+#: Largest file gradeline reads at all (bytes).
+MAX_DOCUMENT_BYTES = 4 * 1024 * 1024 * 1024
+
+#: Files at least this large are parsed streaming, dropping TIN points and faces.
+STREAM_FROM = 16 * 1024 * 1024
+
+
+def _parser() -> etree.XMLParser:
+    return etree.XMLParser(
+        resolve_entities=False,
+        no_network=True,
+        load_dtd=False,
+        dtd_validation=False,
+        huge_tree=False,
+        collect_ids=False,
+    )
+
+
+def _local(el: etree._Element) -> str:
+    tag = el.tag
+    if not isinstance(tag, str):
+        return ""
+    return tag.rpartition("}")[2]
+
+
+def _children(el: etree._Element, name: str) -> Iterator[etree._Element]:
+    for child in el:
+        if _local(child) == name:
+            yield child
+
+
+def _child(el: etree._Element, name: str) -> etree._Element | None:
+    return next(_children(el, name), None)
+
+
+class _Reader:
+    def __init__(self, path: str) -> None:
+        self.path = path
+
+    def src(self, el: etree._Element) -> SourceRef:
+        return SourceRef(self.path, el.sourceline)
+
+    def fail(self, el: etree._Element, message: str) -> InputError:
+        return InputError(message, self.src(el), _local(el))
+
+    def number(self, el: etree._Element, text: str, what: str) -> float:
+        try:
+            value = float(text)
+        except ValueError:
+            raise self.fail(el, f"{what} {text!r} is not a number") from None
+        if not math.isfinite(value):
+            raise self.fail(el, f"{what} must be a finite number, got {text!r}")
+        if abs(value) > 1e12:
+            raise self.fail(el, f"{what} {text!r} is not a plausible survey value")
+        return value
+
+    def attr(self, el: etree._Element, name: str, default: float | None = None) -> float | None:
+        raw = el.get(name)
+        if raw is None or raw.strip() == "":
+            return default
+        return self.number(el, raw.strip(), name)
+
+    def required(self, el: etree._Element, name: str) -> float:
+        value = self.attr(el, name)
+        if value is None:
+            raise self.fail(el, f"missing required attribute {name!r}")
+        return value
+
+    def numbers(self, el: etree._Element, what: str) -> list[float]:
+        text = (el.text or "").replace(",", " ")
+        return [self.number(el, tok, what) for tok in text.split()]
+
+    # -- document ---------------------------------------------------------
+    def document(self, root: etree._Element) -> Document:
+        if _local(root) != "LandXML":
+            raise self.fail(root, "the root element is not LandXML; is this a LandXML file?")
+        units = self.units(root)
+        project_el = _child(root, "Project")
+        project = project_el.get("name", "") if project_el is not None else ""
+        alignments: list[Alignment] = []
+        seen: dict[str, int] = {}
+        for group in _children(root, "Alignments"):
+            for al_el in _children(group, "Alignment"):
+                al = self.alignment(al_el)
+                if al.name in seen:
+                    raise self.fail(
+                        al_el,
+                        f"alignment name {al.name!r} is used twice (first at line "
+                        f"{seen[al.name]}); names must be unique",
+                    )
+                seen[al.name] = al_el.sourceline or 0
+                alignments.append(al)
+        groups = list(_children(root, "Alignments"))
+        where = SourceRef(self.path, (groups[0] if groups else root).sourceline)
+        return Document(self.path, units, tuple(alignments), project, where)
+
+    def units(self, root: etree._Element) -> Units:
+        units_el = _child(root, "Units")
+        if units_el is None:
+            raise self.fail(
+                root, "no Units element; gradeline cannot tell feet from metres without it"
+            )
+        system = _child(units_el, "Imperial")
+        if system is None:
+            system = _child(units_el, "Metric")
+        if system is None:
+            raise self.fail(units_el, "Units needs an Imperial or a Metric child")
+        linear = system.get("linearUnit")
+        if linear is None:
+            raise self.fail(system, "missing required attribute 'linearUnit'")
+        if linear not in LINEAR_UNITS:
+            raise self.fail(
+                system,
+                f"linearUnit {linear!r} is not supported; use one of " + ", ".join(LINEAR_UNITS),
+            )
+        angular = system.get("angularUnit", "decimal degrees")
+        direction = system.get("directionUnit", "decimal degrees")
+        for name, value in (("angularUnit", angular), ("directionUnit", direction)):
+            if value not in ANGLE_UNITS:
+                raise self.fail(
+                    system,
+                    f"{name} {value!r} is not supported; use one of " + ", ".join(ANGLE_UNITS),
+                )
+        return Units(linear, angular, direction)
+
+    def alignment(self, el: etree._Element) -> Alignment:
+        name = el.get("name")
+        if not name:
+            raise self.fail(el, "missing required attribute 'name'")
+        sta_start = self.attr(el, "staStart", 0.0)
+        length = self.attr(el, "length")
+        equations = tuple(
+            sorted(
+                (
+                    StationEquation(
+                        back=self.required(eq, "staBack"),
+                        ahead=self.required(eq, "staAhead"),
+                        internal=self.required(eq, "staInternal"),
+                        source=self.src(eq),
+                    )
+                    for eq in _children(el, "StaEquation")
+                ),
+                key=lambda e: e.internal,
+            )
+        )
+        coord = _child(el, "CoordGeom")
+        horizontal = self.coord_geom(coord) if coord is not None else None
+        profiles: list[Profile] = []
+        grounds: list[GroundProfile] = []
+        for prof_el in _children(el, "Profile"):
+            prof_name = prof_el.get("name") or name
+            for pa in _children(prof_el, "ProfAlign"):
+                profiles.append(self.prof_align(pa, pa.get("name") or prof_name))
+            for ps in _children(prof_el, "ProfSurf"):
+                grounds.append(self.prof_surf(ps, ps.get("name") or prof_name))
+        names = [p.name for p in profiles]
+        for i, p in enumerate(profiles):
+            if p.name in names[:i]:
+                profiles[i] = Profile(f"{p.name} ({names[:i].count(p.name) + 1})", p.pvis, p.source)
+        return Alignment(
+            name=name,
+            sta_start=float(sta_start or 0.0),
+            length=length,
+            description=el.get("desc", ""),
+            profiles=tuple(profiles),
+            grounds=tuple(grounds),
+            equations=equations,
+            horizontal=horizontal,
+            source=self.src(el),
+        )
+
+    # -- horizontal geometry ------------------------------------------------
+    _STATED = {
+        "Line": ("staStart", "length", "dir"),
+        "Curve": ("staStart", "length", "radius", "chord", "delta", "dirStart", "dirEnd",
+                  "external", "midOrd", "tangent"),
+        "Spiral": ("staStart", "length", "radiusStart", "radiusEnd", "theta", "totalX",
+                   "totalY", "tanLong", "tanShort", "dirStart", "dirEnd", "constant"),
+        "IrregularLine": ("staStart", "length", "dir"),
+    }
+
+    def point(self, el: etree._Element, name: str, required: bool = True):
+        p = _child(el, name)
+        if p is None:
+            if required:
+                raise self.fail(el, f"missing required {name} point")
+            return None
+        values = self.numbers(p, f"{name} coordinate")
+        if len(values) not in (2, 3):
+            raise self.fail(p, f"expected 'northing easting [elevation]', found {len(values)} values")
+        return (values[0], values[1])
+
+    def stated(self, el: etree._Element, kind: str) -> tuple[tuple[str, float], ...]:
+        out = []
+        for name in self._STATED[kind]:
+            raw = el.get(name)
+            if raw is None or raw.strip() == "":
+                continue
+            if name in ("radiusStart", "radiusEnd") and raw.strip().upper() in ("INF", "INFINITY"):
+                out.append((name, math.inf))
+                continue
+            out.append((name, self.number(el, raw.strip(), name)))
+        return tuple(out)
+
+    def radius_attr(self, el: etree._Element, name: str) -> float:
+        raw = el.get(name)
+        if raw is None or raw.strip() == "":
+            raise self.fail(el, f"missing required attribute {name!r} (use INF for a tangent end)")
+        if raw.strip().upper() in ("INF", "INFINITY"):
+            return math.inf
+        value = self.number(el, raw.strip(), name)
+        if value <= 0:
+            raise self.fail(el, f"{name} must be positive or INF, got {raw.strip()!r}")
+        return value
+
+    def coord_geom(self, el: etree._Element) -> HorizontalAlignment | None:
+        elements: list[HElement] = []
+        for child in el:
+            kind = _local(child)
+            src = self.src(child)
+            if kind == "Line":
+                elements.append(HLine(self.point(child, "Start"), self.point(child, "End"),
+                                      self.stated(child, kind), src))
+            elif kind == "Curve":
+                rot = child.get("rot")
+                elements.append(HCurve(
+                    self.point(child, "Start"), self.point(child, "Center"),
+                    self.point(child, "End"), rot, self.point(child, "PI", required=False),
+                    self.stated(child, kind), src))
+            elif kind == "Spiral":
+                rot = child.get("rot")
+                if rot is None:
+                    raise self.fail(child, "missing required attribute 'rot' (cw or ccw)")
+                spi_type = child.get("spiType", "clothoid")
+                length = self.required(child, "length")
+                elements.append(HSpiral(
+                    self.point(child, "Start"), self.point(child, "End"), length,
+                    self.radius_attr(child, "radiusStart"), self.radius_attr(child, "radiusEnd"),
+                    rot, spi_type, self.point(child, "PI", required=False),
+                    self.stated(child, kind), src))
+            elif kind == "IrregularLine":
+                pl = _child(child, "PntList2D")
+                values = self.numbers(pl, "point coordinate") if pl is not None else []
+                if len(values) % 2:
+                    raise self.fail(pl, "expected northing/easting pairs, found an odd count")
+                pts = list(zip(values[0::2], values[1::2], strict=True))
+                if not pts:
+                    start, end = self.point(child, "Start"), self.point(child, "End")
+                    pts = [start, end]
+                elements.append(HIrregular(tuple(pts), self.stated(child, kind), src))
+        if not elements:
+            return None
+        return HorizontalAlignment(tuple(elements), self.src(el))
+
+    def prof_align(self, el: etree._Element, name: str) -> Profile:
+        specs: list[PVISpec] = []
+        for child in el:
+            kind_name = _local(child)
+            if kind_name not in ("PVI", "ParaCurve", "UnsymParaCurve", "CircCurve"):
+                continue
+            values = self.numbers(child, "station/elevation value")
+            if len(values) != 2:
+                raise self.fail(
+                    child,
+                    f"expected 'station elevation' (two numbers), found {len(values)} values",
+                )
+            station, elev = values
+            src = self.src(child)
+            if kind_name == "PVI":
+                spec = PVISpec(station, elev, "none", source=src)
+            elif kind_name == "ParaCurve":
+                length = self.required(child, "length")
+                spec = PVISpec(station, elev, "parabolic", length / 2.0, length / 2.0, source=src)
+            elif kind_name == "UnsymParaCurve":
+                spec = PVISpec(
+                    station,
+                    elev,
+                    "unsymmetric",
+                    self.required(child, "lengthIn"),
+                    self.required(child, "lengthOut"),
+                    source=src,
+                )
+            else:
+                radius = self.attr(child, "radius")
+                arc = self.attr(child, "length")
+                if radius is None and arc is None:
+                    raise self.fail(child, "a CircCurve needs a 'radius' or a 'length' attribute")
+                spec = PVISpec(
+                    station, elev, "circular", radius=radius, arc_length=arc, source=src
+                )
+            specs.append(spec)
+        return Profile(name, tuple(specs), self.src(el))
+
+    def prof_surf(self, el: etree._Element, name: str) -> GroundProfile:
+        pieces = []
+        for pl in _children(el, "PntList2D"):
+            values = self.numbers(pl, "ground value")
+            if len(values) % 2:
+                raise self.fail(pl, "expected station/elevation pairs, found an odd count")
+            pieces.append(
+                GroundPiece(tuple(values[0::2]), tuple(values[1::2]), self.src(pl))
+            )
+        return GroundProfile(name, tuple(p for p in pieces if p.stations), self.src(el))
+
+
+def _syntax_error(err: etree.XMLSyntaxError, path: str) -> InputError:
+    line = err.lineno if err.lineno else 1
+    msg = (err.msg or "not well-formed").splitlines()[0]
+    msg = msg.split(", line ")[0]  # libxml2 appends the position; keep the reason only
+    return InputError(
+        f"not well-formed ({msg}); the file may be truncated or not XML at all",
+        SourceRef(path, line),
+        "XML",
+    )
+
+
+def _document_from_root(root: etree._Element, path: str) -> Document:
+    src = SourceRef(path, None)
+    tree = root.getroottree()
+    if tree.docinfo.doctype or tree.docinfo.internalDTD is not None:
+        raise InputError(
+            "DOCTYPE declarations are not accepted (LandXML needs none; they can "
+            "hide entity expansion or external file access)",
+            SourceRef(path, 1),
+            "DOCTYPE",
+        )
+    reader = _Reader(path)
+    try:
+        return reader.document(root)
+    except InputError:
+        raise
+    except ModelError as err:
+        raise InputError(err.message, err.source or src, err.element) from None
+
+
+def parse_bytes(data: bytes, path: str = "<input>") -> Document:
+    """Parse LandXML from bytes.
+
+    Parameters
+    ----------
+    data : bytes
+        The file's bytes; the XML declaration's encoding is honoured.
+    path : str
+        Name used in error messages.
+
+    Raises
+    ------
+    InputError
+        Not XML, not LandXML, a DOCTYPE, or values that break the model.
+    """
+    src = SourceRef(path, 1)
+    if not data.strip():
+        raise InputError("the file is empty", src, "LandXML")
+    try:
+        root = etree.fromstring(data, _parser())
+    except etree.XMLSyntaxError as err:
+        raise _syntax_error(err, path) from None
+    except (ValueError, LookupError) as err:  # e.g. unknown encoding names
+        raise InputError(f"cannot decode the file: {err}", src, "XML") from None
+    return _document_from_root(root, path)
+
+
+def _parse_streaming(path: str) -> Document:
+    """Parse a file with iterparse, dropping TIN points and faces as they are read.
+
+    Alignments are small; surfaces can be hundreds of MB. Clearing every ``P``
+    and ``F`` element as soon as it ends keeps the tree small; surfaces are read
+    separately by :func:`read_surface`.
+    """
+    context = etree.iterparse(
+        path, events=("end",), tag=("{*}P", "{*}F"), resolve_entities=False,
+        no_network=True, load_dtd=False, huge_tree=False, collect_ids=False,
+    )
+    try:
+        for _, el in context:
+            el.clear(keep_tail=False)
+            parent = el.getparent()
+            if parent is not None:
+                while el.getprevious() is not None:
+                    del parent[0]
+        root = context.root
+    except etree.XMLSyntaxError as err:
+        raise _syntax_error(err, path) from None
+    return _document_from_root(root, path)
+
+
+def read(path: str | os.PathLike[str]) -> Document:
+    """Read a LandXML file from disk.
+
+    Raises
+    ------
+    InputError
+        The file is missing, unreadable, too large or not valid LandXML.
+    """
+    name = os.fspath(path)
+    src = SourceRef(name, 1)
+    try:
+        size = os.path.getsize(name)
+        if size > MAX_DOCUMENT_BYTES:
+            raise InputError(
+                f"file is {size / 2**20:.0f} MiB; the document reader takes at most "
+                f"{MAX_DOCUMENT_BYTES // 2**20} MiB",
+                src,
+                "LandXML",
+            )
+        with open(name, "rb") as fh:
+            head = fh.read(STREAM_FROM)
+    except IsADirectoryError:
+        raise InputError("is a folder, not a LandXML file", src, "LandXML") from None
+    except OSError as err:
+        raise InputError(f"cannot read the file ({err.strerror})", src, "LandXML") from None
+    if size < STREAM_FROM:
+        return parse_bytes(head, name)
+    try:
+        return _parse_streaming(name)
+    except OSError as err:
+        raise InputError(f"cannot read the file ({err.strerror or err})", src, "LandXML") from None
+
+
+# --------------------------------------------------------------------------- surfaces

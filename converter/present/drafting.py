@@ -1,0 +1,466 @@
+"""Drawable data for profile and plan drawings: computed once, drawn by any renderer.
+
+The functions here turn solved geometry into plain records -- paths, exact
+quadratic curves, arcs, circles and text with their boxes -- in model units.
+:mod:`gradeline.render.dxf` writes them to DXF and :mod:`gradeline.sheets.pdf` to PDF; neither
+recomputes geometry or invents label text (that comes from
+:mod:`gradeline.present.labels`).
+
+Profile mapping: ``x = station`` (internal, continuous), ``y = (elevation -
+datum) * exaggeration``; the datum is a round elevation below the lowest drawn
+point. Plan mapping: ``x = easting``, ``y = northing``.
+"""
+
+from __future__ import annotations
+
+import math
+from typing import Any
+
+import numpy as np
+from gradeline.present import labels
+from gradeline.present.items import (
+    ArcItem,
+    Circle,
+    Drawing,
+    Path,
+    QuadCurve,
+    Text,
+    _BoxIndex,
+    boxes_overlap,
+)
+from gradeline.present.layout import DraftingLayout, guard_count
+from gradeline.solved import SolvedAlignment
+
+__all__ = [
+    "ArcItem",
+    "Circle",
+    "Drawing",
+    "Path",
+    "QuadCurve",
+    "Text",
+    "boxes_overlap",
+    "plan_drawing",
+    "profile_drawing",
+]
+
+# --------------------------------------------------------------------------- profile
+def _poly_samples(x0: float, x1: float, c: float, tol: float) -> np.ndarray:
+    """Stations splitting [x0, x1] so a parabola with coefficient c deviates < tol."""
+    if c == 0:
+        return np.array([x0, x1])
+    h = math.sqrt(4.0 * tol / abs(c))
+    n = max(2, math.ceil((x1 - x0) / h) + 1)
+    return np.linspace(x0, x1, n)
+
+
+def _circle_samples(x0: float, x1: float, r: float, tol: float) -> np.ndarray:
+    h = math.sqrt(8.0 * r * tol)
+    n = max(2, math.ceil((x1 - x0) / h) + 1)
+    return np.linspace(x0, x1, n)
+
+
+class _Profile:
+    """Builds a profile :class:`Drawing` step by step, for the whole profile or a window."""
+
+    def __init__(self, ctx: SolvedAlignment, layout: DraftingLayout, curves: str,
+                 window: tuple[float, float] | None, strip: bool) -> None:
+        if ctx.geometry is None:
+            raise ValueError("profile drawing needs a profile")
+        self.ctx = ctx
+        self.geom = ctx.geometry
+        self.lay = layout
+        self.units = ctx.document.units
+        self.curves = curves
+        self.h = layout.text_height
+        self.strip = strip
+        self.items: list[Any] = []
+        g = self.geom
+        if window is None:
+            self.x0 = math.floor(g.start / layout.station_minor) * layout.station_minor
+            self.x1 = math.ceil(g.end / layout.station_minor) * layout.station_minor
+        else:
+            self.x0, self.x1 = float(window[0]), float(window[1])
+        # the part of the profile that is drawn
+        self.s0, self.s1 = max(g.start, self.x0), min(g.end, self.x1)
+        guard_count((self.x1 - self.x0) / layout.station_minor, "profile grid lines")
+
+    def y(self, z):
+        return (np.asarray(z, dtype=float) - self.datum) * self.lay.exaggeration
+
+    def build(self) -> Drawing:
+        g, lay = self.geom, self.lay
+        major_z, minor_z = lay.elevation_steps()
+        self.grounds = []
+        for gr in self.ctx.alignment.grounds:
+            for p in gr.pieces:
+                s, z = np.array(p.stations), np.array(p.elevations)
+                keep = (s > self.x0) & (s < self.x1)
+                lo, hi = max(self.x0, s[0]), min(self.x1, s[-1])
+                if hi <= lo:
+                    continue
+                s2 = np.concatenate([[lo], s[keep], [hi]])
+                z2 = np.interp(s2, s, z)
+                self.grounds.append((s2, z2))
+        drawn = self.s1 > self.s0
+        if drawn:
+            # sample the lines labels must clear at least every text height
+            n = max(501, math.ceil((self.s1 - self.s0) / self.h) + 1)
+            dense = np.linspace(self.s0, self.s1, n)
+            zs = [self.ctx.elevation(dense)]
+            inside = (g.pvi_stations >= self.x0) & (g.pvi_stations <= self.x1)
+            zs.append(g.pvi_elevations[inside])
+        else:
+            dense = np.empty(0)
+            zs = []
+        zs += [z for _, z in self.grounds]
+        zs = [z for z in zs if len(z)]
+        if not zs:
+            zs = [np.array([float(g.pvi_elevations[0])])]
+        zmin = min(float(np.nanmin(z)) for z in zs)
+        self.datum = math.floor(zmin / major_z) * major_z - major_z
+        if drawn:
+            self._grade_line()
+        self._ground()
+        label_top = self._point_labels(dense) if drawn else 0.0
+        zmax = max(float(np.nanmax(z)) for z in zs)
+        top_y = max(label_top + self.h, float(self.y(zmax)) + 4 * self.h)
+        top = self.datum + top_y / lay.exaggeration
+        self.top = math.ceil(top / major_z) * major_z
+        self._grid(major_z, minor_z)
+        bottom = -4 * self.h
+        if self.strip:
+            bottom = self._strip()
+        if drawn:
+            self._grade_labels()
+        bottom = self._info(bottom)
+        ymax = float(self.y(self.top))
+        ext = (self.x0 - 8 * self.h, bottom - self.h, self.x1 + 8 * self.h, ymax + self.h)
+        meta = {
+            "kind": "profile",
+            "exaggeration": lay.exaggeration,
+            "datum": self.datum,
+            "x_is": "internal station",
+            "alignment": self.ctx.alignment.name,
+            "profile": self.ctx.profile.name if self.ctx.profile else "",
+            "linear_unit": self.units.linear,
+        }
+        return Drawing(tuple(self.items), ext, meta)
+
+    # finished grade ---------------------------------------------------------
+    def _grade_line(self) -> None:
+        g, tol = self.geom, self.lay.chord_tolerance
+        ends = np.append(g.starts[1:], g.end)
+        for i in range(len(g.starts)):
+            a, b = max(float(g.starts[i]), self.s0), min(float(ends[i]), self.s1)
+            if b <= a:
+                continue
+            if g.circular[i]:
+                s = _circle_samples(a, b, float(g.r[i]), tol)
+                pts = tuple(zip(s.tolist(), self.y(self.ctx.elevation(s)).tolist(), strict=True))
+                cx, cy, r = float(g.cx[i]), float(g.cy[i]), float(g.r[i])
+                ang = [math.degrees(math.atan2(float(z) - cy, x - cx))
+                       for x, z in ((a, self.ctx.elevation(a)), (b, self.ctx.elevation(b)))]
+                start, end = (ang[0], ang[1]) if g.sign[i] > 0 else (ang[1], ang[0])
+                self.items.append(ArcItem("grade", (cx, float(self.y(cy))), r, start, end, pts))
+            elif g.c[i] != 0.0:
+                (z0, z1), (g0, _) = self.ctx.profile_at([a, b])
+                # the control point of a parabola over [a, b] is where its end tangents meet
+                zc = float(z0) + float(g0) * (b - a) / 2.0
+                ctrl = ((a, float(self.y(z0))), ((a + b) / 2, float(self.y(zc))),
+                        (b, float(self.y(z1))))
+                s = _poly_samples(a, b, float(g.c[i]), tol)
+                pts = tuple(zip(s.tolist(), self.y(self.ctx.elevation(s)).tolist(), strict=True))
+                self.items.append(QuadCurve("grade", ctrl, pts))
+            else:
+                z0, z1 = self.ctx.elevation([a, b])
+                self.items.append(Path("grade", ((a, float(self.y(z0))), (b, float(self.y(z1))))))
+        r = 0.35 * self.h
+        for c in g.curves:
+            if not (self.x0 <= c.pvi_station <= self.x1):
+                continue
+            pvi = (c.pvi_station, float(self.y(c.pvi_elevation)))
+            for s, z in ((c.bvc_station, c.bvc_elevation), (c.evc_station, c.evc_elevation)):
+                s_c = min(max(s, self.x0), self.x1)
+                z_c = c.pvi_elevation + (z - c.pvi_elevation) * (s_c - c.pvi_station) / (s - c.pvi_station)
+                self.items.append(Path("tangents", ((s_c, float(self.y(z_c))), pvi)))
+        for s, z in zip(g.pvi_stations[1:-1], g.pvi_elevations[1:-1], strict=True):
+            if self.x0 <= s <= self.x1:
+                self.items.append(Circle("pvi", (float(s), float(self.y(z))), r))
+
+    def _ground(self) -> None:
+        for s, z in self.grounds:
+            self.items.append(Path("ground", tuple(zip(s.tolist(), self.y(z).tolist(), strict=True))))
+
+    # key-point labels: vertical text in columns, spread so they never touch ----
+    def _point_labels(self, dense: np.ndarray) -> float:
+        g, st, units, h = self.geom, self.ctx.stationing, self.units, self.h
+        wanted = []  # (station, elevation, lines)
+        curve_at = {c.index: c for c in g.curves}
+        for i in range(1, len(g.pvi_stations) - 1):
+            s, z = float(g.pvi_stations[i]), float(g.pvi_elevations[i])
+            c = curve_at.get(i)
+            lines = [labels.point_label("PVI", st.label(s), z, units)]
+            if c is not None:
+                lines.append(labels.curve_label(c.length, c.k, units))
+                wanted.append((c.bvc_station, c.bvc_elevation,
+                               [labels.point_label("BVC", st.label(c.bvc_station), c.bvc_elevation, units)]))
+                wanted.append((c.evc_station, c.evc_elevation,
+                               [labels.point_label("EVC", st.label(c.evc_station), c.evc_elevation, units)]))
+                if c.turning_station is not None:
+                    tag = labels.turning_point_tag(c.curve_type)
+                    wanted.append((c.turning_station, c.turning_elevation,
+                                   [labels.point_label(tag, st.label(c.turning_station),
+                                                       c.turning_elevation, units)]))
+            wanted.append((s, z, lines))
+        wanted = sorted(w for w in wanted if self.x0 <= w[0] <= self.x1)
+        if not wanted:
+            return 0.0
+        pitch = 1.6 * h
+        widths = [len(w[2]) * pitch for w in wanted]
+        xs = [w[0] for w in wanted]
+        # block i reaches from pos - widths[i] + 0.6h (its left column) to pos - 0.25h,
+        # so two blocks keep a 0.6h gap when pos[i] >= pos[i - 1] + widths[i]; a
+        # forward pass pushes right, a backward pass pulls left inside the grid
+        pos = []
+        for i, x in enumerate(xs):
+            pos.append(max(x, self.x0 + widths[i]) if not pos else max(x, pos[-1] + widths[i]))
+        pos[-1] = min(pos[-1], self.x1)
+        for i in range(len(pos) - 2, -1, -1):
+            pos[i] = min(pos[i], pos[i + 1] - widths[i + 1])
+        # lines that labels must clear: finished grade, tangents, ground
+        zs = self.ctx.elevation(dense)
+        tz = self.ctx.tangent_elevation(dense)
+        top_curve = np.fmax(zs, tz)
+        for gs, gz in self.grounds:
+            top_curve = np.fmax(top_curve, np.interp(dense, gs, gz, left=np.nan, right=np.nan))
+        top_y = self.y(top_curve)
+        highest = 0.0
+        for (s, z, lines), x, w in zip(wanted, pos, widths, strict=True):
+            lo, hi = min(s, x) - w, max(s, x) + w
+            win = (dense >= lo) & (dense <= hi)
+            base = float(np.nanmax(top_y[win])) if win.any() else float(self.y(z))
+            base += 2.0 * h
+            anchor = (s, float(self.y(z)))
+            self.items.append(Path("labels", (anchor, (x, base - 0.4 * h))))
+            for j, text in enumerate(lines):
+                # columns sit just left of the leader, so no station line runs through them
+                cx = x - 0.75 * h - (len(lines) - 1 - j) * pitch
+                item = Text("labels", text, cx, base, h, 90.0, "left", "middle")
+                self.items.append(item)
+                highest = max(highest, base + item.width)
+        return highest
+
+    # grid, elevation and station labels ---------------------------------------
+    def _majors(self) -> np.ndarray:
+        return self.ctx.stationing.round_stations(self.lay.station_major, self.x0, self.x1)
+
+    def _grid(self, major_z: float, minor_z: float) -> None:
+        lay, st, h, units = self.lay, self.ctx.stationing, self.h, self.units
+        y_top = float(self.y(self.top))
+        minor = st.round_stations(lay.station_minor, self.x0, self.x1)
+        major = self._majors()
+        is_major = np.isin(minor, major)
+        for x, m in zip(minor.tolist(), is_major.tolist(), strict=True):
+            self.items.append(Path("grid_major" if m else "grid", ((x, 0.0), (x, y_top))))
+        for x in (self.x0, self.x1):
+            if not np.any(np.isclose(minor, x)):
+                self.items.append(Path("grid_major", ((x, 0.0), (x, y_top))))
+        for x in major.tolist():
+            text = labels.grid_station_text(float(st.label_value(x)), units)
+            self.items.append(Text("labels", text, x, -1.2 * h, h, 0.0, "center", "top"))
+        n = round((self.top - self.datum) / minor_z)
+        for k in range(n + 1):
+            z = self.datum + k * minor_z
+            is_maj = abs(z / major_z - round(z / major_z)) < 1e-9
+            y = float(self.y(z))
+            self.items.append(Path("grid_major" if is_maj else "grid", ((self.x0, y), (self.x1, y))))
+            if is_maj:
+                text = labels.grid_elevation_text(z, major_z)
+                self.items.append(Text("labels", text, self.x0 - 0.8 * h, y, h, 0.0, "right", "middle"))
+                self.items.append(Text("labels", text, self.x1 + 0.8 * h, y, h, 0.0, "left", "middle"))
+
+    def _strip(self) -> float:
+        """Existing-ground and finished-grade elevations at each labelled station."""
+        h, units = self.h, self.units
+        major = self._majors()
+        fg = self.ctx.elevation(major)
+        eg = np.full(len(major), np.nan)
+        for s, z in self.grounds:
+            inside = (major >= s[0]) & (major <= s[-1])
+            eg[inside] = np.interp(major[inside], s, z)
+        width = labels.text_width("0" * 7, h)
+        rows = [("FINISHED GRADE", fg, -2.6 * h), ("EXISTING GROUND", eg, -3.4 * h - width)]
+        for title, values, top in rows:
+            self.items.append(Text("labels", title, self.x0 - 0.8 * h, top - width / 2, h,
+                                   0.0, "right", "middle"))
+            for x, z in zip(major.tolist(), values.tolist(), strict=True):
+                if math.isfinite(z):
+                    self.items.append(Text("labels", labels.elevation_text(z, units), x + 0.5 * h,
+                                           top, h, 90.0, "right", "middle"))
+        bottom = -3.4 * h - 2 * width
+        self.items.append(Path("grid", ((self.x0, -2.2 * h), (self.x1, -2.2 * h))))
+        self.items.append(Path("grid", ((self.x0, -3.0 * h - width), (self.x1, -3.0 * h - width))))
+        self.items.append(Path("grid", ((self.x0, bottom - 0.4 * h), (self.x1, bottom - 0.4 * h))))
+        return bottom - 0.4 * h
+
+    def _grade_labels(self) -> None:
+        g, h, exag = self.geom, self.h, self.lay.exaggeration
+        taken = _BoxIndex([t.corners() for t in self.items if isinstance(t, Text)])
+        for i in range(len(g.pvi_stations) - 1):
+            s0, s1 = float(g.pvi_stations[i]), float(g.pvi_stations[i + 1])
+            z0, z1 = float(g.pvi_elevations[i]), float(g.pvi_elevations[i + 1])
+            grade = (z1 - z0) / (s1 - s0)
+            v0, v1 = max(s0, self.x0), min(s1, self.x1)  # visible part
+            if v1 <= v0:
+                continue
+            angle = math.degrees(math.atan(grade * exag))
+            text = labels.grade_text(grade)
+            for frac, side in ((0.5, 1), (0.35, 1), (0.65, 1), (0.5, -1), (0.25, 1), (0.75, 1),
+                               (0.35, -1), (0.65, -1)):
+                s = v0 + frac * (v1 - v0)
+                z = z0 + grade * (s - s0)
+                a = math.radians(angle)
+                off = side * 0.6 * h
+                x, y = s - off * math.sin(a), float(self.y(z)) + off * math.cos(a)
+                item = Text("labels", text, x, y, h, angle, "center", "bottom" if side > 0 else "top")
+                box = item.corners()
+                if box[:, 0].min() < v0 or box[:, 0].max() > v1:
+                    continue
+                if not taken.hits(box, 0.2 * h):
+                    self.items.append(item)
+                    taken.add(box)
+                    break
+
+    def _info(self, bottom: float) -> float:
+        lay, h = self.lay, self.h
+        u = self.units.symbol
+        text = labels.profile_mapping_note(self.ctx.alignment.name, self.datum,
+                                           lay.exaggeration, u)
+        y = bottom + 0.8 * h if not self.strip else bottom - 0.6 * h
+        self.items.append(Text("info", text, self.x0, y, 0.8 * h, 0.0, "left", "top"))
+        return y - 0.8 * h
+
+
+def profile_drawing(
+    ctx: SolvedAlignment,
+    layout: DraftingLayout,
+    curves: str = "spline",
+    *,
+    window: tuple[float, float] | None = None,
+    strip: bool = False,
+) -> Drawing:
+    """The profile drawing of ``ctx`` (needs a profile).
+
+    Parameters
+    ----------
+    curves : {"spline", "polyline"}
+        Renderers draw parabolas as exact quadratic curves (``spline``) or as the
+        polylines within ``layout.chord_tolerance`` that every item carries.
+    window : (float, float), optional
+        Draw only these stations, with a datum and grid of their own (a sheet).
+    strip : bool
+        Add the strip of finished-grade and existing-ground elevations under the
+        grid at every labelled station (plan-and-profile sheets).
+    """
+    d = _Profile(ctx, layout, curves, window, strip).build()
+    d.meta["curves"] = curves
+    return d
+
+
+# --------------------------------------------------------------------------- plan
+def _readable_flag(angle_deg: float) -> tuple[float, bool]:
+    """Text rotation that never reads upside down, and whether it was turned 180 degrees."""
+    a = (angle_deg + 180.0) % 360.0 - 180.0
+    if a > 90.0:
+        return a - 180.0, True
+    if a <= -90.0:
+        return a + 180.0, True
+    return a, False
+
+
+def plan_drawing(ctx: SolvedAlignment, layout: DraftingLayout) -> Drawing:
+    """The plan drawing of ``ctx`` at true coordinates (needs horizontal geometry)."""
+    hz = ctx.horizontal
+    if hz is None:
+        raise ValueError("plan drawing needs horizontal geometry")
+    h = layout.text_height
+    tol = layout.chord_tolerance
+    st = ctx.stationing
+    units = ctx.document.units
+    items: list[Any] = []
+    for el in hz.elements:
+        s = np.array([el.start_station, el.end_station])
+        if el.kind == "line":
+            items.append(Path("plan", ((el.x0, el.y0), (el.x1, el.y1))))
+            continue
+        kmax = max(abs(el.k0), abs(el.k1))
+        step = math.sqrt(8.0 * tol / kmax) if kmax > 0 else el.length
+        guard_count(el.length / step, "plan polyline vertices")
+        n = max(2, math.ceil(el.length / step) + 1)
+        s = np.linspace(el.start_station, el.end_station, n)
+        north, east, _ = ctx.plan_at(s)
+        pts = tuple(zip(east.tolist(), north.tolist(), strict=True))
+        if el.kind == "arc":
+            cx, cy = el.center
+            a0 = math.degrees(math.atan2(el.y0 - cy, el.x0 - cx))
+            a1 = math.degrees(math.atan2(el.y1 - cy, el.x1 - cx))
+            start, end = (a0, a1) if el.k0 > 0 else (a1, a0)
+            items.append(ArcItem("plan", (cx, cy), 1.0 / abs(el.k0), start, end, pts))
+        else:
+            items.append(Path("plan", pts))
+    taken: list[np.ndarray] = []
+
+    def put(item: Text) -> None:
+        items.append(item)
+        taken.append(item.corners())
+
+    guard_count((hz.end - hz.start) / layout.plan_tick, "plan station ticks")
+    ticks = st.round_stations(layout.plan_tick, hz.start, hz.end)
+    north, east, head = ctx.plan_at(ticks)
+    for s, n_, e_, hd in zip(ticks.tolist(), north.tolist(), east.tolist(), head.tolist(), strict=True):
+        nx, ny = -math.sin(hd), math.cos(hd)  # left normal
+        items.append(Path("plan_ticks", ((e_ - 0.6 * h * nx, n_ - 0.6 * h * ny),
+                                         (e_ + 0.6 * h * nx, n_ + 0.6 * h * ny))))
+        rot, flipped = _readable_flag(math.degrees(hd) + 90.0)
+        text = labels.grid_station_text(float(st.label_value(s)), units)
+        put(Text("plan_labels", text, e_ + 1.0 * h * nx, n_ + 1.0 * h * ny, h, rot,
+                 "right" if flipped else "left", "middle"))
+    keys = ctx.plan_key_points
+    merged: dict[float, list[str]] = {}
+    for s, tag in keys:
+        near = next((k for k in merged if abs(k - s) < 1e-6), None)
+        merged.setdefault(near if near is not None else s, []).append(tag)
+    for s, tags in sorted(merged.items()):
+        n_, e_, hd = (float(v) for v in ctx.plan_at(s))
+        items.append(Circle("plan_points", (e_, n_), 0.4 * h))
+        rx, ry = math.sin(hd), -math.cos(hd)  # right normal
+        rot, flipped = _readable_flag(math.degrees(hd) - 90.0)
+        text = labels.plan_point_label("/".join(tags), st.label(s))
+        put(Text("plan_labels", text, e_ + 1.0 * h * rx, n_ + 1.0 * h * ry, h, rot,
+                 "right" if flipped else "left", "middle"))
+    for c in ctx.curves:
+        if c.pi_northing is None:
+            continue
+        lines = [labels.plan_point_label("PI", st.label(c.pi_station))] + labels.plan_curve_note(
+            c.number, c.delta, c.radius, c.tangent_in, c.arc_length, c.external,
+            c.spiral_in, c.spiral_out, units)
+        mid = (c.start_station + c.end_station) / 2
+        mn, me, _ = (float(v) for v in ctx.plan_at(mid))
+        ox, oy = c.pi_easting - me, c.pi_northing - mn
+        dist = math.hypot(ox, oy) or 1.0
+        ux, uy = ox / dist, oy / dist
+        items.append(Circle("plan_points", (c.pi_easting, c.pi_northing), 0.3 * h))
+        block_w = max(labels.text_width(t, h) for t in lines)
+        block_h = len(lines) * 1.5 * h
+        # corner of the block nearest the curve sits 2h beyond the PI, outward
+        bx = c.pi_easting + ux * 2 * h + (0 if ux >= 0 else -block_w)
+        by = c.pi_northing + uy * 2 * h + (block_h if uy >= 0 else 0)
+        for j, t in enumerate(lines):
+            put(Text("plan_notes", t, bx, by - (j + 1) * 1.5 * h + 0.5 * h, h, 0.0, "left", "bottom"))
+    xs = [p[0] for i in items if isinstance(i, (Path, ArcItem)) for p in (i.points if isinstance(i, Path) else i.polyline)]
+    ys = [p[1] for i in items if isinstance(i, (Path, ArcItem)) for p in (i.points if isinstance(i, Path) else i.polyline)]
+    boxes = np.concatenate(taken) if taken else np.zeros((0, 2))
+    ext = (min(xs + boxes[:, 0].tolist()), min(ys + boxes[:, 1].tolist()),
+           max(xs + boxes[:, 0].tolist()), max(ys + boxes[:, 1].tolist()))
+    meta = {"kind": "plan", "alignment": ctx.alignment.name, "linear_unit": units.linear}
+    return Drawing(tuple(items), ext, meta)

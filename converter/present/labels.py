@@ -1,0 +1,231 @@
+"""Text of every number gradeline shows to people or writes to tables.
+
+One place for each format: DXF labels, PDF sheets, text reports and CSV/JSON
+cells all call these functions, so the same value prints the same everywhere.
+"""
+
+from __future__ import annotations
+
+import math
+
+from gradeline.model.units import Units
+
+__all__ = [
+    "DATA_DECIMALS",
+    "data_number",
+    "elevation_text",
+    "grade_text",
+    "k_text",
+    "length_text",
+]
+
+#: The caution printed on sheets, table pages and review reports.
+CAUTION = (
+    "Computed geometry for review. Verify against the governing agency's standards; "
+    "design decisions rest with the responsible licensed engineer."
+)
+
+#: Decimals of numbers in CSV/JSON: far below any survey precision, and enough
+#: to make float noise (1e-12) disappear so outputs are stable.
+DATA_DECIMALS = 6
+
+
+def data_number(value: float | None) -> float | None:
+    """Round a value for CSV/JSON; None and NaN become None.
+
+    Examples
+    --------
+    >>> data_number(121.00000000000001), data_number(-0.0000001), data_number(float("nan"))
+    (121.0, 0.0, None)
+    """
+    if value is None or not math.isfinite(value):
+        return None
+    out = round(float(value), DATA_DECIMALS)
+    return 0.0 if out == 0 else out
+
+
+def length_text(value: float, units: Units) -> str:
+    """Lengths and elevations: 2 decimals in feet, 3 in metres (common practice).
+
+    Examples
+    --------
+    >>> length_text(121.0, Units("foot")), length_text(121.0, Units("meter"))
+    ('121.00', '121.000')
+    >>> length_text(-1e-12, Units("foot"))  # never "-0.00"
+    '0.00'
+    """
+    text = f"{value:.{3 if units.metric else 2}f}"
+    if text.startswith("-") and float(text) == 0.0:
+        text = text[1:]
+    return text
+
+
+def elevation_text(value: float, units: Units) -> str:
+    """Elevation label text, e.g. ``EL 121.00``-free form ``121.00``."""
+    return length_text(value, units)
+
+
+def grade_text(grade: float) -> str:
+    """A grade (ratio) as signed percent with three decimals.
+
+    Examples
+    --------
+    >>> grade_text(0.0175), grade_text(-0.01), grade_text(0.0)
+    ('+1.750%', '-1.000%', '0.000%')
+    """
+    pct = 100.0 * grade
+    if round(pct, 3) == 0:
+        return "0.000%"
+    return f"{pct:+.3f}%"
+
+
+def k_text(k: float | None) -> str:
+    """K value text with one decimal; a curve without grade change has none.
+
+    Examples
+    --------
+    >>> k_text(581.8181), k_text(None)
+    ('581.8', '-')
+    """
+    return "-" if k is None else f"{k:.1f}"
+
+
+def dms_text(angle_rad: float) -> str:
+    """An angle as degrees, minutes and seconds, e.g. ``28°00'00.0"``.
+
+    Examples
+    --------
+    >>> import math
+    >>> dms_text(math.radians(28.0)), dms_text(math.radians(12.5125))
+    ('28°00\\'00.0"', '12°30\\'45.0"')
+    """
+    total = round(abs(math.degrees(angle_rad)) * 36000.0)  # tenths of a second
+    deg, rest = divmod(total, 36000)
+    minutes, tenths = divmod(rest, 600)
+    return f"{deg}°{minutes:02d}'{tenths / 10:04.1f}\""
+
+
+# -- drawing label text: one place for DXF and PDF --------------------------
+def point_label(tag: str, station_label: str, elevation: float, units: Units) -> str:
+    """Vertical key-point label, e.g. ``PVI 17+50.00  EL 530.15``."""
+    return f"{tag} {station_label}  EL {length_text(elevation, units)}"
+
+
+def curve_label(length: float, k: float | None, units: Units) -> str:
+    """Vertical-curve data label, e.g. ``L = 600.00  K = 136.5``."""
+    return f"L = {length_text(length, units)}  K = {k_text(k)}"
+
+
+def plan_point_label(tag: str, station_label: str) -> str:
+    """Plan key-point label, e.g. ``PC 36+86.43``."""
+    return f"{tag} {station_label}"
+
+
+def plan_curve_note(
+    number: int,
+    delta_rad: float,
+    radius: float,
+    tangent: float,
+    length: float,
+    external: float,
+    spiral_in: float,
+    spiral_out: float,
+    units: Units,
+) -> list[str]:
+    """Lines of a horizontal curve-data note."""
+    side = "LT" if delta_rad > 0 else "RT"
+    u = units.symbol
+    lines = [
+        f"CURVE {number}",
+        f"DELTA = {dms_text(delta_rad)} {side}",
+        f"R = {length_text(radius, units)} {u}",
+        f"T = {length_text(tangent, units)} {u}",
+        f"L = {length_text(length, units)} {u}",
+        f"E = {length_text(external, units)} {u}",
+    ]
+    if spiral_in or spiral_out:
+        lines.insert(3, f"LS = {length_text(spiral_in, units)} / {length_text(spiral_out, units)} {u}")
+    return lines
+
+
+def match_line_text(station_label: str, sheet: int | None) -> str:
+    """Match-line label, e.g. ``MATCH LINE STA 24+00.00 - SEE SHEET 2``."""
+    return f"MATCH LINE STA {station_label}" + (f" - SEE SHEET {sheet}" if sheet else "")
+
+
+def turning_point_tag(curve_type: str) -> str:
+    """Label tag of a vertical curve's turning point: ``HIGH PT`` on crests, ``LOW PT`` on sags."""
+    return "HIGH PT" if curve_type == "crest" else "LOW PT"
+
+
+def scale_text(scale: float, exaggeration: float, metric: bool) -> str:
+    """Horizontal and vertical scale of a sheet, e.g. ``H 1" = 50'  V 1" = 5'`` or ``H 1:500  V 1:50``.
+
+    Examples
+    --------
+    >>> print(scale_text(50.0, 10.0, False))
+    H 1" = 50'  V 1" = 5'
+    >>> print(scale_text(500.0, 10.0, True))
+    H 1:500  V 1:50
+    """
+    if metric:
+        return f"H 1:{scale:g}  V 1:{scale / exaggeration:g}"
+    return f'H 1" = {scale:g}\'  V 1" = {scale / exaggeration:g}\''
+
+
+def profile_mapping_note(alignment: str, datum: float, exaggeration: float, unit: str) -> str:
+    """The note that tells a CAD user how profile y maps to elevation."""
+    return (f"PROFILE {alignment}: X = STATION, Y = (ELEVATION - {datum:g}) x "
+            f"{exaggeration:g}; UNITS {unit}")
+
+
+def grid_station_text(station_label_value: float, units: Units) -> str:
+    """Station label under a grid line, without decimals: ``12+00`` / ``1+240``."""
+    from gradeline.geometry.stations import format_station
+
+    return format_station(station_label_value, units.station_length, 0)
+
+
+def grid_elevation_text(elevation: float, step: float) -> str:
+    """Elevation label at a grid line, with decimals only when the step needs them.
+
+    Examples
+    --------
+    >>> grid_elevation_text(520.0, 5.0), grid_elevation_text(86.5, 0.5)
+    ('520', '86.5')
+    """
+    decimals = 0 if step >= 1 else (1 if step >= 0.1 else 2)
+    return f"{elevation:.{decimals}f}"
+
+
+#: Advance widths (per 1000 units of text height) of the Helvetica/Arial family,
+#: the metrics of the standard PDF font and of the DXF text style (from memory;
+#: tests compare them with reportlab's font metrics).
+_WIDTHS = {
+    **dict.fromkeys("0123456789", 556),
+    " ": 278, ".": 278, ",": 278, ":": 278, ";": 278, "/": 278, "+": 584, "=": 584,
+    "-": 333, "%": 889, "(": 333, ")": 333, "°": 400, "'": 191, '"': 355, "&": 667,
+    "A": 667, "B": 667, "C": 722, "D": 722, "E": 667, "F": 611, "G": 778, "H": 722,
+    "I": 278, "J": 500, "K": 667, "L": 556, "M": 833, "N": 722, "O": 778, "P": 667,
+    "Q": 778, "R": 722, "S": 667, "T": 611, "U": 722, "V": 667, "W": 944, "X": 667,
+    "Y": 667, "Z": 611,
+    "a": 556, "b": 556, "c": 500, "d": 556, "e": 556, "f": 278, "g": 556, "h": 556,
+    "i": 222, "j": 222, "k": 500, "l": 222, "m": 833, "n": 556, "o": 556, "p": 556,
+    "q": 556, "r": 333, "s": 500, "t": 278, "u": 556, "v": 500, "w": 722, "x": 500,
+    "y": 500, "z": 500,
+}
+#: Width of any other character, and the safety margin on every label.
+_OTHER_WIDTH = 1000
+_MARGIN = 1.04
+
+
+def text_width(text: str, height: float) -> float:
+    """Width of a one-line label in the sans-serif fonts gradeline draws with.
+
+    Examples
+    --------
+    >>> round(text_width("12+00", 5.0), 2)
+    14.6
+    """
+    units = sum(_WIDTHS.get(ch, _OTHER_WIDTH) for ch in text)
+    return units / 1000.0 * height * _MARGIN

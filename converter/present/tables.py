@@ -1,0 +1,257 @@
+"""Table rows for ``table`` and ``curves``: plain records, no formatting.
+
+Renderers (CSV/JSON writers, PDF tables) take these rows as they are; values
+are floats in file units, grades in percent, angles in the file's units, and
+text labels made by :mod:`gradeline.present.labels` and :mod:`gradeline.geometry.stations`.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Sequence
+from typing import Any
+
+import numpy as np
+from gradeline.geometry.vertical import JOIN_TOLERANCE
+from gradeline.model.units import angle_to_unit
+from gradeline.solved import SolvedAlignment
+from numpy.typing import ArrayLike, NDArray
+
+__all__ = [
+    "CURVE_COLUMNS",
+    "STATION_COLUMNS",
+    "curve_rows",
+    "station_rows",
+    "table_stations",
+]
+
+STATION_COLUMNS = (
+    "station",
+    "station_label",
+    "elevation",
+    "grade",
+    "tangent_elevation",
+    "offset",
+    "northing",
+    "easting",
+    "direction",
+    "point",
+)
+
+CURVE_COLUMNS = (
+    "kind",
+    # vertical curves
+    "pvi_station",
+    "pvi_elevation",
+    "grade_in",
+    "grade_out",
+    "A",
+    "length",
+    "K",
+    "type",
+    "bvc_station",
+    "bvc_elevation",
+    "evc_station",
+    "evc_elevation",
+    "turning_station",
+    "turning_elevation",
+    "length_in",
+    "length_out",
+    "radius",
+    "middle_ordinate",
+    # horizontal curves
+    "pi_station",
+    "pi_northing",
+    "pi_easting",
+    "delta",
+    "tangent",
+    "tangent_out",
+    "chord",
+    "external",
+    "degree_of_curve",
+    "turn",
+    "pc_station",
+    "pt_station",
+    "sc_station",
+    "cs_station",
+    "spiral_in",
+    "spiral_out",
+    "spiral_type",
+    # labels
+    "pvi_label",
+    "bvc_label",
+    "evc_label",
+    "pi_label",
+    "pc_label",
+    "pt_label",
+)
+
+Row = dict[str, Any]
+
+
+def table_stations(
+    ctx: SolvedAlignment,
+    interval: float | None = None,
+    at: ArrayLike | None = None,
+) -> tuple[NDArray[np.float64], list[str]]:
+    """Stations of a station table and the key-point tags of each.
+
+    With ``interval`` the rows are every labelled multiple of it plus every key
+    point; with ``at`` they are exactly the given internal stations, tagged
+    where they hit a key point.
+    """
+    keys = ctx.key_points
+    key_st = np.array([k.station for k in keys])
+    if at is not None:
+        stations = np.asarray(at, dtype=np.float64).reshape(-1)
+    else:
+        assert interval is not None
+        regular = ctx.stationing.round_stations(interval, ctx.start, ctx.end)
+        # a regular station within rounding of a key point gives way to it
+        if len(key_st):
+            j = np.clip(np.searchsorted(key_st, regular), 1, len(key_st)) - 1
+            near = np.minimum(
+                np.abs(key_st[j] - regular),
+                np.abs(key_st[np.minimum(j + 1, len(key_st) - 1)] - regular),
+            )
+            regular = regular[near > JOIN_TOLERANCE]
+        stations = np.union1d(regular, key_st)
+    tags = []
+    for s in stations:
+        if len(key_st):
+            i = int(np.argmin(np.abs(key_st - s)))
+            tags.append(keys[i].text if abs(key_st[i] - s) <= JOIN_TOLERANCE else "")
+        else:
+            tags.append("")
+    return stations, tags
+
+
+def station_rows(
+    ctx: SolvedAlignment,
+    stations: ArrayLike,
+    tags: Sequence[str] | None = None,
+) -> list[Row]:
+    """One row per station with the columns of :data:`STATION_COLUMNS`."""
+    s = np.asarray(stations, dtype=np.float64).reshape(-1)
+    nan = np.full(len(s), np.nan)
+    if ctx.geometry is not None:
+        z, g = ctx.profile_at(s)
+        tz = ctx.tangent_elevation(s)
+    else:
+        z, g, tz = nan, nan, nan
+    if ctx.horizontal is not None:
+        n, e, h = ctx.plan_at(s)
+        d = ctx.direction(h)
+    else:
+        n, e, d = nan, nan, nan
+    labels = ctx.stationing.labels(s)
+    rows = []
+    for i in range(len(s)):
+        rows.append(
+            {
+                "station": float(s[i]),
+                "station_label": labels[i],
+                "elevation": float(z[i]),
+                "grade": 100.0 * float(g[i]),
+                "tangent_elevation": float(tz[i]),
+                "offset": float(z[i] - tz[i]),
+                "northing": float(n[i]),
+                "easting": float(e[i]),
+                "direction": float(d[i]),
+                "point": tags[i] if tags is not None else "",
+            }
+        )
+    return rows
+
+
+def vertical_curve_rows(ctx: SolvedAlignment) -> list[Row]:
+    """One row per vertical curve."""
+    rows = []
+    if ctx.geometry is None:
+        return rows
+    label = ctx.stationing.label
+    for c in ctx.geometry.curves:
+        row: Row = dict.fromkeys(CURVE_COLUMNS)
+        row.update(
+            kind="vertical",
+            pvi_station=c.pvi_station,
+            pvi_elevation=c.pvi_elevation,
+            grade_in=100.0 * c.grade_in,
+            grade_out=100.0 * c.grade_out,
+            A=c.a_pct,
+            length=c.length,
+            K=c.k,
+            type=c.curve_type,
+            bvc_station=c.bvc_station,
+            bvc_elevation=c.bvc_elevation,
+            evc_station=c.evc_station,
+            evc_elevation=c.evc_elevation,
+            turning_station=c.turning_station,
+            turning_elevation=c.turning_elevation,
+            length_in=c.length_in,
+            length_out=c.length_out,
+            radius=c.radius,
+            middle_ordinate=c.pvi_offset,
+            pvi_label=label(c.pvi_station),
+            bvc_label=label(c.bvc_station),
+            evc_label=label(c.evc_station),
+        )
+        rows.append(row)
+    return rows
+
+
+def horizontal_curve_rows(ctx: SolvedAlignment) -> list[Row]:
+    """One row per horizontal curve (a Curve with its spirals)."""
+    rows: list[Row] = []
+    if ctx.horizontal is None:
+        return rows
+    units = ctx.document.units
+    label = ctx.stationing.label
+    for c in ctx.curves:
+        row: Row = dict.fromkeys(CURVE_COLUMNS)
+        row.update(
+            kind="horizontal",
+            radius=c.radius,
+            delta=angle_to_unit(abs(c.delta), units.angular),
+            length=c.arc_length,
+            tangent=c.tangent_in,
+            tangent_out=c.tangent_out,
+            chord=c.chord,
+            external=c.external,
+            middle_ordinate=c.middle_ordinate,
+            # arc definition, per 100 ft (US customary only): D = 100 * 180 / (pi R)
+            degree_of_curve=None if units.metric else 18000.0 / (math.pi * c.radius),
+            turn=c.direction,
+            pi_station=c.pi_station,
+            pi_northing=c.pi_northing,
+            pi_easting=c.pi_easting,
+            pc_station=c.start_station,
+            pt_station=c.end_station,
+            sc_station=c.sc_station,
+            cs_station=c.cs_station,
+            spiral_in=c.spiral_in,
+            spiral_out=c.spiral_out,
+            spiral_type=c.spiral_type,
+            pi_label=label(c.pi_station),
+            pc_label=label(c.start_station),
+            pt_label=label(c.end_station),
+        )
+        rows.append(row)
+    return rows
+
+
+def curve_rows(ctx: SolvedAlignment) -> list[Row]:
+    """Horizontal curve rows, then vertical curve rows, all with :data:`CURVE_COLUMNS`."""
+    return horizontal_curve_rows(ctx) + vertical_curve_rows(ctx)
+
+
+def add_ground_columns(ctx: SolvedAlignment, stations: ArrayLike,
+                       rows: list[Row]) -> tuple[str, ...]:
+    """Add ``ground`` and ``cut_fill`` (finished grade minus ground) from the attached TIN.
+
+    Returns the column names of the widened table.
+    """
+    for row, z in zip(rows, ctx.ground_at(stations), strict=True):
+        row["ground"] = float(z)
+        row["cut_fill"] = row["elevation"] - float(z)
+    return STATION_COLUMNS + ("ground", "cut_fill")

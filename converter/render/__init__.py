@@ -1,0 +1,1 @@
+"""Renderers: serialise presentation records as DXF, CSV/JSON and text reports."""
