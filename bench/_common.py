@@ -7,6 +7,7 @@ import time
 from collections.abc import Callable
 
 import numpy as np
+
 from gradeline.model import Profile, PVISpec
 
 

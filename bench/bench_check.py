@@ -15,13 +15,12 @@ import numpy as np
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
+from bench._common import synthetic_plan, synthetic_profile  # noqa: E402
 from gradeline.analysis import check
 from gradeline.geometry import horizontal, vertical
 from gradeline.io.dxf_read import read_drawing, read_linework  # noqa: E402
 from gradeline.model import Alignment, Document  # noqa: E402
 from gradeline.model.units import Units  # noqa: E402
-
-from bench._common import synthetic_plan, synthetic_profile  # noqa: E402
 
 
 def main() -> None:
@@ -39,7 +38,8 @@ def main() -> None:
         dxf = ezdxf.new("R2010")
         dxf.modelspace().add_lwpolyline(
             np.column_stack([s, (vertical.elevation(geom, s) - 900.0) * 10.0]).tolist(),
-            dxfattribs={"layer": "FG"})
+            dxfattribs={"layer": "FG"},
+        )
         dxf.saveas(path)
         t0 = time.perf_counter()
         findings = check.check_document(doc)
@@ -50,11 +50,15 @@ def main() -> None:
         t0 = time.perf_counter()
         result = check.check_linework(lines, geom, 0.01, 10.0, 900.0, "given")
         t_cmp = time.perf_counter() - t0
-    print(f"{len(plan.elements)} plan elements, {len(prof.pvis)} PVIs, {length:,.0f} ft; "
-          f"{len(findings)} LandXML checks in {t_xml:.2f} s")
-    print(f"DXF: {sum(len(x) for x in lines):,} vertices read in {t_read:.2f} s, "
-          f"{result.samples:,} samples compared in {t_cmp:.2f} s "
-          f"(max deviation {result.max_deviation:.4f} ft)")
+    print(
+        f"{len(plan.elements)} plan elements, {len(prof.pvis)} PVIs, {length:,.0f} ft; "
+        f"{len(findings)} LandXML checks in {t_xml:.2f} s"
+    )
+    print(
+        f"DXF: {sum(len(x) for x in lines):,} vertices read in {t_read:.2f} s, "
+        f"{result.samples:,} samples compared in {t_cmp:.2f} s "
+        f"(max deviation {result.max_deviation:.4f} ft)"
+    )
     print(f"total {t_xml + t_read + t_cmp:.2f} s")
 
 

@@ -2,7 +2,8 @@
 
 Figures: drafting (layout of every line and label) and writing, and a bare ezdxf
 write of the same entities (same types, counts and vertex counts, vertices
-loaded the same bulk way) as the baseline. Run: ``python bench/bench_dxf.py``. Target (issue 4): under 10 s,
+loaded the same bulk way) as the baseline. Run: ``python bench/bench_dxf.py``.
+Target (issue 4): under 10 s,
 at most 1.5x the bare write.
 """
 
@@ -19,6 +20,7 @@ import numpy as np
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
+from bench._common import synthetic_profile  # noqa: E402
 from gradeline.model import Alignment, Document, GroundPiece, GroundProfile  # noqa: E402
 from gradeline.model.units import Units  # noqa: E402
 from gradeline.present import drafting
@@ -27,8 +29,6 @@ from gradeline.present.items import Path as DPath
 from gradeline.present.layout import default_layout  # noqa: E402
 from gradeline.render.dxf import add_vertices, write_dxf  # noqa: E402
 from gradeline.solved import solve_alignment  # noqa: E402
-
-from bench._common import synthetic_profile  # noqa: E402
 
 
 def bare_write(drawing) -> float:
@@ -51,7 +51,9 @@ def bare_write(drawing) -> float:
             msp.add_circle(item.center, item.radius)
         elif isinstance(item, Text):
             msp.add_text(item.text, height=item.height, rotation=item.rotation).dxf.insert = (
-                item.x, item.y)
+                item.x,
+                item.y,
+            )
     doc.write(io.StringIO())
     return time.perf_counter() - t0
 
@@ -74,13 +76,17 @@ def main() -> None:
     t_write = time.perf_counter() - t0
     t_bare = bare_write(d)
     kinds = Counter(type(i).__name__ for i in d.items)
-    print(f"profile: {end:,.0f} ft ({end / 5280:.0f} mi), {len(prof.pvis)} PVIs, "
-          f"{len(s):,} ground points; {len(d.items):,} drawing items {dict(kinds)}")
+    print(
+        f"profile: {end:,.0f} ft ({end / 5280:.0f} mi), {len(prof.pvis)} PVIs, "
+        f"{len(s):,} ground points; {len(d.items):,} drawing items {dict(kinds)}"
+    )
     print(f"drafting (layout, labels)  : {t_draft:.2f} s")
     print(f"DXF write (gradeline)      : {t_write:.2f} s, {len(data) / 2**20:.1f} MiB")
     print(f"bare ezdxf write, same ents: {t_bare:.2f} s")
-    print(f"total {t_draft + t_write:.2f} s; write / bare = {t_write / t_bare:.2f}x, "
-          f"(drafting + write) / bare = {(t_draft + t_write) / t_bare:.2f}x")
+    print(
+        f"total {t_draft + t_write:.2f} s; write / bare = {t_write / t_bare:.2f}x, "
+        f"(drafting + write) / bare = {(t_draft + t_write) / t_bare:.2f}x"
+    )
     assert math.isfinite(t_write)
 
 

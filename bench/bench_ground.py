@@ -22,11 +22,10 @@ import numpy as np
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
-from gradeline.geometry import ground, horizontal
-from gradeline.io import surface_reader
-
 from bench._common import synthetic_plan  # noqa: E402
 from bench.make_surface import write  # noqa: E402
+from gradeline.geometry import ground, horizontal
+from gradeline.io import surface_reader
 
 
 def bare_pass(path: str) -> int:
@@ -78,16 +77,26 @@ def main() -> None:
     t_mpl = time.perf_counter() - t0
     ok = np.isfinite(zr) & np.isfinite(z2)
     assert np.allclose(z2[ok], zr[ok], rtol=1e-9)
-    print(f"surface: {n_pts:,} points, {n_faces:,} faces, {size:.0f} MiB (written in {t_gen:.1f} s)")
-    print(f"parse: {t_parse:.2f} s; bare lxml iterparse pass: {t_bare:.2f} s "
-          f"({t_parse / t_bare:.2f}x)")
-    print(f"alignment {hz.end - hz.start:,.0f} ft: {len(s):,} stations (every foot and every edge "
-          f"crossing), {int(np.isnan(z).sum()):,} off the surface or in the hole")
-    print(f"index {t_index:.2f} s + sampling {t_sample:.2f} s; interpolation at the same "
-          f"{len(s):,} points {t_interp:.3f} s vs matplotlib (triangulation + interpolator) "
-          f"{t_mpl:.2f} s = {t_mpl / (t_index + t_interp):.1f}x")
-    print(f"total (parse + index + sampling) {t_parse + t_index + t_sample:.2f} s; "
-          f"peak memory {peak:.0f} MB")
+    print(
+        f"surface: {n_pts:,} points, {n_faces:,} faces, {size:.0f} MiB (written in {t_gen:.1f} s)"
+    )
+    print(
+        f"parse: {t_parse:.2f} s; bare lxml iterparse pass: {t_bare:.2f} s "
+        f"({t_parse / t_bare:.2f}x)"
+    )
+    print(
+        f"alignment {hz.end - hz.start:,.0f} ft: {len(s):,} stations (every foot and every edge "
+        f"crossing), {int(np.isnan(z).sum()):,} off the surface or in the hole"
+    )
+    print(
+        f"index {t_index:.2f} s + sampling {t_sample:.2f} s; interpolation at the same "
+        f"{len(s):,} points {t_interp:.3f} s vs matplotlib (triangulation + interpolator) "
+        f"{t_mpl:.2f} s = {t_mpl / (t_index + t_interp):.1f}x"
+    )
+    print(
+        f"total (parse + index + sampling) {t_parse + t_index + t_sample:.2f} s; "
+        f"peak memory {peak:.0f} MB"
+    )
 
 
 if __name__ == "__main__":

@@ -18,10 +18,9 @@ import numpy as np
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
+from bench._common import best_of, synthetic_plan  # noqa: E402
 from gradeline.geometry import horizontal as H
 from gradeline.geometry.station_offset import station_offset
-
-from bench._common import best_of, synthetic_plan  # noqa: E402
 
 GL_T, GL_W = np.polynomial.legendre.leggauss(8)
 GL_T, GL_W = GL_T.tolist(), GL_W.tolist()
@@ -37,8 +36,10 @@ def python_point(geom, s):
         k = g.k0
         if k == 0.0:
             return g.x0 + d * math.cos(g.heading0), g.y0 + d * math.sin(g.heading0)
-        return (g.x0 + (math.sin(g.heading0 + k * d) - math.sin(g.heading0)) / k,
-                g.y0 - (math.cos(g.heading0 + k * d) - math.cos(g.heading0)) / k)
+        return (
+            g.x0 + (math.sin(g.heading0 + k * d) - math.sin(g.heading0)) / k,
+            g.y0 - (math.cos(g.heading0 + k * d) - math.cos(g.heading0)) / k,
+        )
     n = max(1, math.ceil((abs(g.k0) + abs(g.k1)) * g.length / 0.25))
     x, y = g.x0, g.y0
     dk = g.k1 - g.k0
@@ -47,7 +48,7 @@ def python_point(geom, s):
         b = min(g.length * (p + 1) / n, d)
         if b <= a:
             break
-        for t, w in zip(GL_T, GL_W):
+        for t, w in zip(GL_T, GL_W, strict=False):
             u = a + (b - a) * (1 + t) / 2
             th = g.heading0 + g.k0 * u + dk * u * u / (2 * g.length)
             x += (b - a) / 2 * w * math.cos(th)
@@ -58,7 +59,7 @@ def python_point(geom, s):
 def python_inverse(geom, px, py, samples, sx, sy):
     """Nearest sample by a scan, then Newton steps, one point at a time."""
     out = []
-    for x, y in zip(px, py):
+    for x, y in zip(px, py, strict=False):
         j = min(range(len(sx)), key=lambda i: (sx[i] - x) ** 2 + (sy[i] - y) ** 2)
         s = samples[j]
         for _ in range(6):
@@ -94,16 +95,25 @@ def main() -> None:
     samples = np.linspace(geom.start, geom.end, 2000)
     sn, se, _ = H.evaluate(geom, samples)
     k = 200
-    t_inv_loop = best_of(lambda: python_inverse(geom, pe[:k].tolist(), pn[:k].tolist(),
-                                                samples.tolist(), se.tolist(), sn.tolist()),
-                         repeat=1) * (100_000 / k)
-    print(f"alignment: {len(plan.elements)} elements, {geom.end - geom.start:,.0f} ft, "
-          f"solved in {t_solve * 1e3:.0f} ms")
-    print(f"coordinates at 1,000,000 stations : {t_vec:.3f} s "
-          f"(plain-Python loop {t_loop:.1f} s, {t_loop / t_vec:.0f}x)")
-    print(f"station/offset of 100,000 points  : {t_inv:.3f} s "
-          f"(plain-Python loop {t_inv_loop:.0f} s, {t_inv_loop / t_inv:.0f}x); "
-          f"worst round-trip error {worst:.1e} ft")
+    t_inv_loop = best_of(
+        lambda: python_inverse(
+            geom, pe[:k].tolist(), pn[:k].tolist(), samples.tolist(), se.tolist(), sn.tolist()
+        ),
+        repeat=1,
+    ) * (100_000 / k)
+    print(
+        f"alignment: {len(plan.elements)} elements, {geom.end - geom.start:,.0f} ft, "
+        f"solved in {t_solve * 1e3:.0f} ms"
+    )
+    print(
+        f"coordinates at 1,000,000 stations : {t_vec:.3f} s "
+        f"(plain-Python loop {t_loop:.1f} s, {t_loop / t_vec:.0f}x)"
+    )
+    print(
+        f"station/offset of 100,000 points  : {t_inv:.3f} s "
+        f"(plain-Python loop {t_inv_loop:.0f} s, {t_inv_loop / t_inv:.0f}x); "
+        f"worst round-trip error {worst:.1e} ft"
+    )
 
 
 if __name__ == "__main__":

@@ -17,10 +17,9 @@ import numpy as np
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
+from bench._common import synthetic_profile  # noqa: E402
 from gradeline.analysis import review
 from gradeline.geometry import vertical
-
-from bench._common import synthetic_profile  # noqa: E402
 
 
 def python_sd(z, i, dx, window, h1, h2):
@@ -51,11 +50,15 @@ def main() -> None:
     for i in eyes:
         python_sd(z, i, 1.0, window, crit.eye_height, crit.object_height)
     t_loop = (time.perf_counter() - t0) * (len(sd.stations) / len(eyes)) * 4  # 4 runs
-    print(f"profile {geom.end - geom.start:,.0f} ft, {len(geom.pvi_stations)} PVIs; "
-          f"{len(sd.stations):,} stations x 2 directions x (line of sight + headlight), "
-          f"reach {reach:.0f} ft")
-    print(f"vectorised: {t_vec:.2f} s; plain-Python loop (scaled): {t_loop:.0f} s; "
-          f"{t_loop / t_vec:.0f}x")
+    print(
+        f"profile {geom.end - geom.start:,.0f} ft, {len(geom.pvi_stations)} PVIs; "
+        f"{len(sd.stations):,} stations x 2 directions x (line of sight + headlight), "
+        f"reach {reach:.0f} ft"
+    )
+    print(
+        f"vectorised: {t_vec:.2f} s; plain-Python loop (scaled): {t_loop:.0f} s; "
+        f"{t_loop / t_vec:.0f}x"
+    )
 
 
 if __name__ == "__main__":

@@ -15,13 +15,12 @@ import numpy as np
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
+from bench._common import synthetic_plan, synthetic_profile  # noqa: E402
 from gradeline.geometry import horizontal
 from gradeline.model import Alignment, Document, GroundPiece, GroundProfile  # noqa: E402
 from gradeline.model.units import Units  # noqa: E402
 from gradeline.sheets.pdf import SheetOptions, page_plan, render_sheets  # noqa: E402
 from gradeline.solved import solve_alignment  # noqa: E402
-
-from bench._common import synthetic_plan, synthetic_profile  # noqa: E402
 
 
 def main() -> None:
@@ -41,12 +40,18 @@ def main() -> None:
     elapsed = time.perf_counter() - t0
     pp = page_plan(ctx, opts)
     peak_mb = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024
-    print(f"alignment {length:,.0f} ft ({length / 5280:.1f} mi), profile {prof.end:,.0f} ft, "
-          f"{n_pvi} PVIs, {len(s):,} ground points")
-    print(f"{len(pp.frames)} plan-and-profile sheets + {len(pp.table_pages)} table pages = "
-          f"{pp.pages} pages, {len(pdf) / 2**20:.1f} MiB")
-    print(f"time {elapsed:.1f} s ({elapsed / pp.pages * 1000:.0f} ms a page); "
-          f"peak resident memory {peak_mb:.0f} MB")
+    print(
+        f"alignment {length:,.0f} ft ({length / 5280:.1f} mi), profile {prof.end:,.0f} ft, "
+        f"{n_pvi} PVIs, {len(s):,} ground points"
+    )
+    print(
+        f"{len(pp.frames)} plan-and-profile sheets + {len(pp.table_pages)} table pages = "
+        f"{pp.pages} pages, {len(pdf) / 2**20:.1f} MiB"
+    )
+    print(
+        f"time {elapsed:.1f} s ({elapsed / pp.pages * 1000:.0f} ms a page); "
+        f"peak resident memory {peak_mb:.0f} MB"
+    )
 
 
 if __name__ == "__main__":

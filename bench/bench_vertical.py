@@ -24,9 +24,8 @@ import numpy as np
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
-from gradeline.geometry import vertical
-
 from bench._common import best_of, synthetic_profile  # noqa: E402
+from gradeline.geometry import vertical
 
 N_STATIONS = 1_000_000
 N_PVI = 500

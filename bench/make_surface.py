@@ -17,8 +17,9 @@ import numpy as np
 X0, Y0 = 495000.0, 3995000.0
 
 
-def write(path: str, side: int = 1000, spacing: float = 60.0,
-          hole: tuple[float, float] | None = None) -> tuple[int, int]:
+def write(
+    path: str, side: int = 1000, spacing: float = 60.0, hole: tuple[float, float] | None = None
+) -> tuple[int, int]:
     i = np.arange(side)
     gx, gy = np.meshgrid(X0 + i * spacing, Y0 + i * spacing)
     x, y = gx.ravel(), gy.ravel()
@@ -32,20 +33,29 @@ def write(path: str, side: int = 1000, spacing: float = 60.0,
     hx, hy = hole if hole is not None else (X0 + 25000, Y0 + 8000)
     hole = np.hypot(cx - hx, cy - hy) < 600
     with open(path, "w", encoding="utf-8") as fh:
-        fh.write('<?xml version="1.0" encoding="UTF-8"?>\n'
-                 '<LandXML xmlns="http://www.landxml.org/schema/LandXML-1.2" version="1.2">\n'
-                 '  <Units><Imperial linearUnit="foot"/></Units>\n  <Surfaces>\n'
-                 '    <Surface name="Benchmark terrain"><Definition surfType="TIN"><Pnts>\n')
+        fh.write(
+            '<?xml version="1.0" encoding="UTF-8"?>\n'
+            '<LandXML xmlns="http://www.landxml.org/schema/LandXML-1.2" version="1.2">\n'
+            '  <Units><Imperial linearUnit="foot"/></Units>\n  <Surfaces>\n'
+            '    <Surface name="Benchmark terrain"><Definition surfType="TIN"><Pnts>\n'
+        )
         for lo in range(0, x.size, 200_000):
             sl = slice(lo, lo + 200_000)
-            fh.write("".join(f'<P id="{k}">{n:.3f} {e:.3f} {h:.3f}</P>\n'
-                             for k, n, e, h in zip(ids[sl], y[sl], x[sl], z[sl], strict=True)))
+            fh.write(
+                "".join(
+                    f'<P id="{k}">{n:.3f} {e:.3f} {h:.3f}</P>\n'
+                    for k, n, e, h in zip(ids[sl], y[sl], x[sl], z[sl], strict=True)
+                )
+            )
         fh.write("</Pnts><Faces>\n")
         for lo in range(0, len(faces), 400_000):
             sl = slice(lo, lo + 400_000)
-            fh.write("".join(('<F i="1">' if hid else "<F>") + f"{p} {q} {r}</F>\n"
-                             for (p, q, r), hid in zip(faces[sl].tolist(), hole[sl].tolist(),
-                                                       strict=True)))
+            fh.write(
+                "".join(
+                    ('<F i="1">' if hid else "<F>") + f"{p} {q} {r}</F>\n"
+                    for (p, q, r), hid in zip(faces[sl].tolist(), hole[sl].tolist(), strict=True)
+                )
+            )
         fh.write("</Faces></Definition></Surface>\n  </Surfaces>\n</LandXML>\n")
     return x.size, len(faces)
 

@@ -97,26 +97,28 @@ def _build_alignment(doc, al, outdir: Path, opts: BuildOptions, inputs: list[str
 
     written: list[str] = []
     notes: list[str] = []
-    solved = solve_alignment(doc, al, al.profile(None) if al.profiles else None,
-                             need_profile=False)
+    solved = solve_alignment(doc, al, al.profile(None) if al.profiles else None, need_profile=False)
     if (opts.ground or opts.surface) and solved.horizontal is not None:
         solved, _ = dl.attach_ground(solved, opts.ground, opts.surface)
     outdir.mkdir(parents=True, exist_ok=True)
     sheet = opts.sheet
-    drawing = dl.DrawingOptions(sheet.get("scale"), float(sheet.get("exaggeration", 10.0)),
-                                layers=opts.layers)
+    drawing = dl.DrawingOptions(
+        sheet.get("scale"), float(sheet.get("exaggeration", 10.0)), layers=opts.layers
+    )
     if solved.geometry is not None:
         _write(outdir / "profile.dxf", dl.profile_dxf(solved, drawing), inputs, written)
     if solved.horizontal is not None:
         _write(outdir / "plan.dxf", dl.plan_dxf(solved, drawing), inputs, written)
     if solved.geometry is not None:
-        sheet_opts = dl.sheet_options(solved, {k: v for k, v in sheet.items()
-                                               if k in dl.SHEET_KEYS})
+        sheet_opts = dl.sheet_options(
+            solved, {k: v for k, v in sheet.items() if k in dl.SHEET_KEYS}
+        )
         _write(outdir / "sheets.pdf", dl.sheets_pdf(solved, sheet_opts), inputs, written)
     _write(outdir / "curves.csv", dl.curve_table(solved), inputs, written)
     interval = float(sheet.get("interval") or doc.units.defaults.table_interval)
-    _write(outdir / "table.csv", dl.station_table(solved, dl.TableOptions(interval)), inputs,
-           written)
+    _write(
+        outdir / "table.csv", dl.station_table(solved, dl.TableOptions(interval)), inputs, written
+    )
     check_opts = dl.CheckOptions()
     tol = check_opts.tolerances()
     findings = dl.check_findings(solved, tol)
@@ -125,8 +127,9 @@ def _build_alignment(doc, al, outdir: Path, opts: BuildOptions, inputs: list[str
     _write(outdir / "check.txt", text, inputs, written)
     review_failed = None
     if opts.speed is not None and solved.geometry is not None:
-        text, review_failed = dl.review_report(solved, dl.ReviewOptions(opts.speed,
-                                                                        opts.speed_unit))
+        text, review_failed = dl.review_report(
+            solved, dl.ReviewOptions(opts.speed, opts.speed_unit)
+        )
         _write(outdir / "review.txt", text, inputs, written)
     if solved.horizontal is not None and solved.horizontal.findings:
         notes.append(f"{len(solved.horizontal.findings)} plan geometry findings (see check.txt)")
@@ -160,8 +163,13 @@ def build_file(job: BuildJob, outroot: str) -> list[ItemResult]:
     return out
 
 
-def build(jobs: Sequence[BuildJob], outroot: str, *, workers: int = 1,
-          progress: Callable[[int], None] | None = None) -> list[ItemResult]:
+def build(
+    jobs: Sequence[BuildJob],
+    outroot: str,
+    *,
+    workers: int = 1,
+    progress: Callable[[int], None] | None = None,
+) -> list[ItemResult]:
     """Build all jobs; with ``workers`` > 1 files run in a process pool."""
     results: list[list[ItemResult]] = [[] for _ in jobs]
     if workers > 1 and len(jobs) > 1:
@@ -189,15 +197,24 @@ def write_index(results: Sequence[ItemResult], outroot: str) -> tuple[str, str]:
         return os.path.relpath(p, root)
 
     items = [
-        {"file": r.file, "alignment": r.alignment, "failed": r.failed, "error": r.error,
-         "outputs": [rel(o) for o in r.outputs], "check_over_tolerance": r.check_over,
-         "review_failed": r.review_failed, "notes": list(r.notes)}
+        {
+            "file": r.file,
+            "alignment": r.alignment,
+            "failed": r.failed,
+            "error": r.error,
+            "outputs": [rel(o) for o in r.outputs],
+            "check_over_tolerance": r.check_over,
+            "review_failed": r.review_failed,
+            "notes": list(r.notes),
+        }
         for r in results
     ]
     failed = sum(r.failed for r in results)
     built = len(results) - failed
-    head = (f"{built} alignment{'s' if built != 1 else ''} built, {failed} failed; "
-            f"{sum(len(r.outputs) for r in results)} files written")
+    head = (
+        f"{built} alignment{'s' if built != 1 else ''} built, {failed} failed; "
+        f"{sum(len(r.outputs) for r in results)} files written"
+    )
     lines = [head, ""]
     for r in results:
         who = f"{r.file}" + (f" / {r.alignment}" if r.alignment else "")

@@ -75,8 +75,13 @@ def attach_ground(
     surf = read_surface(path, surface)
     warnings: list[GradelineError] = []
     if surf.skipped_faces:
-        warnings.append(GradelineError(f"{surf.skipped_faces} zero-area faces of surface "
-                                       f"{surf.name!r} were ignored", surf.source, "F"))
+        warnings.append(
+            GradelineError(
+                f"{surf.skipped_faces} zero-area faces of surface {surf.name!r} were ignored",
+                surf.source,
+                "F",
+            )
+        )
     return with_surface(solved, surf), warnings
 
 
@@ -101,8 +106,9 @@ class TableOptions:
     format: str = "csv"
 
 
-def _payload(solved: SolvedAlignment, columns: Sequence[str],
-             rows: list[dict[str, Any]]) -> dict[str, Any]:
+def _payload(
+    solved: SolvedAlignment, columns: Sequence[str], rows: list[dict[str, Any]]
+) -> dict[str, Any]:
     units = solved.document.units
     return {
         "file": solved.document.path,
@@ -117,8 +123,9 @@ def _payload(solved: SolvedAlignment, columns: Sequence[str],
     }
 
 
-def _render(solved: SolvedAlignment, fmt: str, columns: Sequence[str],
-            rows: list[dict[str, Any]]) -> str:
+def _render(
+    solved: SolvedAlignment, fmt: str, columns: Sequence[str], rows: list[dict[str, Any]]
+) -> str:
     from gradeline.render.outputs import csv_text, json_text
 
     if fmt == "json":
@@ -140,7 +147,7 @@ def station_table(solved: SolvedAlignment, opts: TableOptions) -> str:
         interval = opts.interval or solved.document.units.defaults.table_interval
         stations, tags = tables.table_stations(solved, interval=interval)
     rows = tables.station_rows(solved, stations, tags)
-    columns = tables.STATION_COLUMNS
+    columns: tuple[str, ...] = tables.STATION_COLUMNS
     if solved.surface is not None:
         columns = tables.add_ground_columns(solved, stations, rows)
     return _render(solved, opts.format, columns, rows)
@@ -179,8 +186,13 @@ def profile_dxf(solved: SolvedAlignment, opts: DrawingOptions) -> bytes:
 
     lay = opts.layout(solved)
     drawing = drafting.profile_drawing(solved, lay, opts.curves)
-    return write_dxf(drawing, lay, version=opts.version, curves=opts.curves,
-                     linear_unit=solved.document.units.linear)
+    return write_dxf(
+        drawing,
+        lay,
+        version=opts.version,
+        curves=opts.curves,
+        linear_unit=solved.document.units.linear,
+    )
 
 
 def plan_dxf(solved: SolvedAlignment, opts: DrawingOptions) -> bytes:
@@ -192,27 +204,38 @@ def plan_dxf(solved: SolvedAlignment, opts: DrawingOptions) -> bytes:
         raise UsageError(f"alignment {solved.alignment.name!r} has no CoordGeom; no plan to draw")
     lay = opts.layout(solved)
     drawing = drafting.plan_drawing(solved, lay)
-    return write_dxf(drawing, lay, version=opts.version, curves=opts.curves,
-                     linear_unit=solved.document.units.linear)
+    return write_dxf(
+        drawing,
+        lay,
+        version=opts.version,
+        curves=opts.curves,
+        linear_unit=solved.document.units.linear,
+    )
 
 
 # --------------------------------------------------------------------------- sheets
 #: Keys of the ``[sheet]`` table of a configuration file.
-SHEET_KEYS = frozenset({"project", "date", "drawn_by", "size", "scale", "exaggeration",
-                        "interval", "sheet_prefix"})
+SHEET_KEYS = frozenset(
+    {"project", "date", "drawn_by", "size", "scale", "exaggeration", "interval", "sheet_prefix"}
+)
 
 
 def check_sheet_config(config: Mapping[str, Any], config_name: str = "config") -> None:
     """Refuse unknown keys in a ``[sheet]`` table (typos would be ignored silently)."""
     unknown = sorted(set(config) - SHEET_KEYS)
     if unknown:
-        raise UsageError(f"{config_name}: unknown [sheet] key {unknown[0]!r}; keys: "
-                         + ", ".join(sorted(SHEET_KEYS)))
+        raise UsageError(
+            f"{config_name}: unknown [sheet] key {unknown[0]!r}; keys: "
+            + ", ".join(sorted(SHEET_KEYS))
+        )
 
 
-def sheet_options(solved: SolvedAlignment, config: Mapping[str, Any] | None = None,
-                  overrides: Mapping[str, Any] | None = None,
-                  config_name: str = "config") -> SheetOptions:
+def sheet_options(
+    solved: SolvedAlignment,
+    config: Mapping[str, Any] | None = None,
+    overrides: Mapping[str, Any] | None = None,
+    config_name: str = "config",
+) -> SheetOptions:
     """Sheet options: ``overrides`` (command-line values, None = not given) over the
     ``[sheet]`` table of a configuration over the unit defaults."""
     from gradeline.sheets.layout import PAPER_SIZES
@@ -278,9 +301,17 @@ def review_report(solved: SolvedAlignment, opts: ReviewOptions) -> tuple[str, bo
     given = opts.speed_unit or crit.speed_unit
     if given != crit.speed_unit:  # the file's units decide the controls; convert the speed
         speed = speed * review.MPH_TO_KMH if given == "mph" else speed / review.MPH_TO_KMH
-    rev = review.review_profile(solved.geometry, crit, speed, curbed=opts.curbed,
-                                passing=opts.passing, step=opts.step, length_unit=units.symbol,
-                                horizontal_curves=solved.curves, e_max=opts.e_max)
+    rev = review.review_profile(
+        solved.geometry,
+        crit,
+        speed,
+        curbed=opts.curbed,
+        passing=opts.passing,
+        step=opts.step,
+        length_unit=units.symbol,
+        horizontal_curves=solved.curves,
+        e_max=opts.e_max,
+    )
     text = json_text(review_payload(solved, rev)) if opts.json else review_text(solved, rev)
     return text, rev.failed
 
@@ -305,8 +336,9 @@ class CheckOptions:
         return Tolerances(self.tolerance, math.radians(self.angle_tolerance_sec / 3600.0))
 
 
-def check_findings(target: SolvedAlignment | Document, tol: Tolerances,
-                   alignment: str | None = None) -> list[Finding]:
+def check_findings(
+    target: SolvedAlignment | Document, tol: Tolerances, alignment: str | None = None
+) -> list[Finding]:
     """Findings of one solved alignment, or of a document's chosen (or every) alignment."""
     from gradeline.analysis import check
 
@@ -315,9 +347,16 @@ def check_findings(target: SolvedAlignment | Document, tol: Tolerances,
     return check.check_document(target, alignment, tol)
 
 
-def check_report(doc: Document, findings: list[Finding], tol: Tolerances, opts: CheckOptions,
-                 drawing: Any = None, drawing_name: str = "", layer: str = "",
-                 stationing: Any = None) -> tuple[str, bool]:
+def check_report(
+    doc: Document,
+    findings: list[Finding],
+    tol: Tolerances,
+    opts: CheckOptions,
+    drawing: Any = None,
+    drawing_name: str = "",
+    layer: str = "",
+    stationing: Any = None,
+) -> tuple[str, bool]:
     """The cross-check report (text or JSON) and whether anything is over tolerance."""
     from gradeline.render.outputs import json_text
     from gradeline.render.reports import check_payload, check_text
@@ -327,6 +366,6 @@ def check_report(doc: Document, findings: list[Finding], tol: Tolerances, opts: 
     else:
         text = check_text(doc, findings, drawing, tol, drawing_name, layer, stationing)
     over = any(f.verdict == "over" for f in findings) or (
-        drawing is not None and bool(drawing.over or drawing.uncovered))
+        drawing is not None and bool(drawing.over or drawing.uncovered)
+    )
     return text, over
-

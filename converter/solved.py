@@ -16,6 +16,8 @@ from functools import cached_property
 from typing import TYPE_CHECKING
 
 import numpy as np
+from numpy.typing import ArrayLike, NDArray
+
 from gradeline.errors import InputError, ModelError
 from gradeline.geometry import horizontal, vertical
 from gradeline.geometry.curve_data import HorizontalCurve, curve_data
@@ -24,7 +26,6 @@ from gradeline.geometry.horizontal import HorizontalGeometry
 from gradeline.geometry.stations import Stationing
 from gradeline.geometry.vertical import JOIN_TOLERANCE, KeyPoint, VerticalGeometry
 from gradeline.model import Alignment, Document, Profile, SourceRef, Surface
-from numpy.typing import ArrayLike, NDArray
 
 if TYPE_CHECKING:
     from gradeline.geometry.ground import TriangleIndex
@@ -116,8 +117,9 @@ class SolvedAlignment:
             found += [(k.station, tag) for tag in k.tags]
         found += list(self.plan_key_points)
         lo, hi = self.start, self.end
-        found += [(e.internal, "EQUATION") for e in self.stationing.equations
-                  if lo <= e.internal <= hi]
+        found += [
+            (e.internal, "EQUATION") for e in self.stationing.equations if lo <= e.internal <= hi
+        ]
         found = [(s, t) for s, t in found if lo - JOIN_TOLERANCE <= s <= hi + JOIN_TOLERANCE]
         found.sort(key=lambda p: p[0])
         merged: list[KeyPoint] = []
@@ -162,8 +164,9 @@ class SolvedAlignment:
     def direction(self, heading: ArrayLike) -> NDArray[np.float64]:
         """Headings as directions in the file's convention and direction unit."""
         assert self.horizontal is not None
-        return horizontal.direction_value(heading, self.horizontal.convention,
-                                          self.document.units.direction)
+        return horizontal.direction_value(
+            heading, self.horizontal.convention, self.document.units.direction
+        )
 
     def ground_at(self, stations: ArrayLike) -> NDArray[np.float64]:
         """Exact TIN ground at internal stations (NaN off the surface; needs a surface)."""
@@ -264,10 +267,15 @@ def with_surface(solved: SolvedAlignment, surface: Surface) -> SolvedAlignment:
         raise InputError(
             f"surface units ({surface.linear_unit}) differ from the alignment's "
             f"({units.linear}); both files must share units and coordinate system",
-            SourceRef(src.path), "Units")
+            SourceRef(src.path),
+            "Units",
+        )
     if solved.horizontal is None:
-        raise InputError(f"alignment {solved.alignment.name!r} has no CoordGeom to sample the "
-                         "surface along", solved.alignment.source, "Alignment")
+        raise InputError(
+            f"alignment {solved.alignment.name!r} has no CoordGeom to sample the surface along",
+            solved.alignment.source,
+            "Alignment",
+        )
     index = gr.TriangleIndex(surface)
     stations, z = gr.sample_alignment(solved.horizontal, index, lo=solved.start, hi=solved.end)
     ground = gr.ground_profile(surface.name, stations, z, surface.source)

@@ -16,8 +16,13 @@ ROOT = Path(__file__).resolve().parent.parent
 sys.path.insert(0, str(ROOT))
 
 
-def render_dxf(dxf_bytes: bytes, window: tuple[float, float, float, float], width_in: float,
-               out: Path, dpi: int = 110) -> None:
+def render_dxf(
+    dxf_bytes: bytes,
+    window: tuple[float, float, float, float],
+    width_in: float,
+    out: Path,
+    dpi: int = 110,
+) -> None:
     """Render a DXF to PNG, showing only ``window`` = (x0, x1, y0, y1) in model units."""
     import ezdxf
     import matplotlib
@@ -32,10 +37,14 @@ def render_dxf(dxf_bytes: bytes, window: tuple[float, float, float, float], widt
     x0, x1, y0, y1 = window
     fig = plt.figure(figsize=(width_in, width_in * (y1 - y0) / (x1 - x0)), dpi=dpi)
     ax = fig.add_axes([0, 0, 1, 1])
-    cfg = Configuration(background_policy=BackgroundPolicy.WHITE,
-                        color_policy=ColorPolicy.COLOR, lineweight_scaling=2.0)
+    cfg = Configuration(
+        background_policy=BackgroundPolicy.WHITE,
+        color_policy=ColorPolicy.COLOR,
+        lineweight_scaling=2.0,
+    )
     Frontend(RenderContext(doc), MatplotlibBackend(ax), config=cfg).draw_layout(
-        doc.modelspace(), finalize=False)
+        doc.modelspace(), finalize=False
+    )
     ax.set_aspect("equal")
     ax.set_xlim(x0, x1)
     ax.set_ylim(y0, y1)
@@ -55,9 +64,9 @@ def main() -> None:
     prof = write_dxf(drafting.profile_drawing(ctx, lay), lay, linear_unit="USSurveyFoot")
     render_dxf(prof, (1330.0, 2430.0, -40.0, 360.0), 12.0, ROOT / "docs" / "profile.png", dpi=150)
     plan = write_dxf(drafting.plan_drawing(ctx, lay), lay, linear_unit="USSurveyFoot")
-    render_dxf(plan, (21250.0, 22450.0, 10430.0, 10830.0), 12.0, ROOT / "docs" / "plan.png", dpi=150)
-
-
+    render_dxf(
+        plan, (21250.0, 22450.0, 10430.0, 10830.0), 12.0, ROOT / "docs" / "plan.png", dpi=150
+    )
 
 
 def sheet_page() -> None:
@@ -71,13 +80,32 @@ def sheet_page() -> None:
 
     cfg = read_config(str(ROOT / "samples" / "sheets.toml"))["sheet"]
     ctx = select(ROOT / "samples" / "orrin-vale-bypass.xml", "Orrin Vale Bypass")
-    opts = SheetOptions(size="ansi-d", project=cfg["project"], date=cfg["date"],
-                        drawn_by=cfg["drawn_by"], sheet_prefix=cfg["sheet_prefix"])
+    opts = SheetOptions(
+        size="ansi-d",
+        project=cfg["project"],
+        date=cfg["date"],
+        drawn_by=cfg["drawn_by"],
+        sheet_prefix=cfg["sheet_prefix"],
+    )
     with tempfile.TemporaryDirectory() as tmp:
         pdf = Path(tmp) / "s.pdf"
         pdf.write_bytes(render_sheets(ctx, opts))
-        subprocess.run(["pdftoppm", "-r", "60", "-f", "2", "-l", "2", "-png", "-singlefile",
-                        str(pdf), str(ROOT / "docs" / "sheet")], check=True)
+        subprocess.run(
+            [
+                "pdftoppm",
+                "-r",
+                "60",
+                "-f",
+                "2",
+                "-l",
+                "2",
+                "-png",
+                "-singlefile",
+                str(pdf),
+                str(ROOT / "docs" / "sheet"),
+            ],
+            check=True,
+        )
 
 
 if __name__ == "__main__":

@@ -26,7 +26,7 @@ def pvi_line(pvis):
     """Piecewise-linear interpolation through (station, elevation) pairs."""
 
     def f(s):
-        for (s0, z0), (s1, z1) in zip(pvis, pvis[1:]):
+        for (s0, z0), (s1, z1) in zip(pvis, pvis[1:], strict=False):
             if s0 <= s <= s1:
                 return z0 + (z1 - z0) * (s - s0) / (s1 - s0)
         return pvis[-1][1] if s > pvis[-1][0] else pvis[0][1]
@@ -134,7 +134,7 @@ class PlanBuilder:
     def xml(self, sta_start):
         body = "\n".join(self.out)
         self.out = []
-        return f'      <CoordGeom>\n{body}\n      </CoordGeom>\n', self.station
+        return f"      <CoordGeom>\n{body}\n      </CoordGeom>\n", self.station
 
 
 def fmt_pairs(pairs, nd):
@@ -233,8 +233,9 @@ def write_us():
     lane_plan.line(1150.0 - lane_plan.station)
     lane_coord, lane_total = lane_plan.xml(0.0)
     text = header("Marrow County Route 9 realignment (invented)", units)
-    text += alignment_xml(name, "Mainline, design speed 50 mph", 1000.0, total, pvis, 2, gpts,
-                          coord)
+    text += alignment_xml(
+        name, "Mainline, design speed 50 mph", 1000.0, total, pvis, 2, gpts, coord
+    )
     text += alignment_xml(lane_name, "Side road", 0.0, lane_total, lane, 2, lpts, lane_coord)
     text += "  </Alignments>\n</LandXML>\n"
     (HERE / "orrin-vale-bypass.xml").write_text(text, encoding="utf-8")
@@ -279,14 +280,24 @@ def write_metric():
     coord, total = plan.xml(0.0)
     text = header("Tarnholm Link Road (invented)", units)
     text += alignment_xml(
-        "Tarnholm Link Road", "Link road, design speed 80 km/h", 0.0, total, pvis, 3, gpts,
-        coord + eq
+        "Tarnholm Link Road",
+        "Link road, design speed 80 km/h",
+        0.0,
+        total,
+        pvis,
+        3,
+        gpts,
+        coord + eq,
     )
     text += "  </Alignments>\n"
 
     def height(x, y):
-        return 86.0 + 0.008 * (x - 387150.0) + 2.5 * math.sin((y - 6712000.0) / 90.0) + 1.2 * math.sin(
-            x / 60.0)
+        return (
+            86.0
+            + 0.008 * (x - 387150.0)
+            + 2.5 * math.sin((y - 6712000.0) / 90.0)
+            + 1.2 * math.sin(x / 60.0)
+        )
 
     text += "  <Surfaces>\n"
     text += tin_xml("Survey 2026 west", 387100.0, 388100.0, 6711950.0, 6712450.0, 20.0, height)
@@ -305,7 +316,9 @@ def tin_xml(name, x0, x1, y0, y1, step, height, hole=None, nd=3):
     pts = []
     for j, y in enumerate(ys):
         for i, x in enumerate(xs):
-            pts.append(f'          <P id="{j * nx + i + 1}">{y:.{nd}f} {x:.{nd}f} {height(x, y):.{nd}f}</P>')
+            pts.append(
+                f'          <P id="{j * nx + i + 1}">{y:.{nd}f} {x:.{nd}f} {height(x, y):.{nd}f}</P>'
+            )
     faces = []
     for j in range(len(ys) - 1):
         for i in range(nx - 1):
@@ -317,17 +330,26 @@ def tin_xml(name, x0, x1, y0, y1, step, height, hole=None, nd=3):
                 hidden = hole is not None and math.hypot(cx - hole[0], cy - hole[1]) < hole[2]
                 flag = ' i="1"' if hidden else ""
                 faces.append(f"          <F{flag}>{tri[0]} {tri[1]} {tri[2]}</F>")
-    return (f'    <Surface name="{name}" desc="Invented survey surface">\n'
-            f'      <Definition surfType="TIN">\n        <Pnts>\n' + "\n".join(pts) +
-            "\n        </Pnts>\n        <Faces>\n" + "\n".join(faces) +
-            "\n        </Faces>\n      </Definition>\n    </Surface>\n")
+    return (
+        f'    <Surface name="{name}" desc="Invented survey surface">\n'
+        f'      <Definition surfType="TIN">\n        <Pnts>\n'
+        + "\n".join(pts)
+        + "\n        </Pnts>\n        <Faces>\n"
+        + "\n".join(faces)
+        + "\n        </Faces>\n      </Definition>\n    </Surface>\n"
+    )
 
 
 def write_terrain():
     """A separate terrain file for the bypass corridor (US survey feet), with a pond."""
+
     def height(x, y):
-        return (516.0 + 11.0 * math.sin((x - 20400.0) / 900.0) + 5.0 * math.cos((y - 10300.0) / 480.0)
-                + 1.5 * math.sin(x / 130.0 + y / 170.0))
+        return (
+            516.0
+            + 11.0 * math.sin((x - 20400.0) / 900.0)
+            + 5.0 * math.cos((y - 10300.0) / 480.0)
+            + 1.5 * math.sin(x / 130.0 + y / 170.0)
+        )
 
     units = (
         '    <Imperial areaUnit="squareFoot" linearUnit="USSurveyFoot" volumeUnit="cubicYard"'
@@ -335,10 +357,20 @@ def write_terrain():
         ' directionUnit="decimal degrees"/>'
     )
     text = header("Marrow County Route 9 realignment (invented)", units).replace(
-        '  <Alignments name="Sample alignments">\n', "")
+        '  <Alignments name="Sample alignments">\n', ""
+    )
     text += "  <Surfaces>\n"
-    text += tin_xml("Existing ground 2026", 20300.0, 25400.0, 10100.0, 11700.0, 50.0, height,
-                    hole=(23950.0, 10820.0, 70.0), nd=2)
+    text += tin_xml(
+        "Existing ground 2026",
+        20300.0,
+        25400.0,
+        10100.0,
+        11700.0,
+        50.0,
+        height,
+        hole=(23950.0, 10820.0, 70.0),
+        nd=2,
+    )
     text += "  </Surfaces>\n</LandXML>\n"
     (HERE / "orrin-vale-terrain.xml").write_text(text, encoding="utf-8")
 

@@ -28,8 +28,10 @@ def runs(out: Path) -> list[tuple[str, list[str]]]:
         ("info.txt", ["info", BYPASS]),
         ("info-link.json", ["info", LINK, "--json"]),
         ("table.csv", ["table", BYPASS, *MAIN, "--interval", "50"]),
-        ("table-ground.json", ["table", BYPASS, *MAIN, "--interval", "100", "--ground", TERRAIN,
-                               "--format", "json"]),
+        (
+            "table-ground.json",
+            ["table", BYPASS, *MAIN, "--interval", "100", "--ground", TERRAIN, "--format", "json"],
+        ),
         ("table-link.csv", ["table", LINK, "--interval", "20", "--surface", "Survey 2026 west"]),
         ("table-at.csv", ["table", BYPASS, *MAIN, "--at", "15+00,17+50"]),
         ("curves.csv", ["curves", BYPASS, *MAIN]),
@@ -42,17 +44,76 @@ def runs(out: Path) -> list[tuple[str, list[str]]]:
         ("review-link.json", ["review", LINK, "--speed", "80", "--json"]),
         ("check.txt", ["check", BYPASS]),
         ("check-link.json", ["check", LINK, "--json"]),
-        ("-", ["dxf", BYPASS, *MAIN, "-o", f"{o}/profile.dxf", "--plan", f"{o}/plan.dxf",
-               "--ground", TERRAIN]),
-        ("-", ["dxf", LINK, "-o", f"{o}/link-r12.dxf", "--dxf-version", "R12",
-               "--curves", "polyline"]),
-        ("-", ["dxf", LINK, "-o", f"{o}/link.dxf", "--plan", f"{o}/link-plan.dxf",
-               "--config", CONFIG]),
+        (
+            "-",
+            [
+                "dxf",
+                BYPASS,
+                *MAIN,
+                "-o",
+                f"{o}/profile.dxf",
+                "--plan",
+                f"{o}/plan.dxf",
+                "--ground",
+                TERRAIN,
+            ],
+        ),
+        (
+            "-",
+            [
+                "dxf",
+                LINK,
+                "-o",
+                f"{o}/link-r12.dxf",
+                "--dxf-version",
+                "R12",
+                "--curves",
+                "polyline",
+            ],
+        ),
+        (
+            "-",
+            [
+                "dxf",
+                LINK,
+                "-o",
+                f"{o}/link.dxf",
+                "--plan",
+                f"{o}/link-plan.dxf",
+                "--config",
+                CONFIG,
+            ],
+        ),
         ("check-dxf.txt", ["check", BYPASS, *MAIN, "--dxf", f"{o}/profile.dxf"]),
         ("-", ["fit", f"{o}/profile.dxf", "--layer", "PROFILE-GRADE", "-o", f"{o}/fitted.xml"]),
-        ("-", ["sheets", BYPASS, *MAIN, "-o", f"{o}/sheets.pdf", "--config", CONFIG,
-               "--ground", TERRAIN]),
-        ("-", ["sheets", BYPASS, *MAIN, "-o", f"{o}/sheets-b.pdf", "--size", "ansi-b", "--scale", "100"]),
+        (
+            "-",
+            [
+                "sheets",
+                BYPASS,
+                *MAIN,
+                "-o",
+                f"{o}/sheets.pdf",
+                "--config",
+                CONFIG,
+                "--ground",
+                TERRAIN,
+            ],
+        ),
+        (
+            "-",
+            [
+                "sheets",
+                BYPASS,
+                *MAIN,
+                "-o",
+                f"{o}/sheets-b.pdf",
+                "--size",
+                "ansi-b",
+                "--scale",
+                "100",
+            ],
+        ),
         ("-", ["sheets", LINK, "-o", f"{o}/sheets-link.pdf", "--size", "iso-a3"]),
         ("demo.txt", ["demo", "-o", f"{o}/demo"]),
         ("build.txt", ["build", "samples", "-o", f"{o}/build", "--speed", "50", "--jobs", "1"]),
@@ -65,8 +126,9 @@ def main() -> int:
     out.mkdir(parents=True, exist_ok=True)
     env = dict(os.environ, PYTHONHASHSEED="0")
     for name, argv in runs(out):
-        proc = subprocess.run([sys.executable, "-m", module, *argv], capture_output=True,
-                              env=env, check=False)
+        proc = subprocess.run(
+            [sys.executable, "-m", module, *argv], capture_output=True, env=env, check=False
+        )
         text = proc.stdout.decode().replace(str(out), "OUT")
         if name != "-":
             (out / name).write_text(text)

@@ -101,7 +101,9 @@ def sheet_geometry(size: str) -> SheetGeometry:
     plan = Viewport(border.x + inner, usable_y + usable_h - plan_h, border.w - 2 * inner, plan_h)
     prof_h = usable_h - plan_h - inner
     profile = Viewport(border.x + inner, usable_y, border.w - 2 * inner, prof_h)
-    return SheetGeometry(size, width, height, margin, border, title, plan, profile, 9.0 * max(f, 0.7))
+    return SheetGeometry(
+        size, width, height, margin, border, title, plan, profile, 9.0 * max(f, 0.7)
+    )
 
 
 @dataclass(frozen=True, slots=True)
@@ -125,8 +127,9 @@ def model_per_point(layout: DraftingLayout) -> float:
     return POINT_M / layout.paper_m * layout.scale
 
 
-def sheet_frames(start: float, end: float, geometry: SheetGeometry,
-                 layout: DraftingLayout) -> list[Frame]:
+def sheet_frames(
+    start: float, end: float, geometry: SheetGeometry, layout: DraftingLayout
+) -> list[Frame]:
     """Split [start, end] into sheets with round match stations and a small overlap.
 
     Each sheet shows a whole number of major stations between its match lines
@@ -158,8 +161,10 @@ def sheet_frames(start: float, end: float, geometry: SheetGeometry,
     first = math.floor(start / major + 1e-9) * major
     count = max(1, math.ceil((end - first) / span - 1e-9))
     if count > 5000:
-        raise UsageError(f"{count:,} sheets would be needed (at most 5,000); is a length in the "
-                         "file wrong, or should the scale be smaller?")
+        raise UsageError(
+            f"{count:,} sheets would be needed (at most 5,000); is a length in the "
+            "file wrong, or should the scale be smaller?"
+        )
     frames = []
     for i in range(count):
         m0 = first + i * span
@@ -213,4 +218,3 @@ def pack_tables(counts: list[int], capacity: int) -> list[list[tuple[int, int, i
 
 #: Height of a table row as a multiple of the sheet text size.
 TABLE_ROW = 1.7
-

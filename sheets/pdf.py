@@ -12,6 +12,9 @@ import math
 from dataclasses import dataclass
 
 import numpy as np
+from reportlab.pdfbase.pdfmetrics import stringWidth
+from reportlab.pdfgen import canvas as rl_canvas
+
 from gradeline.present import drafting, labels
 from gradeline.present.items import ArcItem, Circle, Drawing, Path, QuadCurve, Text
 from gradeline.present.layout import DraftingLayout, default_layout
@@ -30,8 +33,6 @@ from gradeline.sheets.layout import (
 )
 from gradeline.sheets.views import SheetView, sheet_view
 from gradeline.solved import SolvedAlignment
-from reportlab.pdfbase.pdfmetrics import stringWidth
-from reportlab.pdfgen import canvas as rl_canvas
 
 __all__ = ["SheetOptions", "page_plan", "render_sheets"]
 
@@ -56,8 +57,13 @@ class SheetOptions:
 class _Xform:
     """Model -> paper: optional rotation about a model point, then scale and shift."""
 
-    def __init__(self, per_pt: float, origin: tuple[float, float], target: tuple[float, float],
-                 angle: float = 0.0) -> None:
+    def __init__(
+        self,
+        per_pt: float,
+        origin: tuple[float, float],
+        target: tuple[float, float],
+        angle: float = 0.0,
+    ) -> None:
         self.k = 1.0 / per_pt
         self.ox, self.oy = origin
         self.tx, self.ty = target
@@ -66,14 +72,20 @@ class _Xform:
 
     def __call__(self, x: float, y: float) -> tuple[float, float]:
         dx, dy = x - self.ox, y - self.oy
-        return (self.tx + self.k * (self.c * dx - self.s * dy),
-                self.ty + self.k * (self.s * dx + self.c * dy))
+        return (
+            self.tx + self.k * (self.c * dx - self.s * dy),
+            self.ty + self.k * (self.s * dx + self.c * dy),
+        )
 
     def many(self, pts) -> np.ndarray:
         a = np.asarray(pts, dtype=float)
         dx, dy = a[:, 0] - self.ox, a[:, 1] - self.oy
-        return np.column_stack([self.tx + self.k * (self.c * dx - self.s * dy),
-                                self.ty + self.k * (self.s * dx + self.c * dy)])
+        return np.column_stack(
+            [
+                self.tx + self.k * (self.c * dx - self.s * dy),
+                self.ty + self.k * (self.s * dx + self.c * dy),
+            ]
+        )
 
 
 def _style(c, role: str, f: float) -> None:
@@ -86,8 +98,12 @@ def _style(c, role: str, f: float) -> None:
 
 
 def _inside(box: np.ndarray, vp: Viewport) -> bool:
-    return bool(box[:, 0].min() >= vp.x and box[:, 0].max() <= vp.x + vp.w
-                and box[:, 1].min() >= vp.y and box[:, 1].max() <= vp.y + vp.h)
+    return bool(
+        box[:, 0].min() >= vp.x
+        and box[:, 0].max() <= vp.x + vp.w
+        and box[:, 1].min() >= vp.y
+        and box[:, 1].max() <= vp.y + vp.h
+    )
 
 
 def _text(c, item: Text, xf: _Xform, vp: Viewport | None) -> None:
@@ -162,8 +178,11 @@ def _note_block(c, lines: list[Text], xf: _Xform, vp: Viewport, f: float) -> Non
     boxes = []
     for t in lines:
         x, y = xf(t.x, t.y)
-        boxes.append(Text(t.role, t.text, x, y, t.height * xf.k, t.rotation + xf.angle_deg,
-                          t.halign, t.valign).corners())
+        boxes.append(
+            Text(
+                t.role, t.text, x, y, t.height * xf.k, t.rotation + xf.angle_deg, t.halign, t.valign
+            ).corners()
+        )
     pts = np.concatenate(boxes)
     x0, y0 = pts.min(axis=0)
     x1, y1 = pts.max(axis=0)
@@ -171,7 +190,9 @@ def _note_block(c, lines: list[Text], xf: _Xform, vp: Viewport, f: float) -> Non
         return
     dx = max(0.0, vp.x - x0) - max(0.0, x1 - (vp.x + vp.w))
     dy = max(0.0, vp.y - y0) - max(0.0, y1 - (vp.y + vp.h))
-    shift = _Xform(1.0 / xf.k, (xf.ox, xf.oy), (xf.tx + dx, xf.ty + dy), -math.radians(xf.angle_deg))
+    shift = _Xform(
+        1.0 / xf.k, (xf.ox, xf.oy), (xf.tx + dx, xf.ty + dy), -math.radians(xf.angle_deg)
+    )
     for t in lines:
         _style(c, t.role, f)
         _text(c, t, shift, vp)
@@ -190,8 +211,12 @@ def _item_boxes(drawing: Drawing) -> np.ndarray:
         elif isinstance(it, QuadCurve):
             pts = np.asarray(it.control)
         else:
-            pts = np.array([[it.center[0] - it.radius, it.center[1] - it.radius],
-                            [it.center[0] + it.radius, it.center[1] + it.radius]])
+            pts = np.array(
+                [
+                    [it.center[0] - it.radius, it.center[1] - it.radius],
+                    [it.center[0] + it.radius, it.center[1] + it.radius],
+                ]
+            )
         out[i] = (pts[:, 0].min(), pts[:, 1].min(), pts[:, 0].max(), pts[:, 1].max())
     return out
 
@@ -228,13 +253,19 @@ def page_plan(ctx: SolvedAlignment, opts: SheetOptions) -> PagePlan:
     if ctx.geometry is not None:
         tabs.append(tables.vertical_curve_table(ctx))
         tabs.append(tables.station_table(ctx, interval))
-    pages = pack_tables([len(tab.rows) for tab in tabs],
-                        table_capacity(geo, TABLE_ROW * geo.text))
+    pages = pack_tables([len(tab.rows) for tab in tabs], table_capacity(geo, TABLE_ROW * geo.text))
     return PagePlan(frames, tabs, pages)
 
 
-def _title_block(c, geo: SheetGeometry, ctx: SolvedAlignment, opts: SheetOptions,
-                 page: int, total: int, scales: str) -> None:
+def _title_block(
+    c,
+    geo: SheetGeometry,
+    ctx: SolvedAlignment,
+    opts: SheetOptions,
+    page: int,
+    total: int,
+    scales: str,
+) -> None:
     t = geo.title
     f = geo.factor
     ts = geo.text
@@ -329,8 +360,17 @@ def _north_arrow(c, geo: SheetGeometry, angle: float) -> None:
     c.drawCentredString(cx + nx * (r + 0.9 * ts), cy + ny * (r + 0.9 * ts) - 0.36 * ts, "N")
 
 
-def _sheet(c, ctx, opts, geo, view: SheetView, total_frames: int, total_pages: int,
-           plan: Drawing | None, plan_boxes: np.ndarray | None) -> None:
+def _sheet(
+    c,
+    ctx,
+    opts,
+    geo,
+    view: SheetView,
+    total_frames: int,
+    total_pages: int,
+    plan: Drawing | None,
+    plan_boxes: np.ndarray | None,
+) -> None:
     f, ts = geo.factor, geo.text
     frame, prof, used = view.frame, view.profile, view.layout
     per_pt = model_per_point(used)
@@ -362,8 +402,12 @@ def _sheet(c, ctx, opts, geo, view: SheetView, total_frames: int, total_pages: i
         pxf = _Xform(per_pt, mid, (center_x, pvp.cy), angle)
         # cull items far from this sheet (bounding boxes in model space)
         reach = math.hypot(pvp.w, pvp.h) * per_pt
-        near = ((plan_boxes[:, 2] >= mid[0] - reach) & (plan_boxes[:, 0] <= mid[0] + reach)
-                & (plan_boxes[:, 3] >= mid[1] - reach) & (plan_boxes[:, 1] <= mid[1] + reach))
+        near = (
+            (plan_boxes[:, 2] >= mid[0] - reach)
+            & (plan_boxes[:, 0] <= mid[0] + reach)
+            & (plan_boxes[:, 3] >= mid[1] - reach)
+            & (plan_boxes[:, 1] <= mid[1] + reach)
+        )
         items = [plan.items[i] for i in np.flatnonzero(near)]
         _draw_items(c, items, pxf, pvp, f)
         for mark in pv.marks:
@@ -377,8 +421,11 @@ def _sheet(c, ctx, opts, geo, view: SheetView, total_frames: int, total_pages: i
             c.saveState()
             c.translate(px + dx * span, py + dy * span)
             c.rotate(math.degrees(math.atan2(dy, dx)) - 180)
-            c.drawString(0.3 * ts, (0.3 if mark.other_sheet > frame.number else -1.1) * ts,
-                         labels.match_line_text(st.label(mark.station), mark.other_sheet))
+            c.drawString(
+                0.3 * ts,
+                (0.3 if mark.other_sheet > frame.number else -1.1) * ts,
+                labels.match_line_text(st.label(mark.station), mark.other_sheet),
+            )
             c.restoreState()
         _north_arrow(c, geo, angle)
     _style(c, "frame", f)
@@ -389,7 +436,15 @@ def _sheet(c, ctx, opts, geo, view: SheetView, total_frames: int, total_pages: i
     c.setFillColorRGB(0, 0, 0)
     c.drawString(geo.plan.x + 0.5 * ts, geo.plan.y + geo.plan.h - 1.6 * ts, "PLAN")
     c.drawString(vp.x + 0.5 * ts, vp.y + vp.h - 1.6 * ts, "PROFILE")
-    _title_block(c, geo, ctx, opts, frame.number, total_pages, labels.scale_text(used.scale, used.exaggeration, ctx.document.units.metric))
+    _title_block(
+        c,
+        geo,
+        ctx,
+        opts,
+        frame.number,
+        total_pages,
+        labels.scale_text(used.scale, used.exaggeration, ctx.document.units.metric),
+    )
     _scale_bars(c, geo, ctx, used)
 
 
@@ -447,8 +502,7 @@ def render_sheets(ctx: SolvedAlignment, opts: SheetOptions) -> bytes:
     plan_info = page_plan(ctx, opts)
     total = plan_info.pages
     buf = io.BytesIO()
-    c = rl_canvas.Canvas(buf, pagesize=(geo.width, geo.height), invariant=1,
-                         pageCompression=1)
+    c = rl_canvas.Canvas(buf, pagesize=(geo.width, geo.height), invariant=1, pageCompression=1)
     c.setTitle(f"{ctx.alignment.name} - plan and profile")
     c.setAuthor(opts.drawn_by or "gradeline")
     c.setCreator("gradeline")
@@ -463,7 +517,15 @@ def render_sheets(ctx: SolvedAlignment, opts: SheetOptions) -> bytes:
     for chunks in plan_info.table_pages:
         page += 1
         _table_page(c, geo, [(plan_info.tables[i], a, b) for i, a, b in chunks])
-        _title_block(c, geo, ctx, opts, page, total, labels.scale_text(lay.scale, lay.exaggeration, ctx.document.units.metric))
+        _title_block(
+            c,
+            geo,
+            ctx,
+            opts,
+            page,
+            total,
+            labels.scale_text(lay.scale, lay.exaggeration, ctx.document.units.metric),
+        )
         c.showPage()
     c.save()
     return buf.getvalue()

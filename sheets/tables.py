@@ -10,6 +10,7 @@ import math
 from dataclasses import dataclass
 
 import numpy as np
+
 from gradeline.present import labels
 from gradeline.present import tables as rows
 from gradeline.solved import SolvedAlignment
@@ -28,7 +29,11 @@ class TextTable:
 
 
 def _len(value: float | None, ctx: SolvedAlignment) -> str:
-    return "" if value is None or not math.isfinite(value) else labels.length_text(value, ctx.document.units)
+    return (
+        ""
+        if value is None or not math.isfinite(value)
+        else labels.length_text(value, ctx.document.units)
+    )
 
 
 def _sta(value: float | None, ctx: SolvedAlignment) -> str:
@@ -44,20 +49,47 @@ def vertical_curve_table(ctx: SolvedAlignment) -> TextTable:
     out = []
     for i, r in enumerate(rows.vertical_curve_rows(ctx), start=1):
         turn = "HIGH" if r["type"] == "crest" else "LOW"
-        out.append((
-            str(i), _sta(r["pvi_station"], ctx), _len(r["pvi_elevation"], ctx),
-            _pct(r["grade_in"]), _pct(r["grade_out"]), _pct(r["A"]),
-            _len(r["length"], ctx), labels.k_text(r["K"]), r["type"].upper(),
-            _sta(r["bvc_station"], ctx), _len(r["bvc_elevation"], ctx),
-            _sta(r["evc_station"], ctx), _len(r["evc_elevation"], ctx),
-            (f"{turn} " + _sta(r["turning_station"], ctx)) if r["turning_station"] is not None else "",
-            _len(r["turning_elevation"], ctx),
-        ))
+        out.append(
+            (
+                str(i),
+                _sta(r["pvi_station"], ctx),
+                _len(r["pvi_elevation"], ctx),
+                _pct(r["grade_in"]),
+                _pct(r["grade_out"]),
+                _pct(r["A"]),
+                _len(r["length"], ctx),
+                labels.k_text(r["K"]),
+                r["type"].upper(),
+                _sta(r["bvc_station"], ctx),
+                _len(r["bvc_elevation"], ctx),
+                _sta(r["evc_station"], ctx),
+                _len(r["evc_elevation"], ctx),
+                (f"{turn} " + _sta(r["turning_station"], ctx))
+                if r["turning_station"] is not None
+                else "",
+                _len(r["turning_elevation"], ctx),
+            )
+        )
     u = ctx.document.units.symbol
     return TextTable(
         f"VERTICAL CURVE DATA - {ctx.alignment.name}",
-        ("NO.", "PVI STA", "PVI EL", "G1", "G2", "A", f"L ({u})", "K", "TYPE", "BVC STA",
-         "BVC EL", "EVC STA", "EVC EL", "HIGH/LOW PT", "EL"),
+        (
+            "NO.",
+            "PVI STA",
+            "PVI EL",
+            "G1",
+            "G2",
+            "A",
+            f"L ({u})",
+            "K",
+            "TYPE",
+            "BVC STA",
+            "BVC EL",
+            "EVC STA",
+            "EVC EL",
+            "HIGH/LOW PT",
+            "EL",
+        ),
         tuple(out),
         (0.5, 1.3, 1.0, 1.0, 1.0, 1.0, 1.0, 0.8, 0.8, 1.3, 1.0, 1.3, 1.0, 1.8, 1.0),
     )
@@ -70,22 +102,47 @@ def horizontal_curve_table(ctx: SolvedAlignment) -> TextTable:
     curves = ctx.curves
     for c, r in zip(curves, rows.horizontal_curve_rows(ctx), strict=True):
         spirals = c.spiral_in > 0 or c.spiral_out > 0
-        out.append((
-            str(c.number), _sta(r["pi_station"], ctx), _len(r["pi_northing"], ctx),
-            _len(r["pi_easting"], ctx), _len(r["radius"], ctx),
-            labels.dms_text(c.delta) + (" LT" if c.delta > 0 else " RT"),
-            _len(r["length"], ctx), _len(r["tangent"], ctx), _len(r["chord"], ctx),
-            _len(r["external"], ctx), _len(r["middle_ordinate"], ctx),
-            ("TS " if spirals and c.spiral_in else "PC ") + _sta(r["pc_station"], ctx),
-            _sta(r["sc_station"], ctx), _sta(r["cs_station"], ctx),
-            ("ST " if spirals and c.spiral_out else "PT ") + _sta(r["pt_station"], ctx),
-            (f"{_len(c.spiral_in, ctx)} / {_len(c.spiral_out, ctx)}" if spirals else ""),
-        ))
+        out.append(
+            (
+                str(c.number),
+                _sta(r["pi_station"], ctx),
+                _len(r["pi_northing"], ctx),
+                _len(r["pi_easting"], ctx),
+                _len(r["radius"], ctx),
+                labels.dms_text(c.delta) + (" LT" if c.delta > 0 else " RT"),
+                _len(r["length"], ctx),
+                _len(r["tangent"], ctx),
+                _len(r["chord"], ctx),
+                _len(r["external"], ctx),
+                _len(r["middle_ordinate"], ctx),
+                ("TS " if spirals and c.spiral_in else "PC ") + _sta(r["pc_station"], ctx),
+                _sta(r["sc_station"], ctx),
+                _sta(r["cs_station"], ctx),
+                ("ST " if spirals and c.spiral_out else "PT ") + _sta(r["pt_station"], ctx),
+                (f"{_len(c.spiral_in, ctx)} / {_len(c.spiral_out, ctx)}" if spirals else ""),
+            )
+        )
     u = ctx.document.units.symbol
     return TextTable(
         f"HORIZONTAL CURVE DATA - {ctx.alignment.name}",
-        ("NO.", "PI STA", "PI NORTHING", "PI EASTING", f"R ({u})", "DELTA", "L", "T", "CHORD",
-         "E", "M", "PC / TS", "SC", "CS", "PT / ST", "LS IN / OUT"),
+        (
+            "NO.",
+            "PI STA",
+            "PI NORTHING",
+            "PI EASTING",
+            f"R ({u})",
+            "DELTA",
+            "L",
+            "T",
+            "CHORD",
+            "E",
+            "M",
+            "PC / TS",
+            "SC",
+            "CS",
+            "PT / ST",
+            "LS IN / OUT",
+        ),
         tuple(out),
         (0.5, 1.2, 1.4, 1.4, 1.0, 1.5, 0.9, 0.9, 0.9, 0.8, 0.8, 1.4, 1.1, 1.1, 1.4, 1.4),
     )
@@ -100,16 +157,31 @@ def station_table(ctx: SolvedAlignment, interval: float) -> TextTable:
     for r, eg in zip(data, ground, strict=True):
         if not math.isfinite(r["elevation"]):
             continue
-        out.append((
-            r["station_label"], _len(r["tangent_elevation"], ctx), _len(r["offset"], ctx),
-            _len(r["elevation"], ctx), _pct(r["grade"]), _len(eg, ctx),
-            _len(r["elevation"] - eg, ctx) if math.isfinite(eg) else "", r["point"],
-        ))
+        out.append(
+            (
+                r["station_label"],
+                _len(r["tangent_elevation"], ctx),
+                _len(r["offset"], ctx),
+                _len(r["elevation"], ctx),
+                _pct(r["grade"]),
+                _len(eg, ctx),
+                _len(r["elevation"] - eg, ctx) if math.isfinite(eg) else "",
+                r["point"],
+            )
+        )
     return TextTable(
         f"FINISHED GRADE AT {labels.length_text(interval, ctx.document.units)} "
         f"{ctx.document.units.symbol} STATIONS - {ctx.alignment.name}",
-        ("STATION", "TANGENT EL", "CURVE OFFSET", "FINISHED GRADE", "GRADE", "EXISTING GROUND",
-         "FILL (+) / CUT (-)", "POINT"),
+        (
+            "STATION",
+            "TANGENT EL",
+            "CURVE OFFSET",
+            "FINISHED GRADE",
+            "GRADE",
+            "EXISTING GROUND",
+            "FILL (+) / CUT (-)",
+            "POINT",
+        ),
         tuple(out),
         (1.3, 1.2, 1.2, 1.3, 1.0, 1.3, 1.3, 1.6),
     )

@@ -58,16 +58,18 @@ class SheetView:
 _EXAGGERATION_DIVISORS = (1, 2, 5, 10)
 
 
-def _profile(ctx: SolvedAlignment, lay: DraftingLayout, geo: SheetGeometry,
-             frame: Frame) -> tuple[Drawing, DraftingLayout]:
+def _profile(
+    ctx: SolvedAlignment, lay: DraftingLayout, geo: SheetGeometry, frame: Frame
+) -> tuple[Drawing, DraftingLayout]:
     per_pt = model_per_point(lay)
     used = lay
     prof = None
     for divisor in _EXAGGERATION_DIVISORS:
         exag = lay.exaggeration / divisor
         used = replace(lay, exaggeration=exag)
-        prof = drafting.profile_drawing(ctx, used, window=(frame.view_start, frame.view_end),
-                                        strip=True)
+        prof = drafting.profile_drawing(
+            ctx, used, window=(frame.view_start, frame.view_end), strip=True
+        )
         _, y0, _, y1 = prof.extents
         if (y1 - y0) / per_pt <= geo.profile.h - 2.5 * geo.text or exag <= 1:
             break
@@ -92,8 +94,9 @@ def _plan(ctx: SolvedAlignment, frame: Frame, total_frames: int) -> PlanView | N
     return PlanView(a, b, angle, ((ea + eb) / 2, (na + nb) / 2), tuple(marks))
 
 
-def sheet_view(ctx: SolvedAlignment, lay: DraftingLayout, geo: SheetGeometry, frame: Frame,
-               total_frames: int) -> SheetView:
+def sheet_view(
+    ctx: SolvedAlignment, lay: DraftingLayout, geo: SheetGeometry, frame: Frame, total_frames: int
+) -> SheetView:
     """The profile drawing and plan view of one sheet."""
     prof, used = _profile(ctx, lay, geo, frame)
     return SheetView(frame, prof, used, _plan(ctx, frame, total_frames))

@@ -5,6 +5,7 @@ from __future__ import annotations
 from pathlib import Path
 
 import pytest
+
 from gradeline.model import Profile, PVISpec
 
 ROOT = Path(__file__).resolve().parent.parent

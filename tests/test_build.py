@@ -8,13 +8,15 @@ import subprocess
 import sys
 
 import pytest
-from gradeline.cli import main
 
+from gradeline.cli import main
 from tests.conftest import METRIC_SAMPLE, SAMPLES, US_SAMPLE
 
 
 def _tree(root):
-    return {str(p.relative_to(root)): p.read_bytes() for p in sorted(root.rglob("*")) if p.is_file()}
+    return {
+        str(p.relative_to(root)): p.read_bytes() for p in sorted(root.rglob("*")) if p.is_file()
+    }
 
 
 def test_demo_builds_everything(tmp_path, capsys):
@@ -26,8 +28,15 @@ def test_demo_builds_everything(tmp_path, capsys):
     index = json.loads((out / "index.json").read_text())
     for item in index["items"]:
         names = {os.path.basename(o) for o in item["outputs"]}
-        assert names == {"profile.dxf", "plan.dxf", "sheets.pdf", "curves.csv", "table.csv",
-                         "check.txt", "review.txt"}
+        assert names == {
+            "profile.dxf",
+            "plan.dxf",
+            "sheets.pdf",
+            "curves.csv",
+            "table.csv",
+            "check.txt",
+            "review.txt",
+        }
     table = (out / "orrin-vale-bypass" / "orrin-vale-bypass" / "table.csv").read_text()
     assert table.splitlines()[0].endswith(",ground,cut_fill")
 
@@ -36,10 +45,26 @@ def test_build_twice_gives_identical_bytes(tmp_path):
     trees = []
     for k, seed in enumerate(("2", "97")):
         out = tmp_path / f"b{k}"
-        subprocess.run([sys.executable, "-m", "gradeline", "build", str(US_SAMPLE),
-                        str(METRIC_SAMPLE), "-o", str(out), "--speed", "50", "--jobs", "2"],
-                       check=False, env=dict(os.environ, PYTHONHASHSEED=seed), timeout=300,
-                       capture_output=True)
+        subprocess.run(
+            [
+                sys.executable,
+                "-m",
+                "gradeline",
+                "build",
+                str(US_SAMPLE),
+                str(METRIC_SAMPLE),
+                "-o",
+                str(out),
+                "--speed",
+                "50",
+                "--jobs",
+                "2",
+            ],
+            check=False,
+            env=dict(os.environ, PYTHONHASHSEED=seed),
+            timeout=300,
+            capture_output=True,
+        )
         trees.append(_tree(out))
     assert trees[0].keys() == trees[1].keys() and len(trees[0]) > 10
     assert trees[0] == trees[1]
@@ -74,8 +99,12 @@ def test_review_findings_give_exit_1(tmp_path, capsys):
 
 @pytest.mark.cli
 def test_demo_from_console(tmp_path):
-    done = subprocess.run(["gradeline", "demo", "-o", str(tmp_path / "d")], capture_output=True,
-                          text=True, timeout=300)
+    done = subprocess.run(
+        ["gradeline", "demo", "-o", str(tmp_path / "d")],
+        capture_output=True,
+        text=True,
+        timeout=300,
+    )
     assert done.returncode in (0, 1), done.stderr
     assert (tmp_path / "d" / "index.txt").exists()
     assert SAMPLES.exists()

@@ -10,8 +10,8 @@ import subprocess
 import sys
 
 import pytest
-from gradeline.cli import main
 
+from gradeline.cli import main
 from tests.conftest import METRIC_SAMPLE, ROOT, US_SAMPLE
 
 BYPASS = ["--alignment", "Orrin Vale Bypass"]
@@ -27,9 +27,18 @@ def test_table_csv(capsys):
     code, out, err = run(capsys, "table", US_SAMPLE, *BYPASS, "--interval", "100")
     assert code == 0 and err == ""
     rows = list(csv.DictReader(io.StringIO(out)))
-    assert list(rows[0]) == ["station", "station_label", "elevation", "grade",
-                             "tangent_elevation", "offset", "northing", "easting",
-                             "direction", "point"]
+    assert list(rows[0]) == [
+        "station",
+        "station_label",
+        "elevation",
+        "grade",
+        "tangent_elevation",
+        "offset",
+        "northing",
+        "easting",
+        "direction",
+        "point",
+    ]
     bvc = next(r for r in rows if r["point"] == "BVC")
     assert bvc["station_label"] == "14+50.00"
     # 512.40 + 2.366667 % * 450 ft = 523.05 (PVIs of the sample)
@@ -37,8 +46,9 @@ def test_table_csv(capsys):
 
 
 def test_table_json_keys_equal_csv_header(capsys):
-    code, out, _ = run(capsys, "table", US_SAMPLE, *BYPASS, "--at", "15+00,34+50",
-                       "--format", "json")
+    code, out, _ = run(
+        capsys, "table", US_SAMPLE, *BYPASS, "--at", "15+00,34+50", "--format", "json"
+    )
     data = json.loads(out)
     assert code == 0
     assert data["columns"] == list(data["rows"][0])
@@ -81,49 +91,58 @@ def test_refuses_to_overwrite_input(tmp_path, capsys):
 BAD_CASES = {
     "truncated": (b'<LandXML><Alignments><Alignment name="x"', r":1: XML: not well-formed"),
     "not-xml": (b"\x89PNG\r\n\x1a\n\x00\x00garbage", r": XML: not well-formed"),
-    "no-alignments": (b'<LandXML><Units><Metric linearUnit="meter"/></Units></LandXML>',
-                      r": Alignments: the file has no alignments"),
+    "no-alignments": (
+        b'<LandXML><Units><Metric linearUnit="meter"/></Units></LandXML>',
+        r": Alignments: the file has no alignments",
+    ),
     "pvis-decrease": (
         b'<LandXML><Units><Metric linearUnit="meter"/></Units><Alignments>\n'
         b'<Alignment name="a"><Profile><ProfAlign>\n<PVI>0 1</PVI>\n<PVI>50 2</PVI>\n'
         b"<PVI>40 2</PVI>\n</ProfAlign></Profile></Alignment></Alignments></LandXML>",
-        r":5: PVI: PVI stations must increase: 40 after 50"),
+        r":5: PVI: PVI stations must increase: 40 after 50",
+    ),
     "overlap": (
         b'<LandXML><Units><Metric linearUnit="meter"/></Units><Alignments>\n'
         b'<Alignment name="a"><Profile><ProfAlign>\n<PVI>0 1</PVI>\n'
         b'<ParaCurve length="60">50 2</ParaCurve>\n<ParaCurve length="60">90 1</ParaCurve>\n'
         b"<PVI>200 2</PVI>\n</ProfAlign></Profile></Alignment></Alignments></LandXML>",
         r":5: ParaCurve: vertical curves overlap: BVC 0\+060.000 is before the previous "
-        r"EVC 0\+080.000"),
+        r"EVC 0\+080.000",
+    ),
     "past-end": (
         b'<LandXML><Units><Metric linearUnit="meter"/></Units><Alignments>\n'
         b'<Alignment name="a"><Profile><ProfAlign>\n<PVI>0 1</PVI>\n'
         b'<ParaCurve length="80">50 2</ParaCurve>\n'
         b"<PVI>80 2</PVI>\n</ProfAlign></Profile></Alignment></Alignments></LandXML>",
-        r":4: ParaCurve: vertical curve reaches past the end of the profile"),
+        r":4: ParaCurve: vertical curve reaches past the end of the profile",
+    ),
     "zero-length": (
         b'<LandXML><Units><Metric linearUnit="meter"/></Units><Alignments>\n'
         b'<Alignment name="a"><Profile><ProfAlign>\n<PVI>0 1</PVI>\n'
         b'<ParaCurve length="0">50 2</ParaCurve>\n'
         b"<PVI>80 2</PVI>\n</ProfAlign></Profile></Alignment></Alignments></LandXML>",
-        r":4: ParaCurve: curve length must be positive"),
+        r":4: ParaCurve: curve length must be positive",
+    ),
     "non-numeric": (
         b'<LandXML><Units><Metric linearUnit="meter"/></Units><Alignments>\n'
         b'<Alignment name="a"><Profile><ProfAlign>\n<PVI>0 1</PVI>\n'
         b'<ParaCurve length="ten">50 2</ParaCurve>\n'
         b"<PVI>80 2</PVI>\n</ProfAlign></Profile></Alignment></Alignments></LandXML>",
-        r":4: ParaCurve: length 'ten' is not a number"),
+        r":4: ParaCurve: length 'ten' is not a number",
+    ),
     "non-finite": (
         b'<LandXML><Units><Metric linearUnit="meter"/></Units><Alignments>\n'
         b'<Alignment name="a"><Profile><ProfAlign>\n<PVI>0 1</PVI>\n'
         b"<PVI>NaN 2</PVI>\n</ProfAlign></Profile></Alignment></Alignments></LandXML>",
-        r":4: PVI: station/elevation value must be a finite number"),
+        r":4: PVI: station/elevation value must be a finite number",
+    ),
     "curve-on-last": (
         b'<LandXML><Units><Metric linearUnit="meter"/></Units><Alignments>\n'
         b'<Alignment name="a"><Profile><ProfAlign>\n<PVI>0 1</PVI>\n'
         b'<ParaCurve length="10">80 2</ParaCurve>\n</ProfAlign></Profile></Alignment>'
         b"</Alignments></LandXML>",
-        r":4: ParaCurve: the last entry of a profile is its end"),
+        r":4: ParaCurve: the last entry of a profile is its end",
+    ),
     "empty": (b"", r": LandXML: the file is empty"),
 }
 
@@ -167,12 +186,19 @@ def test_bad_interval(capsys):
 
 
 @pytest.mark.cli
-@pytest.mark.parametrize("launcher", [["gradeline"], [sys.executable, "-m", "gradeline"]],
-                         ids=["console", "module"])
+@pytest.mark.parametrize(
+    "launcher", [["gradeline"], [sys.executable, "-m", "gradeline"]], ids=["console", "module"]
+)
 def test_installed_command(launcher):
     env = dict(os.environ, PYTHONHASHSEED="7")
-    done = subprocess.run([*launcher, "curves", str(METRIC_SAMPLE), "--format", "json"],
-                          capture_output=True, text=True, cwd=ROOT, env=env, timeout=60)
+    done = subprocess.run(
+        [*launcher, "curves", str(METRIC_SAMPLE), "--format", "json"],
+        capture_output=True,
+        text=True,
+        cwd=ROOT,
+        env=env,
+        timeout=60,
+    )
     assert done.returncode == 0, done.stderr
     assert len(json.loads(done.stdout)["rows"]) == 5  # 2 horizontal + 3 vertical curves
     version = subprocess.run([*launcher, "--version"], capture_output=True, text=True, timeout=60)
@@ -185,8 +211,12 @@ def test_outputs_are_deterministic_across_processes(tmp_path):
     for seed in ("1", "99"):
         dest = tmp_path / f"t{seed}.csv"
         env = dict(os.environ, PYTHONHASHSEED=seed)
-        subprocess.run(["gradeline", "table", str(US_SAMPLE), *BYPASS, "--interval", "25",
-                        "-o", str(dest)], check=True, env=env, timeout=60)
+        subprocess.run(
+            ["gradeline", "table", str(US_SAMPLE), *BYPASS, "--interval", "25", "-o", str(dest)],
+            check=True,
+            env=env,
+            timeout=60,
+        )
         outs.append(dest.read_bytes())
     assert outs[0] == outs[1]
 
@@ -218,10 +248,12 @@ def test_curves_has_horizontal_rows(capsys):
 
 
 def test_gap_is_a_warning_not_an_error(tmp_path, capsys):
-    data = (b'<LandXML><Units><Metric linearUnit="meter"/></Units><Alignments>\n'
-            b'<Alignment name="a"><CoordGeom>\n<Line><Start>0 0</Start><End>0 100</End></Line>\n'
-            b"<Line><Start>0 100.5</Start><End>0 200</End></Line>\n</CoordGeom></Alignment>"
-            b"</Alignments></LandXML>")
+    data = (
+        b'<LandXML><Units><Metric linearUnit="meter"/></Units><Alignments>\n'
+        b'<Alignment name="a"><CoordGeom>\n<Line><Start>0 0</Start><End>0 100</End></Line>\n'
+        b"<Line><Start>0 100.5</Start><End>0 200</End></Line>\n</CoordGeom></Alignment>"
+        b"</Alignments></LandXML>"
+    )
     path = tmp_path / "gap.xml"
     path.write_bytes(data)
     code, out, err = run(capsys, "table", path, "--interval", "50")

@@ -15,7 +15,8 @@ import pytest
 import gradeline
 
 MODULES = sorted(
-    m.name for m in pkgutil.walk_packages(gradeline.__path__, "gradeline.")
+    m.name
+    for m in pkgutil.walk_packages(gradeline.__path__, "gradeline.")
     if not m.name.endswith("__main__")
 )
 

@@ -10,6 +10,8 @@ import subprocess
 import ezdxf
 import numpy as np
 import pytest
+from numpy.testing import assert_allclose
+
 from gradeline.cli import main
 from gradeline.deliverables import open_alignment
 from gradeline.geometry import vertical
@@ -19,8 +21,6 @@ from gradeline.io.dxf_read import read_mapping
 from gradeline.present import drafting, items
 from gradeline.present.layout import default_layout
 from gradeline.render.dxf import write_dxf
-from numpy.testing import assert_allclose
-
 from tests.conftest import METRIC_SAMPLE, US_SAMPLE
 
 SAMPLES = [(US_SAMPLE, "Orrin Vale Bypass"), (METRIC_SAMPLE, None), (US_SAMPLE, "Kettle Lane")]
@@ -72,8 +72,9 @@ def _grade_points(doc, mapping):
 
 
 @pytest.mark.parametrize(("path", "name"), SAMPLES, ids=IDS)
-@pytest.mark.parametrize(("version", "curves"), [("R2010", "spline"), ("R2010", "polyline"),
-                                                 ("R12", "spline")])
+@pytest.mark.parametrize(
+    ("version", "curves"), [("R2010", "spline"), ("R2010", "polyline"), ("R12", "spline")]
+)
 def test_profile_reads_back_onto_computed_grade(path, name, version, curves):
     ctx, _, doc, _ = _make(path, name, version, curves)
     mapping = read_mapping(doc)
@@ -83,7 +84,9 @@ def test_profile_reads_back_onto_computed_grade(path, name, version, curves):
     # spline points to float round-off); 1e-6 file units
     assert_allclose(z, vertical.elevation(ctx.geometry, s), atol=1e-6)
     # the drawing covers the whole profile
-    assert s.min() == pytest.approx(ctx.geometry.start) and s.max() == pytest.approx(ctx.geometry.end)
+    assert s.min() == pytest.approx(ctx.geometry.start) and s.max() == pytest.approx(
+        ctx.geometry.end
+    )
 
 
 @pytest.mark.parametrize(("path", "name"), SAMPLES, ids=IDS)
@@ -117,7 +120,9 @@ def test_plan_reads_back_onto_computed_alignment(path, name):
     assert np.all(status == 0)
     assert np.max(np.abs(off)) < 1e-6  # ft or m: the linework lies on the alignment
     # ARC entities carry the true radius of each curve
-    radii = sorted(round(e.dxf.radius, 3) for e in doc.modelspace().query("ARC[layer=='PLAN-ALIGNMENT']"))
+    radii = sorted(
+        round(e.dxf.radius, 3) for e in doc.modelspace().query("ARC[layer=='PLAN-ALIGNMENT']")
+    )
     assert radii == sorted(round(c.radius, 3) for c in curve_data(ctx.horizontal))
 
 
@@ -138,8 +143,12 @@ def test_labels_do_not_overlap(path, name, plan):
     _, _, doc, _ = _make(path, name, plan=plan)
     boxes = _text_boxes(doc)
     assert len(boxes) > 10
-    clashes = [(a[0], b[0]) for i, a in enumerate(boxes) for b in boxes[i + 1:]
-               if items.boxes_overlap(a[1], b[1])]
+    clashes = [
+        (a[0], b[0])
+        for i, a in enumerate(boxes)
+        for b in boxes[i + 1 :]
+        if items.boxes_overlap(a[1], b[1])
+    ]
     assert clashes == []
 
 
@@ -175,8 +184,22 @@ def test_same_input_same_bytes_across_processes(tmp_path):
         out = tmp_path / f"p{seed}.dxf"
         plan = tmp_path / f"q{seed}.dxf"
         env = dict(os.environ, PYTHONHASHSEED=seed)
-        subprocess.run(["gradeline", "dxf", str(US_SAMPLE), "--alignment", "Orrin Vale Bypass",
-                        "-o", str(out), "--plan", str(plan)], check=True, env=env, timeout=120)
+        subprocess.run(
+            [
+                "gradeline",
+                "dxf",
+                str(US_SAMPLE),
+                "--alignment",
+                "Orrin Vale Bypass",
+                "-o",
+                str(out),
+                "--plan",
+                str(plan),
+            ],
+            check=True,
+            env=env,
+            timeout=120,
+        )
         outs.append((out.read_bytes(), plan.read_bytes()))
     assert outs[0] == outs[1]
 
@@ -185,8 +208,18 @@ def test_layer_renames(tmp_path, capsys):
     cfg = tmp_path / "layers.toml"
     cfg.write_text('[layers]\nground = "EX-GROUND"\n')
     out = tmp_path / "p.dxf"
-    code = main(["dxf", str(METRIC_SAMPLE), "-o", str(out), "--config", str(cfg),
-                 "--layer", "grade=FG-LINE"])
+    code = main(
+        [
+            "dxf",
+            str(METRIC_SAMPLE),
+            "-o",
+            str(out),
+            "--config",
+            str(cfg),
+            "--layer",
+            "grade=FG-LINE",
+        ]
+    )
     assert code == 0
     doc = ezdxf.readfile(out)
     assert "FG-LINE" in doc.layers and "EX-GROUND" in doc.layers

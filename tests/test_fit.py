@@ -7,12 +7,12 @@ import json
 import ezdxf
 import numpy as np
 import pytest
+
 from gradeline.analysis.fit import FitError, chain, fit_profile
 from gradeline.cli import main
 from gradeline.deliverables import open_alignment
 from gradeline.geometry import vertical
 from gradeline.io import landxml, landxml_write
-
 from tests.conftest import METRIC_SAMPLE, US_SAMPLE
 
 # Issue 9 tolerances: PVIs within 0.01 ft / 0.003 m, curve lengths within 0.1 ft / 0.03 m
@@ -46,7 +46,9 @@ def test_round_trip_through_our_dxf(tmp_path, capsys, path, name, unit, curves):
     fitted = landxml.read(out).alignment().profile()
     _compare(fitted, open_alignment(path, name).profile, *TOL[unit])
     # kinds recovered too (exact linework tells a circle from a parabola)
-    assert [p.kind for p in fitted.pvis] == [p.kind for p in open_alignment(path, name).profile.pvis]
+    assert [p.kind for p in fitted.pvis] == [
+        p.kind for p in open_alignment(path, name).profile.pvis
+    ]
     # check and fit agree on the same drawing
     assert main(["check", str(out), "--dxf", str(dxf)]) == 0
 
@@ -65,8 +67,13 @@ def test_noisy_polyline_recovers_the_geometry(path, name, unit):
     # elevation noise divided by the grade break (0.0029 ft / 4.4 % = 0.07 ft), and
     # the length of a flat curve (K = 322) to about 0.25 ft: that is the information
     # 0.01-ft rounding leaves in the drawing, so those bounds are looser here.
-    _compare(fitted, truth, pvi_tol, 3 * len_tol if unit == "ft" else len_tol,
-             station_tol=0.1 if unit == "ft" else 0.01)
+    _compare(
+        fitted,
+        truth,
+        pvi_tol,
+        3 * len_tol if unit == "ft" else len_tol,
+        station_tol=0.1 if unit == "ft" else 0.01,
+    )
 
 
 def test_no_linework_on_layer(tmp_path, capsys):
@@ -74,8 +81,20 @@ def test_no_linework_on_layer(tmp_path, capsys):
     doc.modelspace().add_line((0, 0), (10, 1), dxfattribs={"layer": "OTHER"})
     path = tmp_path / "e.dxf"
     doc.saveas(path)
-    code = main(["fit", str(path), "--layer", "FG", "--exaggeration", "1", "--datum", "0",
-                 "-o", str(tmp_path / "o.xml")])
+    code = main(
+        [
+            "fit",
+            str(path),
+            "--layer",
+            "FG",
+            "--exaggeration",
+            "1",
+            "--datum",
+            "0",
+            "-o",
+            str(tmp_path / "o.xml"),
+        ]
+    )
     assert code == 2
     err = capsys.readouterr().err
     assert "no LINE, LWPOLYLINE, POLYLINE, SPLINE or ARC on layer 'FG'" in err and "OTHER" in err
@@ -89,8 +108,20 @@ def test_disconnected_pieces(tmp_path, capsys):
     msp.add_line((105, 2), (200, 0), dxfattribs={"layer": "FG"})
     path = tmp_path / "d.dxf"
     doc.saveas(path)
-    code = main(["fit", str(path), "--layer", "FG", "--exaggeration", "1", "--datum", "0",
-                 "-o", str(tmp_path / "o.xml")])
+    code = main(
+        [
+            "fit",
+            str(path),
+            "--layer",
+            "FG",
+            "--exaggeration",
+            "1",
+            "--datum",
+            "0",
+            "-o",
+            str(tmp_path / "o.xml"),
+        ]
+    )
     assert code == 2
     assert "the linework is broken: a gap of 5.0000 between x = 100.000" in capsys.readouterr().err
 
@@ -118,7 +149,9 @@ def test_writer_round_trip_is_exact():
         for a, b in zip(doc.alignments, again.alignments, strict=True):
             assert a.profiles == b.profiles and a.horizontal == b.horizontal
             assert a.equations == b.equations and a.grounds == b.grounds
-        assert landxml_write.write_landxml(doc) == landxml_write.write_landxml(again)  # stable bytes
+        assert landxml_write.write_landxml(doc) == landxml_write.write_landxml(
+            again
+        )  # stable bytes
 
 
 def test_writer_element_order_follows_the_schema():

@@ -12,17 +12,31 @@ import os
 import random
 
 import pytest
-from gradeline.cli import main
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 from lxml import etree
 
+from gradeline.cli import main
 from tests.conftest import METRIC_SAMPLE, US_SAMPLE
 
 EXAMPLES = int(os.environ.get("GRADELINE_FUZZ_EXAMPLES", "40"))
 SOURCES = [US_SAMPLE.read_bytes(), METRIC_SAMPLE.read_bytes()]
-NUMBERS = ["0", "-1", "1e-9", "1e9", "1e13", "nan", "inf", "-0", "12.5", "abc", "", "1 2 3",
-           "100000", "-100000"]
+NUMBERS = [
+    "0",
+    "-1",
+    "1e-9",
+    "1e9",
+    "1e13",
+    "nan",
+    "inf",
+    "-0",
+    "12.5",
+    "abc",
+    "",
+    "1 2 3",
+    "100000",
+    "-100000",
+]
 
 
 def mutate(data: bytes, seed: int, count: int) -> bytes:
@@ -50,14 +64,20 @@ def mutate(data: bytes, seed: int, count: int) -> bytes:
                 parts[i] = repr(float(parts[i]) * rng.choice([-1, 0, 0.5, 1.001, 10, 1e6]))
             except ValueError:
                 parts[i] = rng.choice(NUMBERS)
-            el.text = " ".join(parts[: rng.randrange(len(parts) + 1)] if rng.random() < 0.2 else parts)
+            el.text = " ".join(
+                parts[: rng.randrange(len(parts) + 1)] if rng.random() < 0.2 else parts
+            )
         else:
             el.text = rng.choice(NUMBERS)
     return etree.tostring(root)
 
 
-@settings(max_examples=EXAMPLES, deadline=30000, derandomize=True,
-          suppress_health_check=[HealthCheck.function_scoped_fixture, HealthCheck.too_slow])
+@settings(
+    max_examples=EXAMPLES,
+    deadline=30000,
+    derandomize=True,
+    suppress_health_check=[HealthCheck.function_scoped_fixture, HealthCheck.too_slow],
+)
 @given(st.integers(0, 2**31), st.integers(1, 4), st.sampled_from([0, 1]))
 def test_mutated_files(tmp_path, seed, count, which):
     data = mutate(SOURCES[which], seed, count)
@@ -67,8 +87,10 @@ def test_mutated_files(tmp_path, seed, count, which):
         (["table", str(src), "--interval", "100"], None),
         (["curves", str(src), "--format", "json"], None),
         (["check", str(src)], None),
-        (["dxf", str(src), "-o", str(tmp_path / "p.dxf"), "--plan", str(tmp_path / "q.dxf")],
-         tmp_path / "p.dxf"),
+        (
+            ["dxf", str(src), "-o", str(tmp_path / "p.dxf"), "--plan", str(tmp_path / "q.dxf")],
+            tmp_path / "p.dxf",
+        ),
         (["review", str(src), "--speed", "50"], None),
         (["sheets", str(src), "-o", str(tmp_path / "s.pdf")], tmp_path / "s.pdf"),
     ]

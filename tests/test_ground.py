@@ -8,6 +8,9 @@ import math
 
 import numpy as np
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
+
 from gradeline.cli import main
 from gradeline.deliverables import attach_ground, open_alignment
 from gradeline.errors import InputError
@@ -15,23 +18,24 @@ from gradeline.geometry import ground as G
 from gradeline.geometry import horizontal
 from gradeline.io import surface_reader
 from gradeline.model import HLine, HorizontalAlignment
-from hypothesis import given, settings
-from hypothesis import strategies as st
-
 from tests.conftest import METRIC_SAMPLE, SAMPLES, US_SAMPLE
 
 TERRAIN = SAMPLES / "orrin-vale-terrain.xml"
 
 
 def _tin_xml(points, faces, name="S", unit="meter", hidden=()):
-    p = "".join(f'<P id="{i}">{float(n)!r} {float(e)!r} {float(z)!r}</P>'
-                for i, (n, e, z) in points.items())
+    p = "".join(
+        f'<P id="{i}">{float(n)!r} {float(e)!r} {float(z)!r}</P>' for i, (n, e, z) in points.items()
+    )
     flag = ' i="1"'
-    f = "".join(f"<F{flag if k in hidden else ''}>{a} {b} {c}</F>"
-                for k, (a, b, c) in enumerate(faces))
-    return (f'<LandXML><Units><Metric linearUnit="{unit}"/></Units><Surfaces>'
-            f'<Surface name="{name}"><Definition surfType="TIN"><Pnts>{p}</Pnts>'
-            f"<Faces>{f}</Faces></Definition></Surface></Surfaces></LandXML>")
+    f = "".join(
+        f"<F{flag if k in hidden else ''}>{a} {b} {c}</F>" for k, (a, b, c) in enumerate(faces)
+    )
+    return (
+        f'<LandXML><Units><Metric linearUnit="{unit}"/></Units><Surfaces>'
+        f'<Surface name="{name}"><Definition surfType="TIN"><Pnts>{p}</Pnts>'
+        f"<Faces>{f}</Faces></Definition></Surface></Surfaces></LandXML>"
+    )
 
 
 @pytest.fixture(scope="module")
@@ -112,8 +116,9 @@ def test_ground_linear_between_breakpoints_on_sample(frac):
     i = np.flatnonzero(ok)
     q = s[i] + frac * (s[i + 1] - s[i])
     n, e, _ = horizontal.evaluate(ctx.horizontal, q)
-    np.testing.assert_allclose(G.interpolate(index, e, n), z[i] + frac * (z[i + 1] - z[i]),
-                               atol=1e-9)
+    np.testing.assert_allclose(
+        G.interpolate(index, e, n), z[i] + frac * (z[i + 1] - z[i]), atol=1e-9
+    )
 
 
 def test_hole_gives_a_gap(bypass_tin):
@@ -134,10 +139,17 @@ def test_alignment_leaving_the_surface(tmp_path):
     assert math.isnan(float(with_tin.ground_at([2000.0])[0]))
 
 
-@pytest.mark.parametrize(("faces", "points", "pattern"), [
-    ([(1, 2, 9)], {1: (0, 0, 1), 2: (0, 10, 1), 3: (10, 0, 1)}, "names point id 9, which does not exist"),
-    ([(1, 2, 3)], {1: (0, 0, 1), 2: (0, 10, 1), 3: (10, 0, 1), 4: (5, 5, 1)}, None),
-])
+@pytest.mark.parametrize(
+    ("faces", "points", "pattern"),
+    [
+        (
+            [(1, 2, 9)],
+            {1: (0, 0, 1), 2: (0, 10, 1), 3: (10, 0, 1)},
+            "names point id 9, which does not exist",
+        ),
+        ([(1, 2, 3)], {1: (0, 0, 1), 2: (0, 10, 1), 3: (10, 0, 1), 4: (5, 5, 1)}, None),
+    ],
+)
 def test_bad_faces(tmp_path, faces, points, pattern):
     path = tmp_path / "s.xml"
     path.write_text(_tin_xml(points, faces))
@@ -150,8 +162,11 @@ def test_bad_faces(tmp_path, faces, points, pattern):
 
 def test_duplicate_point_ids(tmp_path):
     path = tmp_path / "d.xml"
-    path.write_text(_tin_xml({1: (0, 0, 1), 2: (0, 10, 1), 3: (10, 0, 1)}, [(1, 2, 3)])
-                    .replace('<P id="3">', '<P id="2">'))
+    path.write_text(
+        _tin_xml({1: (0, 0, 1), 2: (0, 10, 1), 3: (10, 0, 1)}, [(1, 2, 3)]).replace(
+            '<P id="3">', '<P id="2">'
+        )
+    )
     with pytest.raises(InputError, match="point id 2 is used twice"):
         surface_reader.read_surface(path)
 
@@ -168,8 +183,10 @@ def test_unknown_and_ambiguous_surface_names(tmp_path):
     with pytest.raises(InputError, match="no surface named 'Nope'; surfaces: Existing ground 2026"):
         surface_reader.read_surface(TERRAIN, "Nope")
     two = _tin_xml({1: (0, 0, 1), 2: (0, 10, 1), 3: (10, 0, 1)}, [(1, 2, 3)], "A")
-    two = two.replace("</Surfaces>", '<Surface name="B"><Definition><Pnts/><Faces/></Definition>'
-                      "</Surface></Surfaces>")
+    two = two.replace(
+        "</Surfaces>",
+        '<Surface name="B"><Definition><Pnts/><Faces/></Definition></Surface></Surfaces>',
+    )
     path = tmp_path / "two.xml"
     path.write_text(two)
     with pytest.raises(InputError, match="2 surfaces; choose one with --surface: A, B"):
@@ -179,22 +196,46 @@ def test_unknown_and_ambiguous_surface_names(tmp_path):
 def test_units_must_match(tmp_path, capsys):
     path = tmp_path / "m.xml"
     path.write_text(_tin_xml({1: (0, 0, 1), 2: (0, 10, 1), 3: (10, 0, 1)}, [(1, 2, 3)]))
-    code = main(["table", str(US_SAMPLE), "--alignment", "Kettle Lane", "--ground", str(path),
-                 "--interval", "100"])
+    code = main(
+        [
+            "table",
+            str(US_SAMPLE),
+            "--alignment",
+            "Kettle Lane",
+            "--ground",
+            str(path),
+            "--interval",
+            "100",
+        ]
+    )
     assert code == 2
-    assert "surface units (meter) differ from the alignment's (USSurveyFoot)" in capsys.readouterr().err
+    assert (
+        "surface units (meter) differ from the alignment's (USSurveyFoot)"
+        in capsys.readouterr().err
+    )
 
 
 def test_table_gains_ground_and_cut_fill(capsys):
-    code = main(["table", str(US_SAMPLE), "--alignment", "Orrin Vale Bypass", "--ground",
-                 str(TERRAIN), "--interval", "100"])
+    code = main(
+        [
+            "table",
+            str(US_SAMPLE),
+            "--alignment",
+            "Orrin Vale Bypass",
+            "--ground",
+            str(TERRAIN),
+            "--interval",
+            "100",
+        ]
+    )
     rows = list(csv.DictReader(io.StringIO(capsys.readouterr().out)))
     assert code == 0
     assert list(rows[0])[-2:] == ["ground", "cut_fill"]
     for r in rows:
         if r["ground"]:
-            assert float(r["cut_fill"]) == pytest.approx(float(r["elevation"]) - float(r["ground"]),
-                                                         abs=2e-6)
+            assert float(r["cut_fill"]) == pytest.approx(
+                float(r["elevation"]) - float(r["ground"]), abs=2e-6
+            )
     assert any(r["ground"] == "" for r in rows)  # the pond
 
 
@@ -202,8 +243,21 @@ def test_dxf_draws_the_tin_ground(tmp_path):
     import ezdxf
 
     out = tmp_path / "p.dxf"
-    assert main(["dxf", str(US_SAMPLE), "--alignment", "Orrin Vale Bypass", "--ground",
-                 str(TERRAIN), "-o", str(out)]) == 0
+    assert (
+        main(
+            [
+                "dxf",
+                str(US_SAMPLE),
+                "--alignment",
+                "Orrin Vale Bypass",
+                "--ground",
+                str(TERRAIN),
+                "-o",
+                str(out),
+            ]
+        )
+        == 0
+    )
     doc = ezdxf.readfile(out)
     lines = doc.modelspace().query('LWPOLYLINE[layer=="PROFILE-GROUND"]')
     assert len(lines) == 2  # two pieces around the pond
@@ -219,8 +273,17 @@ def test_dxf_draws_the_tin_ground(tmp_path):
 
 
 def test_check_compares_ground_profile_with_tin(capsys):
-    code = main(["check", str(US_SAMPLE), "--alignment", "Orrin Vale Bypass", "--ground",
-                 str(TERRAIN), "--json"])
+    code = main(
+        [
+            "check",
+            str(US_SAMPLE),
+            "--alignment",
+            "Orrin Vale Bypass",
+            "--ground",
+            str(TERRAIN),
+            "--json",
+        ]
+    )
     import json
 
     data = json.loads(capsys.readouterr().out)
@@ -237,8 +300,18 @@ def test_degenerate_faces_warn_on_the_command_line(tmp_path, capsys):
     bad = text[:first] + f"{a} {a} {a}" + text[end:]
     path = tmp_path / "t.xml"
     path.write_text(bad)
-    code = main(["table", str(US_SAMPLE), "--alignment", "Orrin Vale Bypass", "--ground", str(path),
-                 "--at", "20+00"])
+    code = main(
+        [
+            "table",
+            str(US_SAMPLE),
+            "--alignment",
+            "Orrin Vale Bypass",
+            "--ground",
+            str(path),
+            "--at",
+            "20+00",
+        ]
+    )
     err = capsys.readouterr().err
     assert code == 0
     assert "gradeline: warning: " in err and "1 zero-area faces of surface" in err

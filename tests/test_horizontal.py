@@ -6,6 +6,12 @@ import math
 
 import numpy as np
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
+from numpy.testing import assert_allclose
+from scipy import integrate
+from scipy.special import fresnel
+
 from gradeline.deliverables import open_alignment
 from gradeline.errors import InputError, ModelError
 from gradeline.geometry import horizontal as H
@@ -13,12 +19,6 @@ from gradeline.geometry.curve_data import curve_data
 from gradeline.geometry.station_offset import station_offset
 from gradeline.io import landxml
 from gradeline.model import HCurve, HLine, HorizontalAlignment, HSpiral
-from hypothesis import given, settings
-from hypothesis import strategies as st
-from numpy.testing import assert_allclose
-from scipy import integrate
-from scipy.special import fresnel
-
 from tests.conftest import METRIC_SAMPLE, US_SAMPLE
 
 # --- FHWA Bridge Geometry Manual, Appendix B example alignment ----------------------
@@ -55,13 +55,18 @@ def _fhwa_landxml() -> bytes:
         center = pc + (1 if turn > 0 else -1) * r * left
         rot = "ccw" if turn > 0 else "cw"
         parts.append(f"<Line><Start>{xy(prev_end)}</Start><End>{xy(pc)}</End></Line>")
-        parts.append(f'<Curve rot="{rot}" radius="{r}"><Start>{xy(pc)}</Start>'
-                     f"<Center>{xy(center)}</Center><End>{xy(pt)}</End><PI>{xy(pi)}</PI></Curve>")
+        parts.append(
+            f'<Curve rot="{rot}" radius="{r}"><Start>{xy(pc)}</Start>'
+            f"<Center>{xy(center)}</Center><End>{xy(pt)}</End><PI>{xy(pi)}</PI></Curve>"
+        )
         prev_end = pt
     parts.append(f"<Line><Start>{xy(prev_end)}</Start><End>{xy(pts[-1])}</End></Line>")
-    return ("<LandXML><Units><Imperial linearUnit=\"foot\"/></Units><Alignments>"
-            '<Alignment name="FHWA B" staStart="0"><CoordGeom>' + "".join(parts) +
-            "</CoordGeom></Alignment></Alignments></LandXML>").encode()
+    return (
+        '<LandXML><Units><Imperial linearUnit="foot"/></Units><Alignments>'
+        '<Alignment name="FHWA B" staStart="0"><CoordGeom>'
+        + "".join(parts)
+        + "</CoordGeom></Alignment></Alignments></LandXML>"
+    ).encode()
 
 
 @pytest.fixture(scope="module")
@@ -109,8 +114,11 @@ def _single_spiral(length, radius, rot, r0=math.inf):
     return H.solve(HorizontalAlignment((sp,)))
 
 
-@pytest.mark.parametrize(("length", "radius"), [(250.0, 1200.0), (300.0, 60.0), (80.0, 15.0)],
-                         ids=["highway", "long-small-radius", "ramp-hairpin"])
+@pytest.mark.parametrize(
+    ("length", "radius"),
+    [(250.0, 1200.0), (300.0, 60.0), (80.0, 15.0)],
+    ids=["highway", "long-small-radius", "ramp-hairpin"],
+)
 @pytest.mark.parametrize("rot", ["ccw", "cw"])
 def test_clothoid_matches_fresnel(length, radius, rot):
     h = _single_spiral(length, radius, rot)
@@ -171,8 +179,9 @@ def test_other_spiral_laws_match_quadrature(kind):
     assert float(H.curvature(h, L)) == pytest.approx(-1 / R, rel=1e-12)
 
 
-@pytest.mark.parametrize("kind", ["cubicParabola", "japaneseCubic", "radioid", "weinerBogen",
-                                  "revBloss"])
+@pytest.mark.parametrize(
+    "kind", ["cubicParabola", "japaneseCubic", "radioid", "weinerBogen", "revBloss"]
+)
 def test_unsupported_spiral_refused_by_name(kind):
     sp = HSpiral((0.0, 0.0), (0.0, 100.0), 100.0, math.inf, 300.0, "cw", kind, pi=(0.0, 10.0))
     with pytest.raises(ModelError, match=f"spiral type '{kind}' is not supported"):
@@ -180,8 +189,10 @@ def test_unsupported_spiral_refused_by_name(kind):
 
 
 # --- samples ----------------------------------------------------------------------------
-@pytest.mark.parametrize(("path", "name"), [(US_SAMPLE, "Orrin Vale Bypass"),
-                                            (METRIC_SAMPLE, None), (US_SAMPLE, "Kettle Lane")])
+@pytest.mark.parametrize(
+    ("path", "name"),
+    [(US_SAMPLE, "Orrin Vale Bypass"), (METRIC_SAMPLE, None), (US_SAMPLE, "Kettle Lane")],
+)
 def test_samples_are_continuous_and_match_stated_values(path, name):
     ctx = open_alignment(path, name)
     h = ctx.horizontal
@@ -267,9 +278,11 @@ def test_radius_disagreement_is_a_finding():
 
 
 def test_missing_curve_center_is_an_error():
-    data = (b'<LandXML><Units><Metric linearUnit="meter"/></Units><Alignments>\n'
-            b'<Alignment name="a"><CoordGeom>\n<Curve rot="cw"><Start>0 0</Start>'
-            b"<End>10 10</End></Curve>\n</CoordGeom></Alignment></Alignments></LandXML>")
+    data = (
+        b'<LandXML><Units><Metric linearUnit="meter"/></Units><Alignments>\n'
+        b'<Alignment name="a"><CoordGeom>\n<Curve rot="cw"><Start>0 0</Start>'
+        b"<End>10 10</End></Curve>\n</CoordGeom></Alignment></Alignments></LandXML>"
+    )
     with pytest.raises(InputError, match=r"^m.xml:3: Curve: missing required Center point"):
         landxml.parse_bytes(data, "m.xml")
 

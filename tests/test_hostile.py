@@ -24,9 +24,14 @@ def _limits():  # bounded memory for the child: 2 GiB of address space
 
 
 def run(*args, timeout=60):
-    return subprocess.run([sys.executable, "-m", "gradeline", *map(str, args)],
-                          capture_output=True, text=True, timeout=timeout, preexec_fn=_limits,
-                          env=dict(os.environ, PYTHONHASHSEED="1"))
+    return subprocess.run(
+        [sys.executable, "-m", "gradeline", *map(str, args)],
+        capture_output=True,
+        text=True,
+        timeout=timeout,
+        preexec_fn=_limits,
+        env=dict(os.environ, PYTHONHASHSEED="1"),
+    )
 
 
 @pytest.fixture(scope="module")
@@ -53,16 +58,27 @@ def _assert_one_line(done, path):
 
 def test_corpus_is_complete():
     names = {p.name for p in CORPUS}
-    for want in ("external-dtd.xml", "billion-laughs.xml", "quadratic-blowup.xml",
-                 "deep-nesting.xml", "empty.xml", "binary-garbage.xml", "wrong-encoding.xml",
-                 "number-nan.xml", "number-huge.xml", "missing-name.xml",
-                 "duplicate-alignments.xml", "truncated-1.xml"):
+    for want in (
+        "external-dtd.xml",
+        "billion-laughs.xml",
+        "quadratic-blowup.xml",
+        "deep-nesting.xml",
+        "empty.xml",
+        "binary-garbage.xml",
+        "wrong-encoding.xml",
+        "number-nan.xml",
+        "number-huge.xml",
+        "missing-name.xml",
+        "duplicate-alignments.xml",
+        "truncated-1.xml",
+    ):
         assert want in names
 
 
 @pytest.mark.parametrize("path", CORPUS, ids=[p.name for p in CORPUS])
-@pytest.mark.parametrize("command", [["info"], ["table", "--interval", "50"], ["check"]],
-                         ids=["info", "table", "check"])
+@pytest.mark.parametrize(
+    "command", [["info"], ["table", "--interval", "50"], ["check"]], ids=["info", "table", "check"]
+)
 def test_hostile_file(path, command):
     done = run(command[0], path, *command[1:])
     _assert_one_line(done, path)
@@ -82,7 +98,9 @@ def test_build_survives_a_folder_of_hostile_files(tmp_path, canary):
     index = json.loads((out / "index.json").read_text())
     assert index["items"] and all(item["failed"] for item in index["items"])
     assert SECRET not in (out / "index.txt").read_text()
-    assert not [p for p in out.rglob("*") if p.is_file() and p.name not in ("index.txt", "index.json")]
+    assert not [
+        p for p in out.rglob("*") if p.is_file() and p.name not in ("index.txt", "index.json")
+    ]
 
 
 def test_one_bad_file_does_not_stop_the_others(tmp_path):
@@ -101,23 +119,39 @@ def test_one_bad_file_does_not_stop_the_others(tmp_path):
 
 def test_spiral_of_absurd_length_is_refused_quickly(tmp_path):
     """Regression (issue 10 fuzzing): a 1e9-ft spiral made `check` run for minutes."""
-    text = (Path(__file__).resolve().parent.parent / "samples" / "orrin-vale-bypass.xml").read_text()
+    text = (
+        Path(__file__).resolve().parent.parent / "samples" / "orrin-vale-bypass.xml"
+    ).read_text()
     path = tmp_path / "spiral.xml"
-    path.write_text(text.replace('length="250.000000" radiusStart="1200.000000"',
-                                 'length="1e9" radiusStart="1200.000000"', 1))
+    path.write_text(
+        text.replace(
+            'length="250.000000" radiusStart="1200.000000"',
+            'length="1e9" radiusStart="1200.000000"',
+            1,
+        )
+    )
     done = run("check", path, timeout=30)
     _assert_one_line(done, path)
     assert "spiral turns through" in done.stderr
 
 
-@pytest.mark.parametrize("command", [["table", "--interval", "100"], ["dxf", "-o", "x.dxf"],
-                                     ["sheets", "-o", "x.pdf"], ["review", "--speed", "50"]],
-                         ids=["table", "dxf", "sheets", "review"])
+@pytest.mark.parametrize(
+    "command",
+    [
+        ["table", "--interval", "100"],
+        ["dxf", "-o", "x.dxf"],
+        ["sheets", "-o", "x.pdf"],
+        ["review", "--speed", "50"],
+    ],
+    ids=["table", "dxf", "sheets", "review"],
+)
 def test_absurd_profile_length_is_refused_quickly(tmp_path, command):
     path = tmp_path / "long.xml"
-    path.write_text('<LandXML><Units><Imperial linearUnit="foot"/></Units><Alignments>'
-                    '<Alignment name="L"><Profile><ProfAlign><PVI>0 100</PVI><PVI>1000000000 101'
-                    "</PVI></ProfAlign></Profile></Alignment></Alignments></LandXML>")
+    path.write_text(
+        '<LandXML><Units><Imperial linearUnit="foot"/></Units><Alignments>'
+        '<Alignment name="L"><Profile><ProfAlign><PVI>0 100</PVI><PVI>1000000000 101'
+        "</PVI></ProfAlign></Profile></Alignment></Alignments></LandXML>"
+    )
     args = [a if a not in ("x.dxf", "x.pdf") else tmp_path / a for a in command[1:]]
     done = run(command[0], path, *args, timeout=30)
     assert done.returncode == 2 and done.stderr.count("\n") == 1

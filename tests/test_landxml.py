@@ -3,9 +3,9 @@
 from __future__ import annotations
 
 import pytest
+
 from gradeline.errors import InputError
 from gradeline.io import landxml
-
 from tests.conftest import METRIC_SAMPLE, US_SAMPLE
 
 MINIMAL = """<?xml version="1.0" encoding="{enc}"?>
@@ -37,7 +37,14 @@ def test_us_sample():
     main = doc.alignment("Orrin Vale Bypass")
     prof = main.profile()
     assert [p.kind for p in prof.pvis] == [
-        "none", "parabolic", "parabolic", "unsymmetric", "parabolic", "parabolic", "none"]
+        "none",
+        "parabolic",
+        "parabolic",
+        "unsymmetric",
+        "parabolic",
+        "parabolic",
+        "none",
+    ]
     assert prof.pvis[3].length_in == 300.0 and prof.pvis[3].length_out == 500.0
     assert prof.pvis[1].source.line is not None
     assert main.grounds[0].name == "Existing ground"
@@ -117,7 +124,9 @@ def test_missing_units():
 
 def test_non_numeric_value_names_line_and_element():
     data = doc_bytes().replace(b"<PVI>0 100</PVI>", b"<PVI>0 abc</PVI>")
-    with pytest.raises(InputError, match=r"^n.xml:8: PVI: station/elevation value 'abc' is not a number"):
+    with pytest.raises(
+        InputError, match=r"^n.xml:8: PVI: station/elevation value 'abc' is not a number"
+    ):
         landxml.parse_bytes(data, "n.xml")
 
 
@@ -130,7 +139,9 @@ def test_non_finite_value(bad):
 
 def test_decreasing_pvis_name_line():
     data = doc_bytes().replace(b"<PVI>1000 105</PVI>", b"<PVI>400 105</PVI>")
-    with pytest.raises(InputError, match=r"^d.xml:10: PVI: PVI stations must increase: 400 after 500"):
+    with pytest.raises(
+        InputError, match=r"^d.xml:10: PVI: PVI stations must increase: 400 after 500"
+    ):
         landxml.parse_bytes(data, "d.xml")
 
 

@@ -6,6 +6,7 @@ import dataclasses
 import math
 
 import pytest
+
 from gradeline.errors import ModelError
 from gradeline.model import Profile, PVISpec, StationEquation
 from gradeline.model.units import Units

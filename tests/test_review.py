@@ -6,10 +6,10 @@ import json
 import math
 
 import pytest
+
 from gradeline.analysis import review as R
 from gradeline.cli import main
 from gradeline.geometry import vertical
-
 from tests.conftest import METRIC_SAMPLE, US_SAMPLE, profile_of
 
 US = R.load_criteria(None, metric=False)
@@ -17,8 +17,15 @@ SI = R.load_criteria(None, metric=True)
 
 # AASHTO, A Policy on Geometric Design of Highways and Streets, 7th ed. (2018),
 # Tables 3-1 (SSD), 3-34 (crest K), 3-37 (sag K); values recalled from memory.
-US_TABLE = {30: (200, 19, 37), 40: (305, 44, 64), 50: (425, 84, 96), 60: (570, 151, 136),
-            70: (730, 247, 181), 75: (820, 312, 206), 80: (910, 384, 231)}
+US_TABLE = {
+    30: (200, 19, 37),
+    40: (305, 44, 64),
+    50: (425, 84, 96),
+    60: (570, 151, 136),
+    70: (730, 247, 181),
+    75: (820, 312, 206),
+    80: (910, 384, 231),
+}
 SI_TABLE = {50: (65, 7, 13), 80: (130, 26, 30), 100: (185, 52, 45), 120: (250, 95, 63)}
 
 
@@ -61,8 +68,9 @@ def test_grade_correction_lengthens_downgrade_ssd():
 def _single(a_pct: float, length: float, metric=False):
     g1 = -a_pct / 200.0  # symmetric: g1 = -A/2, g2 = +A/2
     half = 3000.0
-    return vertical.solve(profile_of((0.0, 100.0), (half, 100.0 + g1 * half, "parabolic", length),
-                                     (2 * half, 100.0)))
+    return vertical.solve(
+        profile_of((0.0, 100.0), (half, 100.0 + g1 * half, "parabolic", length), (2 * half, 100.0))
+    )
 
 
 def test_exact_sight_distance_matches_crest_formula_s_less_than_l():
@@ -100,15 +108,23 @@ def test_tangent_is_not_limited():
 
 
 def test_failing_curves_and_ranges():
-    geom = vertical.solve(profile_of((0.0, 100.0), (1000.0, 140.0, "parabolic", 300.0),
-                                     (2000.0, 100.0, "parabolic", 200.0), (3000.0, 130.0)))
+    geom = vertical.solve(
+        profile_of(
+            (0.0, 100.0),
+            (1000.0, 140.0, "parabolic", 300.0),
+            (2000.0, 100.0, "parabolic", 200.0),
+            (3000.0, 130.0),
+        )
+    )
     rev = R.review_profile(geom, US, 60.0)
     assert rev.failed
     crest, sag = rev.curves
     names = {c.name.split(" (")[0]: c for c in crest.checks}
     assert names["stopping sight distance 570 ft"].verdict == "fail"
     # A S^2 / 2158 = 8 * 570^2 / 2158 = 1204 > S, so the S < L case governs
-    assert names["stopping sight distance 570 ft"].required == pytest.approx(8 * 570**2 / 2158, abs=1)
+    assert names["stopping sight distance 570 ft"].required == pytest.approx(
+        8 * 570**2 / 2158, abs=1
+    )
     kinds = {(d.kind, d.direction) for d in rev.deficiencies}
     assert ("stopping", "ahead") in kinds and ("headlight", "ahead") in kinds
     stop = next(d for d in rev.deficiencies if d.kind == "stopping" and d.direction == "ahead")
@@ -116,8 +132,9 @@ def test_failing_curves_and_ranges():
 
 
 def test_drainage_flag_is_a_check_not_a_failure():
-    geom = vertical.solve(profile_of((0.0, 100.0), (1000.0, 101.0, "parabolic", 800.0),
-                                     (2000.0, 100.0)))
+    geom = vertical.solve(
+        profile_of((0.0, 100.0), (1000.0, 101.0, "parabolic", 800.0), (2000.0, 100.0))
+    )
     rev = R.review_profile(geom, US, 40.0, curbed=True)
     drain = [c for c in rev.curves[0].checks if c.name.startswith("drainage")][0]
     assert rev.curves[0].curve.k > 167
@@ -137,8 +154,18 @@ def test_criteria_file_overrides(tmp_path):
 def test_criteria_file_missing_value(tmp_path, capsys):
     bad = tmp_path / "bad.toml"
     bad.write_text("[us]\neye_height = 3.5\n")
-    code = main(["review", str(US_SAMPLE), "--alignment", "Kettle Lane", "--speed", "30",
-                 "--criteria", str(bad)])
+    code = main(
+        [
+            "review",
+            str(US_SAMPLE),
+            "--alignment",
+            "Kettle Lane",
+            "--speed",
+            "30",
+            "--criteria",
+            str(bad),
+        ]
+    )
     assert code == 2
     assert "lacks" in capsys.readouterr().err
 
@@ -147,8 +174,9 @@ def test_cli_exit_codes_and_json(capsys):
     assert main(["review", str(METRIC_SAMPLE), "--speed", "80"]) == 0
     out = capsys.readouterr().out
     assert out.startswith("PASS") and "CAUTION" in out
-    code = main(["review", str(US_SAMPLE), "--alignment", "Orrin Vale Bypass", "--speed", "70",
-                 "--json"])
+    code = main(
+        ["review", str(US_SAMPLE), "--alignment", "Orrin Vale Bypass", "--speed", "70", "--json"]
+    )
     data = json.loads(capsys.readouterr().out)
     assert code == 1 and data["failed"] is True
     assert data["stopping_sight_distance"] == 730
@@ -164,19 +192,26 @@ def test_speed_unit_conversion(capsys):
     assert data["speed_unit"] == "kmh"
 
 
-@pytest.mark.parametrize(("crit", "speed", "radius"), [
-    # AASHTO 2018 Table 3-7, e max = 8 % (values recalled from memory): R = V^2 / (15 (e + f))
-    (US, 50, 758), (US, 60, 1200),
-    # metric: R = V^2 / (127 (e + f))
-    (SI, 80, 229), (SI, 100, 394),
-], ids=["50mph", "60mph", "80kmh", "100kmh"])
+@pytest.mark.parametrize(
+    ("crit", "speed", "radius"),
+    [
+        # AASHTO 2018 Table 3-7, e max = 8 % (values recalled from memory): R = V^2 / (15 (e + f))
+        (US, 50, 758),
+        (US, 60, 1200),
+        # metric: R = V^2 / (127 (e + f))
+        (SI, 80, 229),
+        (SI, 100, 394),
+    ],
+    ids=["50mph", "60mph", "80kmh", "100kmh"],
+)
 def test_minimum_radius(crit, speed, radius):
     assert round(crit.min_radius(speed)) == radius
 
 
 def test_radius_check_flags_a_tight_curve(capsys):
-    code = main(["review", str(US_SAMPLE), "--alignment", "Orrin Vale Bypass", "--speed", "65",
-                 "--json"])
+    code = main(
+        ["review", str(US_SAMPLE), "--alignment", "Orrin Vale Bypass", "--speed", "65", "--json"]
+    )
     data = json.loads(capsys.readouterr().out)
     assert code == 1
     radii = data["horizontal_curves"]

@@ -11,6 +11,8 @@ import subprocess
 
 import numpy as np
 import pytest
+from reportlab.pdfbase.pdfmetrics import stringWidth
+
 from gradeline.cli import main
 from gradeline.deliverables import open_alignment
 from gradeline.model.units import Units
@@ -18,14 +20,15 @@ from gradeline.present import drafting, items, labels
 from gradeline.present.layout import default_layout
 from gradeline.sheets.layout import PAPER_SIZES, pack_tables, sheet_frames, sheet_geometry
 from gradeline.sheets.pdf import SheetOptions, page_plan, render_sheets
-from reportlab.pdfbase.pdfmetrics import stringWidth
-
 from tests.conftest import METRIC_SAMPLE, SAMPLES, US_SAMPLE
 
 pypdf = pytest.importorskip("pypdf", reason="pypdf extracts the PDF text")
 
-CASES = [(US_SAMPLE, "Orrin Vale Bypass", "ansi-d"), (METRIC_SAMPLE, None, "iso-a1"),
-         (US_SAMPLE, "Kettle Lane", "ansi-b")]
+CASES = [
+    (US_SAMPLE, "Orrin Vale Bypass", "ansi-d"),
+    (METRIC_SAMPLE, None, "iso-a1"),
+    (US_SAMPLE, "Kettle Lane", "ansi-b"),
+]
 IDS = ["bypass-ansi-d", "tarnholm-iso-a1", "lane-ansi-b"]
 
 
@@ -130,11 +133,35 @@ def test_curve_tables_agree_with_csv(rendered, capsys):
     rows = _csv(args, capsys)
     checked = 0
     for r in rows:
-        cols = (["pvi_station", "pvi_elevation", "grade_in", "grade_out", "A", "length", "K",
-                 "bvc_station", "bvc_elevation", "evc_station", "evc_elevation"]
-                if r["kind"] == "vertical" else
-                ["pi_station", "pi_northing", "pi_easting", "radius", "length", "tangent",
-                 "chord", "external", "middle_ordinate", "pc_station", "pt_station"])
+        cols = (
+            [
+                "pvi_station",
+                "pvi_elevation",
+                "grade_in",
+                "grade_out",
+                "A",
+                "length",
+                "K",
+                "bvc_station",
+                "bvc_elevation",
+                "evc_station",
+                "evc_elevation",
+            ]
+            if r["kind"] == "vertical"
+            else [
+                "pi_station",
+                "pi_northing",
+                "pi_easting",
+                "radius",
+                "length",
+                "tangent",
+                "chord",
+                "external",
+                "middle_ordinate",
+                "pc_station",
+                "pt_station",
+            ]
+        )
         for col in cols:
             want = _fmt_like_pdf(col, r[col], ctx)
             if want:
@@ -147,13 +174,27 @@ def test_station_table_agrees_with_csv(rendered, capsys):
     ctx, opts, _, _, pages = rendered
     text = " ".join(" ".join(pages).split())
     interval = 50.0 if not ctx.document.units.metric else 20.0
-    rows = _csv(["table", str(ctx.document.path), "--alignment", ctx.alignment.name,
-                 "--interval", str(interval)], capsys)
+    rows = _csv(
+        [
+            "table",
+            str(ctx.document.path),
+            "--alignment",
+            ctx.alignment.name,
+            "--interval",
+            str(interval),
+        ],
+        capsys,
+    )
     for r in rows:
-        line = " ".join([r["station_label"], _fmt_like_pdf("tangent_elevation", r["tangent_elevation"], ctx),
-                         _fmt_like_pdf("offset", r["offset"], ctx),
-                         _fmt_like_pdf("elevation", r["elevation"], ctx),
-                         _fmt_like_pdf("grade", r["grade"], ctx)])
+        line = " ".join(
+            [
+                r["station_label"],
+                _fmt_like_pdf("tangent_elevation", r["tangent_elevation"], ctx),
+                _fmt_like_pdf("offset", r["offset"], ctx),
+                _fmt_like_pdf("elevation", r["elevation"], ctx),
+                _fmt_like_pdf("grade", r["grade"], ctx),
+            ]
+        )
         assert line in text, line
 
 
@@ -180,14 +221,19 @@ def test_sheet_labels_do_not_collide_with_real_font_widths(rendered):
     ctx, opts, _, _, _ = rendered
     lay = default_layout(ctx.document.units, opts.scale, opts.exaggeration)
     for frame in page_plan(ctx, opts).frames:
-        d = drafting.profile_drawing(ctx, lay, window=(frame.view_start, frame.view_end),
-                                     strip=True)
+        d = drafting.profile_drawing(
+            ctx, lay, window=(frame.view_start, frame.view_end), strip=True
+        )
         texts = d.texts()
         for t in texts:  # the layout's width estimate covers Helvetica's real width
             assert stringWidth(t.text, "Helvetica", t.height) <= t.width + 1e-9
         boxes = [t.corners() for t in texts]
-        clashes = [(texts[i].text, texts[j].text) for i in range(len(boxes))
-                   for j in range(i + 1, len(boxes)) if items.boxes_overlap(boxes[i], boxes[j])]
+        clashes = [
+            (texts[i].text, texts[j].text)
+            for i in range(len(boxes))
+            for j in range(i + 1, len(boxes))
+            if items.boxes_overlap(boxes[i], boxes[j])
+        ]
         assert clashes == []
 
 
@@ -196,14 +242,16 @@ def test_deterministic_bytes(rendered):
     assert render_sheets(ctx, opts) == pdf
 
 
-@pytest.mark.skipif(shutil.which("pdftoppm") is None,
-                    reason="pdftoppm (Debian poppler-utils) is not installed")
+@pytest.mark.skipif(
+    shutil.which("pdftoppm") is None, reason="pdftoppm (Debian poppler-utils) is not installed"
+)
 def test_pages_render_and_are_not_blank(rendered, tmp_path):
     _, _, pdf, _, _ = rendered
     src = tmp_path / "s.pdf"
     src.write_bytes(pdf)
-    subprocess.run(["pdftoppm", "-r", "20", "-gray", str(src), str(tmp_path / "p")], check=True,
-                   timeout=120)
+    subprocess.run(
+        ["pdftoppm", "-r", "20", "-gray", str(src), str(tmp_path / "p")], check=True, timeout=120
+    )
     pngs = sorted(tmp_path.glob("p-*.pgm"))
     assert pngs
     for png in pngs:
@@ -214,8 +262,18 @@ def test_pages_render_and_are_not_blank(rendered, tmp_path):
 
 def test_cli_sheets_with_config(tmp_path, capsys):
     out = tmp_path / "s.pdf"
-    code = main(["sheets", str(US_SAMPLE), "--alignment", "Orrin Vale Bypass", "-o", str(out),
-                 "--config", str(SAMPLES / "sheets.toml")])
+    code = main(
+        [
+            "sheets",
+            str(US_SAMPLE),
+            "--alignment",
+            "Orrin Vale Bypass",
+            "-o",
+            str(out),
+            "--config",
+            str(SAMPLES / "sheets.toml"),
+        ]
+    )
     assert code == 0
     text = " ".join(p.extract_text() for p in pypdf.PdfReader(out).pages)
     assert "Marrow County Route 9 realignment (invented sample)" in " ".join(text.split())
@@ -243,7 +301,11 @@ def test_sheets_deterministic_across_processes(tmp_path):
     outs = []
     for seed in ("5", "77"):
         out = tmp_path / f"s{seed}.pdf"
-        subprocess.run(["gradeline", "sheets", str(METRIC_SAMPLE), "-o", str(out)], check=True,
-                       env=dict(os.environ, PYTHONHASHSEED=seed), timeout=120)
+        subprocess.run(
+            ["gradeline", "sheets", str(METRIC_SAMPLE), "-o", str(out)],
+            check=True,
+            env=dict(os.environ, PYTHONHASHSEED=seed),
+            timeout=120,
+        )
         outs.append(out.read_bytes())
     assert outs[0] == outs[1]

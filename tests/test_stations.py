@@ -4,12 +4,13 @@ from __future__ import annotations
 
 import numpy as np
 import pytest
+from hypothesis import given
+from hypothesis import strategies as st
+
 from gradeline.errors import UsageError
 from gradeline.geometry.stations import Stationing, format_station, parse_station
 from gradeline.model import StationEquation
 from gradeline.model.units import Units
-from hypothesis import given
-from hypothesis import strategies as st
 
 FT = Units("foot")
 M = Units("meter")
@@ -97,8 +98,11 @@ def test_equation_overlap_is_ambiguous():
 def test_equation_ahead_gap_has_no_station():
     eq = StationEquation(back=1200.0, ahead=1250.0, internal=1200.0)
     sta = Stationing(M, (eq,))
-    with pytest.raises(UsageError, match=r"falls in the gap of the station equation "
-                                         r"back 1\+200.000 = ahead 1\+250.000"):
+    with pytest.raises(
+        UsageError,
+        match=r"falls in the gap of the station equation "
+        r"back 1\+200.000 = ahead 1\+250.000",
+    ):
         sta.internal_of("1+220", 0.0, 2400.0)
     assert sta.internal_of("1+300", 0.0, 2400.0) == pytest.approx(1250.0)
     assert sta.label(2400.0) == "2+450.000"

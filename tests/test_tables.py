@@ -4,16 +4,16 @@ from __future__ import annotations
 
 import numpy as np
 import pytest
+
 from gradeline.deliverables import open_alignment
 from gradeline.model import Alignment, Document
 from gradeline.model.units import Units
 from gradeline.present import tables
 from gradeline.solved import solve_alignment
-
 from tests.conftest import CASES, METRIC_SAMPLE, US_SAMPLE
 
 
-def context(profile, units=Units("foot")):
+def context(profile, units=Units("foot")):  # noqa: B008 - Units is frozen
     al = Alignment("test", profiles=(profile,))
     return solve_alignment(Document("t.xml", units, (al,)), al, profile)
 

@@ -9,14 +9,14 @@ from fractions import Fraction
 import numpy as np
 import pytest
 import sympy
-from gradeline.errors import ModelError
-from gradeline.geometry import vertical
-from gradeline.model import Profile, PVISpec
 from hypothesis import given, settings
 from hypothesis import strategies as st
 from numpy.testing import assert_allclose
 from scipy import integrate
 
+from gradeline.errors import ModelError
+from gradeline.geometry import vertical
+from gradeline.model import Profile, PVISpec
 from tests.conftest import CASES, profile_of
 
 # Tolerances: 1e-6 file units is far below survey precision (0.001 ft / 0.001 m)
@@ -27,10 +27,20 @@ ATOL = 1e-6
 # --- FHWA Bridge Geometry Manual ----------------------------------------------
 # FHWA-HIF-22-034 (2022), Appendix B, example vertical profile: PVIs
 # (station, elevation, curve length) and the published VPC/VPT pairs.
-FHWA_PVIS = [(0, 100, None), (2000, 135, 1600), (5000, 105, 1200),
-             (7400, 153, 2000), (9800, 105, 800), (12800, 90, None)]
-FHWA_VPC_VPT = [((1200, 121), (2800, 127)), ((4400, 111), (5600, 117)),
-                ((6400, 133), (8400, 133)), ((9400, 113), (10200, 103))]
+FHWA_PVIS = [
+    (0, 100, None),
+    (2000, 135, 1600),
+    (5000, 105, 1200),
+    (7400, 153, 2000),
+    (9800, 105, 800),
+    (12800, 90, None),
+]
+FHWA_VPC_VPT = [
+    ((1200, 121), (2800, 127)),
+    ((4400, 111), (5600, 117)),
+    ((6400, 133), (8400, 133)),
+    ((9400, 113), (10200, 103)),
+]
 
 
 def fhwa_profile() -> Profile:
@@ -45,8 +55,9 @@ def fhwa_profile() -> Profile:
 
 def test_fhwa_appendix_b_vpc_vpt():
     geom = vertical.solve(fhwa_profile())
-    got = [((c.bvc_station, c.bvc_elevation), (c.evc_station, c.evc_elevation))
-           for c in geom.curves]
+    got = [
+        ((c.bvc_station, c.bvc_elevation), (c.evc_station, c.evc_elevation)) for c in geom.curves
+    ]
     assert_allclose(np.array(got, dtype=float), np.array(FHWA_VPC_VPT, dtype=float), atol=ATOL)
     # the evaluated profile passes through the same published points
     for (s1, z1), (s2, z2) in FHWA_VPC_VPT:
@@ -153,9 +164,14 @@ def test_random_parabolas_match_exact_rationals(seed):
     l2 = l1 if symmetric else Fraction(rng.randint(50, int(room) - 10))
     exact = _exact_curve(s0, z0, s1, z1, s2, z2, l1, l2)
     kind = "parabolic" if symmetric else "unsymmetric"
-    prof = Profile("r", (PVISpec(float(s0), float(z0)),
-                         PVISpec(float(s1), float(z1), kind, float(l1), float(l2)),
-                         PVISpec(float(s2), float(z2))))
+    prof = Profile(
+        "r",
+        (
+            PVISpec(float(s0), float(z0)),
+            PVISpec(float(s1), float(z1), kind, float(l1), float(l2)),
+            PVISpec(float(s2), float(z2)),
+        ),
+    )
     geom = vertical.solve(prof)
     probes = [s0 + (s2 - s0) * Fraction(k, 37) for k in range(38)]
     probes += [s1 - l1, s1, s1 + l2]
@@ -185,7 +201,9 @@ def test_circular_arc_length_is_radius_times_angle():
     c = geom.curves[0]
     arc, _ = integrate.quad(
         lambda x: math.sqrt(1 + float(vertical.grade(geom, x)) ** 2),
-        c.bvc_station, c.evc_station, epsabs=1e-10,
+        c.bvc_station,
+        c.evc_station,
+        epsabs=1e-10,
     )
     dtheta = math.atan(c.grade_out) - math.atan(c.grade_in)
     assert arc == pytest.approx(3000.0 * dtheta, rel=1e-9)
@@ -193,9 +211,14 @@ def test_circular_arc_length_is_radius_times_angle():
 
 
 def test_circular_crest_from_length_only():
-    prof = Profile("c", (PVISpec(0.0, 50.0),
-                         PVISpec(300.0, 56.0, "circular", arc_length=120.0),
-                         PVISpec(700.0, 52.0)))
+    prof = Profile(
+        "c",
+        (
+            PVISpec(0.0, 50.0),
+            PVISpec(300.0, 56.0, "circular", arc_length=120.0),
+            PVISpec(700.0, 52.0),
+        ),
+    )
     c = vertical.solve(prof).curves[0]
     dtheta = abs(math.atan(-0.01) - math.atan(0.02))
     assert c.radius == pytest.approx(120.0 / dtheta)
@@ -208,8 +231,9 @@ def test_circular_curve_sign_of_radius_does_not_change_shape():
     a = profile_of(base[0], (*base[1], "circular", 3000.0), base[2])
     b = profile_of(base[0], (*base[1], "circular", -3000.0), base[2])
     s = np.linspace(0, 700, 71)
-    assert_allclose(vertical.elevation(vertical.solve(a), s),
-                    vertical.elevation(vertical.solve(b), s), atol=0)
+    assert_allclose(
+        vertical.elevation(vertical.solve(a), s), vertical.elevation(vertical.solve(b), s), atol=0
+    )
 
 
 # --- properties (no source needed) ---------------------------------------------------
@@ -254,8 +278,10 @@ def test_continuous_at_every_bvc_and_evc(prof):
     geom = vertical.solve(prof)
     eps = 1e-7
     for c in geom.curves:
-        for s, z_expected, g_expected in ((c.bvc_station, c.bvc_elevation, c.grade_in),
-                                          (c.evc_station, c.evc_elevation, c.grade_out)):
+        for s, z_expected, g_expected in (
+            (c.bvc_station, c.bvc_elevation, c.grade_in),
+            (c.evc_station, c.evc_elevation, c.grade_out),
+        ):
             z, g = vertical.evaluate(geom, [s - eps, s, s + eps])
             assert_allclose(z, z_expected, atol=1e-6)
             assert_allclose(g, g_expected, atol=1e-5)
@@ -300,8 +326,9 @@ def test_station_exactly_at_bvc_pvi_evc():
     geom = vertical.solve(CASES["crest"])
     c = geom.curves[0]
     z = vertical.elevation(geom, [c.bvc_station, c.pvi_station, c.evc_station])
-    assert_allclose(z, [c.bvc_elevation, c.pvi_elevation + c.pvi_offset, c.evc_elevation],
-                    atol=1e-12)
+    assert_allclose(
+        z, [c.bvc_elevation, c.pvi_elevation + c.pvi_offset, c.evc_elevation], atol=1e-12
+    )
 
 
 def test_outside_profile_is_nan():
@@ -346,10 +373,17 @@ def test_caller_array_untouched():
 
 
 def test_overlap_names_the_element():
-    prof = profile_of((0.0, 100.0), (400.0, 108.0, "parabolic", 500.0),
-                      (800.0, 100.0, "parabolic", 400.0), (1200.0, 104.0))
-    with pytest.raises(ModelError, match=r"vertical curves overlap: BVC 600.000 is before "
-                                         r"the previous EVC 650.000"):
+    prof = profile_of(
+        (0.0, 100.0),
+        (400.0, 108.0, "parabolic", 500.0),
+        (800.0, 100.0, "parabolic", 400.0),
+        (1200.0, 104.0),
+    )
+    with pytest.raises(
+        ModelError,
+        match=r"vertical curves overlap: BVC 600.000 is before "
+        r"the previous EVC 650.000",
+    ):
         vertical.solve(prof)
 
 
@@ -366,8 +400,9 @@ def test_curve_past_profile_end():
 
 
 def test_curve_past_plain_pvi():
-    prof = profile_of((0.0, 100.0), (300.0, 108.0), (400.0, 104.0, "parabolic", 300.0),
-                      (900.0, 100.0))
+    prof = profile_of(
+        (0.0, 100.0), (300.0, 108.0), (400.0, 104.0, "parabolic", 300.0), (900.0, 100.0)
+    )
     with pytest.raises(ModelError, match="starts before the previous PVI"):
         vertical.solve(prof)
 

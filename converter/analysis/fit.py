@@ -15,10 +15,11 @@ import math
 from dataclasses import dataclass
 
 import numpy as np
+from numpy.typing import NDArray
+
 from gradeline.errors import GradelineError, ModelError
 from gradeline.geometry import vertical
 from gradeline.model import Profile, PVISpec
-from numpy.typing import NDArray
 
 __all__ = ["FitResult", "FittedCurve", "chain", "fit_profile"]
 
@@ -72,8 +73,9 @@ def chain(lines: list[NDArray[np.float64]], gap: float) -> NDArray[np.float64]:
             p = p[::-1]
         if np.any(np.diff(p[:, 0]) < -gap):
             i = int(np.argmax(np.diff(p[:, 0]) < -gap))
-            raise FitError(f"the linework runs back near x = {p[i, 0]:.3f}; a profile must "
-                           "advance in station")
+            raise FitError(
+                f"the linework runs back near x = {p[i, 0]:.3f}; a profile must advance in station"
+            )
         pieces.append(p)
     pieces.sort(key=lambda p: p[0, 0])
     out = [pieces[0]]
@@ -81,11 +83,15 @@ def chain(lines: list[NDArray[np.float64]], gap: float) -> NDArray[np.float64]:
         last = out[-1][-1]
         d = math.hypot(p[0, 0] - last[0], p[0, 1] - last[1])
         if p[0, 0] < last[0] - gap:
-            raise FitError(f"pieces overlap in station near x = {p[0, 0]:.3f} (one starts "
-                           f"before the previous ends at {last[0]:.3f}); the linework backtracks")
+            raise FitError(
+                f"pieces overlap in station near x = {p[0, 0]:.3f} (one starts "
+                f"before the previous ends at {last[0]:.3f}); the linework backtracks"
+            )
         if d > gap:
-            raise FitError(f"the linework is broken: a gap of {d:.4f} between x = {last[0]:.3f} "
-                           f"and x = {p[0, 0]:.3f}")
+            raise FitError(
+                f"the linework is broken: a gap of {d:.4f} between x = {last[0]:.3f} "
+                f"and x = {p[0, 0]:.3f}"
+            )
         out.append(p[1:] if d <= gap else p)
     pts = np.concatenate(out)
     keep = np.concatenate([[True], np.diff(pts[:, 0]) > 1e-9])
@@ -104,8 +110,9 @@ def _bends(s: NDArray[np.float64], z: NDArray[np.float64], window: float):
         if b - a < 4:
             continue
         t = s[a:b] - s[i]
-        coef, res, *_ = np.linalg.lstsq(np.column_stack([np.ones_like(t), t, t * t]), z[a:b],
-                                        rcond=None)
+        coef, res, *_ = np.linalg.lstsq(
+            np.column_stack([np.ones_like(t), t, t * t]), z[a:b], rcond=None
+        )
         k[i] = 2 * coef[2]
         resid[i] = math.sqrt(res[0] / (b - a)) if len(res) else 0.0
     count = np.maximum(hi - lo, 1)
@@ -152,7 +159,9 @@ def _model_z(kind, params, s, pvi_s, pvi_z, g1, g2):
         specs = PVISpec(pvi_s, pvi_z, "circular", radius=params[0])
     left = pvi_s - 1e6
     right = pvi_s + 1e6
-    prof = Profile("fit", (PVISpec(left, pvi_z - g1 * 1e6), specs, PVISpec(right, pvi_z + g2 * 1e6)))
+    prof = Profile(
+        "fit", (PVISpec(left, pvi_z - g1 * 1e6), specs, PVISpec(right, pvi_z + g2 * 1e6))
+    )
     return vertical.elevation(vertical.solve(prof), s)
 
 
@@ -163,24 +172,38 @@ def _fit_curve(s, z, pvi_s, pvi_z, g1, g2, room_in, room_out, noise):
         try:
             if any(p <= 0 for p in params):
                 return 1e9
-            return float(np.sqrt(np.mean((_model_z(kind, params, s, pvi_s, pvi_z, g1, g2) - z) ** 2)))
+            return float(
+                np.sqrt(np.mean((_model_z(kind, params, s, pvi_s, pvi_z, g1, g2) - z) ** 2))
+            )
         except (ModelError, ValueError, FloatingPointError):
             return 1e9
 
     results = {}
     span = min(room_in, room_out) * 2
-    r = minimize_scalar(lambda L: rms("parabolic", (L,)), bounds=(1e-3, max(span, 1e-2)),
-                        method="bounded", options={"xatol": 1e-6})
+    r = minimize_scalar(
+        lambda L: rms("parabolic", (L,)),
+        bounds=(1e-3, max(span, 1e-2)),
+        method="bounded",
+        options={"xatol": 1e-6},
+    )
     results["parabolic"] = (r.fun, (float(r.x),))
     l0 = float(r.x) / 2
-    m = minimize(lambda p: rms("unsymmetric", tuple(p)), x0=[l0, l0 * 1.01], method="Nelder-Mead",
-                 options={"xatol": 1e-6, "fatol": 1e-12, "maxiter": 4000})
+    m = minimize(
+        lambda p: rms("unsymmetric", tuple(p)),
+        x0=[l0, l0 * 1.01],
+        method="Nelder-Mead",
+        options={"xatol": 1e-6, "fatol": 1e-12, "maxiter": 4000},
+    )
     results["unsymmetric"] = (m.fun, (float(m.x[0]), float(m.x[1])))
     dth = abs(math.atan(g2) - math.atan(g1))
     if dth > 0:
         r_guess = float(r.x) / dth
-        c = minimize_scalar(lambda R: rms("circular", (R,)), bounds=(r_guess / 4, r_guess * 4),
-                            method="bounded", options={"xatol": 1e-6})
+        c = minimize_scalar(
+            lambda R: rms("circular", (R,)),
+            bounds=(r_guess / 4, r_guess * 4),
+            method="bounded",
+            options={"xatol": 1e-6},
+        )
         results["circular"] = (c.fun, (float(c.x),))
     best = min(v[0] for v in results.values())
     if best >= 1e9:
@@ -257,8 +280,9 @@ def _refine_joint(specs: list[PVISpec], s, z) -> list[PVISpec]:
         return specs
 
 
-def fit_profile(points: NDArray[np.float64], *, window: float, name: str = "Fitted profile",
-                iterations: int = 3) -> FitResult:
+def fit_profile(
+    points: NDArray[np.float64], *, window: float, name: str = "Fitted profile", iterations: int = 3
+) -> FitResult:
     """Recover PVIs and vertical curves from station/elevation points.
 
     Parameters
@@ -288,9 +312,14 @@ def fit_profile(points: NDArray[np.float64], *, window: float, name: str = "Fitt
     s = np.union1d(s0, np.concatenate(extra)) if extra else s0
     z = np.interp(s, s0, z0)
     margin = window / 4
-    curve_zone = [(s_rs, s_re) for s_rs, s_re in
-                  ((float(sv[a]) - margin, float(sv[b]) + margin) for a, b, _ in spans
-                   for sv in [np.union1d(np.arange(s0[0], s0[-1], step), s0)])]
+    curve_zone = [
+        (s_rs, s_re)
+        for s_rs, s_re in (
+            (float(sv[a]) - margin, float(sv[b]) + margin)
+            for a, b, _ in spans
+            for sv in [np.union1d(np.arange(s0[0], s0[-1], step), s0)]
+        )
+    ]
     for _ in range(iterations):
         tangents = []
         for k in range(len(curve_zone) + 1):
@@ -320,9 +349,12 @@ def fit_profile(points: NDArray[np.float64], *, window: float, name: str = "Fitt
             pz = g1 * ps + c1
             left = curve_zone[k - 1][1] if k else s[0]
             right = curve_zone[k + 1][0] if k + 1 < len(curve_zone) else s[-1]
-            sel = (s >= max(left, curve_zone[k][0] - window)) & (s <= min(right, curve_zone[k][1] + window))
-            kind, params, results = _fit_curve(s[sel], z[sel], ps, pz, g1, g2, ps - left,
-                                               right - ps, noise)
+            sel = (s >= max(left, curve_zone[k][0] - window)) & (
+                s <= min(right, curve_zone[k][1] + window)
+            )
+            kind, params, results = _fit_curve(
+                s[sel], z[sel], ps, pz, g1, g2, ps - left, right - ps, noise
+            )
             model = _model_z(kind, params, s[sel], ps, pz, g1, g2)
             res = model - z[sel]
             if kind == "parabolic":
@@ -335,9 +367,19 @@ def fit_profile(points: NDArray[np.float64], *, window: float, name: str = "Fitt
                 radius = params[0]
                 t = radius * math.tan(abs(math.atan(g2) - math.atan(g1)) / 2)
                 l1, l2 = t * math.cos(math.atan(g1)), t * math.cos(math.atan(g2))
-            fitted.append(FittedCurve(ps, pz, kind, l1, l2, radius,
-                                      float(np.sqrt(np.mean(res * res))), float(np.max(np.abs(res))),
-                                      tuple((kk, float(v[0])) for kk, v in results.items())))
+            fitted.append(
+                FittedCurve(
+                    ps,
+                    pz,
+                    kind,
+                    l1,
+                    l2,
+                    radius,
+                    float(np.sqrt(np.mean(res * res))),
+                    float(np.max(np.abs(res))),
+                    tuple((kk, float(v[0])) for kk, v in results.items()),
+                )
+            )
             pvis.append((ps, pz))
             new_zone.append((ps - l1, ps + l2))
         if len(new_zone) == len(curve_zone):
@@ -347,9 +389,13 @@ def fit_profile(points: NDArray[np.float64], *, window: float, name: str = "Fitt
     specs = [PVISpec(float(s[0]), g0 * s[0] + c0)]
     for f in fitted:
         if f.kind == "parabolic":
-            specs.append(PVISpec(f.pvi_station, f.pvi_elevation, "parabolic", f.length_in, f.length_out))
+            specs.append(
+                PVISpec(f.pvi_station, f.pvi_elevation, "parabolic", f.length_in, f.length_out)
+            )
         elif f.kind == "unsymmetric":
-            specs.append(PVISpec(f.pvi_station, f.pvi_elevation, "unsymmetric", f.length_in, f.length_out))
+            specs.append(
+                PVISpec(f.pvi_station, f.pvi_elevation, "unsymmetric", f.length_in, f.length_out)
+            )
         else:
             specs.append(PVISpec(f.pvi_station, f.pvi_elevation, "circular", radius=f.radius))
     specs.append(PVISpec(float(s[-1]), gn * s[-1] + cn))
@@ -358,8 +404,10 @@ def fit_profile(points: NDArray[np.float64], *, window: float, name: str = "Fitt
         prof = Profile(name, tuple(specs))
         geom = vertical.solve(prof)
     except ModelError as err:
-        raise FitError(f"the recovered geometry is not a valid profile ({err.message}); "
-                       "try a different --window") from None
+        raise FitError(
+            f"the recovered geometry is not a valid profile ({err.message}); "
+            "try a different --window"
+        ) from None
     # circular curves: state the arc length and the radius sign as LandXML files do
     # (positive on a sag, negative on a crest)
     by_station = {c.pvi_station: c for c in geom.curves}
@@ -368,7 +416,9 @@ def fit_profile(points: NDArray[np.float64], *, window: float, name: str = "Fitt
         c = by_station.get(p.station)
         if p.kind == "circular" and c is not None:
             r = abs(p.radius or 0.0) * (1 if c.curve_type == "sag" else -1)
-            out.append(PVISpec(p.station, p.elevation, "circular", radius=r, arc_length=c.arc_length))
+            out.append(
+                PVISpec(p.station, p.elevation, "circular", radius=r, arc_length=c.arc_length)
+            )
         else:
             out.append(p)
     specs = out
@@ -376,6 +426,12 @@ def fit_profile(points: NDArray[np.float64], *, window: float, name: str = "Fitt
     geom = vertical.solve(prof)
     res = vertical.elevation(geom, s0) - z0
     worst = int(np.argmax(np.abs(res)))
-    return FitResult(prof, tuple(fitted), tuple(t[2] for t in tangents),
-                     float(np.sqrt(np.mean(res * res))), float(np.abs(res[worst])), float(s0[worst]),
-                     len(s0))
+    return FitResult(
+        prof,
+        tuple(fitted),
+        tuple(t[2] for t in tangents),
+        float(np.sqrt(np.mean(res * res))),
+        float(np.abs(res[worst])),
+        float(s0[worst]),
+        len(s0),
+    )

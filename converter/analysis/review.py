@@ -26,14 +26,15 @@ from importlib import resources
 from typing import Any
 
 import numpy as np
+from numpy.lib.stride_tricks import sliding_window_view
+from numpy.typing import NDArray
+
 from gradeline.errors import InputError, UsageError
 from gradeline.geometry import vertical
 from gradeline.geometry._runs import true_runs
 from gradeline.geometry.vertical import VerticalGeometry
 from gradeline.model import SourceRef
 from gradeline.model.units import UNIT_DEFAULTS
-from numpy.lib.stride_tricks import sliding_window_view
-from numpy.typing import NDArray
 
 __all__ = [
     "Check",
@@ -103,7 +104,10 @@ class Criteria:
         return 200.0 * (math.sqrt(self.eye_height) + math.sqrt(self.object_height)) ** 2
 
     def sag_denominator(self, s: float) -> float:
-        """200 (h + S tan(beta)) as the published formula writes it: 400 + 3.5 S (ft), 120 + 3.5 S (m)."""
+        """200 (h + S tan(beta)) as the published formula writes it.
+
+        That is 400 + 3.5 S (ft) and 120 + 3.5 S (m).
+        """
         return self.sag_constant + self.sag_per_distance * s
 
     def psd(self, speed: float) -> float | None:
@@ -134,7 +138,9 @@ def load_criteria(path: str | None, metric: bool) -> Criteria:
                 text = fh.read()
         data = tomllib.loads(text.decode("utf-8"))
     except OSError as err:
-        raise InputError(f"cannot read the file ({err.strerror})", SourceRef(where), "criteria") from None
+        raise InputError(
+            f"cannot read the file ({err.strerror})", SourceRef(where), "criteria"
+        ) from None
     except (tomllib.TOMLDecodeError, UnicodeDecodeError) as err:
         raise InputError(f"not valid TOML: {err}", SourceRef(where), "criteria") from None
     key = "metric" if metric else "us"
@@ -172,7 +178,9 @@ def stopping_distance(crit: Criteria, speed: float, downgrade: float = 0.0) -> f
     """
     reaction = crit.brake_reaction_coefficient * speed * crit.reaction_time
     if downgrade >= crit.grade_correction_from:
-        braking = speed**2 / (crit.grade_coefficient * (crit.deceleration / crit.gravity - downgrade))
+        braking = speed**2 / (
+            crit.grade_coefficient * (crit.deceleration / crit.gravity - downgrade)
+        )
     else:
         braking = crit.braking_coefficient * speed**2 / crit.deceleration
     return reaction + braking
@@ -253,49 +261,109 @@ def _verdict(ok: bool) -> str:
     return "pass" if ok else "fail"
 
 
-def check_curve(curve: vertical.VerticalCurve, crit: Criteria, speed: float, *,
-                curbed: bool = False, passing: bool = False, lu: str = "ft") -> tuple[Check, ...]:
+def check_curve(
+    curve: vertical.VerticalCurve,
+    crit: Criteria,
+    speed: float,
+    *,
+    curbed: bool = False,
+    passing: bool = False,
+    lu: str = "ft",
+) -> tuple[Check, ...]:
     """All closed-form checks of one curve."""
     a = abs(curve.a_pct)
     length = curve.length
     k = curve.k if curve.k is not None else math.inf
     ssd = design_ssd(crit, speed)
     out: list[Check] = []
-    note = "" if curve.kind == "parabolic" else (
-        f"{curve.kind} curve: formulas assume a symmetric parabola; see the exact sight distance")
+    note = (
+        ""
+        if curve.kind == "parabolic"
+        else (
+            f"{curve.kind} curve: formulas assume a symmetric parabola; see the exact sight "
+            "distance"
+        )
+    )
     if curve.curve_type == "crest":
         need = crest_length(a, ssd, crit.crest_constant)
         case = "S < L" if a * ssd * ssd / crit.crest_constant >= ssd else "S > L"
-        out.append(Check(f"stopping sight distance {ssd:g} {lu} ({case})", need, length, lu,
-                         _verdict(length >= need - 1e-9), note))
+        out.append(
+            Check(
+                f"stopping sight distance {ssd:g} {lu} ({case})",
+                need,
+                length,
+                lu,
+                _verdict(length >= need - 1e-9),
+                note,
+            )
+        )
         kd = design_k_crest(crit, ssd)
         out.append(Check("design K, crest", kd, k, f"{lu}/%", _verdict(k >= kd - 1e-9)))
         if passing:
             psd = crit.psd(speed)
             if psd is not None:
-                cp = 200.0 * (math.sqrt(crit.eye_height) + math.sqrt(crit.passing_object_height)) ** 2
+                cp = (
+                    200.0
+                    * (math.sqrt(crit.eye_height) + math.sqrt(crit.passing_object_height)) ** 2
+                )
                 need = crest_length(a, psd, cp)
-                out.append(Check(f"passing sight distance {psd:g} {lu}", need, length, lu,
-                                 _verdict(length >= need - 1e-9)))
+                out.append(
+                    Check(
+                        f"passing sight distance {psd:g} {lu}",
+                        need,
+                        length,
+                        lu,
+                        _verdict(length >= need - 1e-9),
+                    )
+                )
     elif curve.curve_type == "sag":
         need = sag_length(a, ssd, crit)
         case = "S < L" if a * ssd * ssd / crit.sag_denominator(ssd) >= ssd else "S > L"
-        out.append(Check(f"headlight sight distance {ssd:g} {lu} ({case})", need, length, lu,
-                         _verdict(length >= need - 1e-9), note))
+        out.append(
+            Check(
+                f"headlight sight distance {ssd:g} {lu} ({case})",
+                need,
+                length,
+                lu,
+                _verdict(length >= need - 1e-9),
+                note,
+            )
+        )
         kd = design_k_sag(crit, ssd)
         out.append(Check("design K, sag", kd, k, f"{lu}/%", _verdict(k >= kd - 1e-9)))
         need = a * speed**2 / crit.comfort_divisor
-        out.append(Check("comfort (A V^2 / %g)" % crit.comfort_divisor, need, length, lu,
-                         _verdict(length >= need - 1e-9)))
+        out.append(
+            Check(
+                f"comfort (A V^2 / {crit.comfort_divisor:g})",
+                need,
+                length,
+                lu,
+                _verdict(length >= need - 1e-9),
+            )
+        )
     need = crit.appearance_per_speed * speed
-    out.append(Check(f"appearance ({crit.appearance_per_speed:g} V)", need, length, lu,
-                     _verdict(length >= need - 1e-9)))
+    out.append(
+        Check(
+            f"appearance ({crit.appearance_per_speed:g} V)",
+            need,
+            length,
+            lu,
+            _verdict(length >= need - 1e-9),
+        )
+    )
     if curbed and curve.curve_type != "flat":
         flat = k > crit.drainage_k_max
-        out.append(Check(f"drainage, curbed (K at most {crit.drainage_k_max:g})",
-                         crit.drainage_k_max, k, f"{lu}/%", "check" if flat else "pass",
-                         "a level spot near the high/low point needs drainage attention" if flat else "",
-                         at_most=True))
+        out.append(
+            Check(
+                f"drainage, curbed (K at most {crit.drainage_k_max:g})",
+                crit.drainage_k_max,
+                k,
+                f"{lu}/%",
+                "check" if flat else "pass",
+                "a level spot near the high/low point needs drainage attention" if flat else "",
+                at_most=True,
+            )
+        )
     return tuple(out)
 
 
@@ -312,15 +380,16 @@ class SightDistance:
     reach: float  # distances are looked for up to this far
 
 
-def _line_of_sight(z: NDArray[np.float64], eyes: NDArray[np.intp], dx: float, window: int,
-                   h1: float, h2: float) -> NDArray[np.float64]:
+def _line_of_sight(
+    z: NDArray[np.float64], eyes: NDArray[np.intp], dx: float, window: int, h1: float, h2: float
+) -> NDArray[np.float64]:
     """Distance from each eye sample to the first hidden object position."""
     n = len(z)
     pad = np.concatenate([z, np.full(window + 1, np.nan)])
     out = np.full(len(eyes), np.inf)
     k = np.arange(1, window + 1, dtype=np.float64)
     for lo in range(0, len(eyes), 2048):
-        idx = eyes[lo:lo + 2048]
+        idx = eyes[lo : lo + 2048]
         win = sliding_window_view(pad, window + 1)[idx]  # (m, window + 1); column 0 = eye
         eye = win[:, :1] + h1
         ahead = win[:, 1:]
@@ -342,22 +411,29 @@ def _line_of_sight(z: NDArray[np.float64], eyes: NDArray[np.intp], dx: float, wi
         res = np.full(len(idx), np.inf)
         res[rows] = dist
         # profile end reached before anything hid the object: not limited here
-        out[lo:lo + 2048] = res
+        out[lo : lo + 2048] = res
     _ = n
     return out
 
 
-def _headlight(z: NDArray[np.float64], eyes: NDArray[np.intp], slopes: NDArray[np.float64],
-               dx: float, window: int, h: float, beta: float) -> NDArray[np.float64]:
+def _headlight(
+    z: NDArray[np.float64],
+    eyes: NDArray[np.intp],
+    slopes: NDArray[np.float64],
+    dx: float,
+    window: int,
+    h: float,
+    beta: float,
+) -> NDArray[np.float64]:
     """Distance to where the top edge of the headlight beam meets the road."""
     pad = np.concatenate([z, np.full(window + 1, np.nan)])
     out = np.full(len(eyes), np.inf)
     k = np.arange(1, window + 1, dtype=np.float64) * dx
     tb = np.tan(np.arctan(slopes) + beta)
     for lo in range(0, len(eyes), 2048):
-        idx = eyes[lo:lo + 2048]
+        idx = eyes[lo : lo + 2048]
         win = sliding_window_view(pad, window + 1)[idx]
-        beam = win[:, :1] + h + tb[lo:lo + 2048, None] * k[None, :]
+        beam = win[:, :1] + h + tb[lo : lo + 2048, None] * k[None, :]
         under = beam - win[:, 1:]  # > 0 while the beam is above the road
         hit = (under <= 0) & ~np.isnan(under)
         first = np.argmax(hit, axis=1)
@@ -369,12 +445,18 @@ def _headlight(z: NDArray[np.float64], eyes: NDArray[np.intp], slopes: NDArray[n
         frac = u0 / np.where(u0 - u1 != 0, u0 - u1, 1.0)
         res = np.full(len(idx), np.inf)
         res[rows] = (j + np.clip(frac, 0.0, 1.0)) * dx
-        out[lo:lo + 2048] = res
+        out[lo : lo + 2048] = res
     return out
 
 
-def sight_distance(geom: VerticalGeometry, crit: Criteria, *, step: float, reach: float,
-                   sample: float | None = None) -> SightDistance:
+def sight_distance(
+    geom: VerticalGeometry,
+    crit: Criteria,
+    *,
+    step: float,
+    reach: float,
+    sample: float | None = None,
+) -> SightDistance:
     """Available stopping and headlight sight distance every ``step`` along the profile.
 
     The finished grade is sampled every ``sample`` (default step/10, at most 1 ft
@@ -385,8 +467,10 @@ def sight_distance(geom: VerticalGeometry, crit: Criteria, *, step: float, reach
         raise UsageError("step and reach must be positive")
     dx = sample or min(step / 10.0, 1.0)
     if (geom.end - geom.start) / dx > 50_000_000:
-        raise UsageError(f"the profile is {geom.end - geom.start:g} long: too long to sample every "
-                         f"{dx:g} for sight distance (at most 50,000,000 samples)")
+        raise UsageError(
+            f"the profile is {geom.end - geom.start:g} long: too long to sample every "
+            f"{dx:g} for sight distance (at most 50,000,000 samples)"
+        )
     n = int(math.floor((geom.end - geom.start) / dx)) + 1
     xs = geom.start + dx * np.arange(n)
     z, g = vertical.evaluate(geom, xs)
@@ -397,10 +481,12 @@ def sight_distance(geom: VerticalGeometry, crit: Criteria, *, step: float, reach
     ahead = _line_of_sight(z, eyes, dx, window, crit.eye_height, crit.object_height)
     head_a = _headlight(z, eyes, g[eyes], dx, window, crit.headlight_height, beta)
     zr = z[::-1].copy()
-    rev = (n - 1 - eyes)
+    rev = n - 1 - eyes
     behind = _line_of_sight(zr, rev, dx, window, crit.eye_height, crit.object_height)
     head_b = _headlight(zr, rev, -g[eyes], dx, window, crit.headlight_height, beta)
-    return SightDistance(xs[eyes], np.minimum(ahead, np.inf), behind, head_a, head_b, reach)
+    return SightDistance(
+        xs[eyes].astype(np.float64), np.minimum(ahead, np.inf), behind, head_a, head_b, reach
+    )
 
 
 @dataclass(frozen=True, slots=True)
@@ -417,9 +503,17 @@ class Deficiency:
 
 def _runs(stations, available, required, kind, direction) -> list[Deficiency]:
     short = available < required - 1e-6
-    return [Deficiency(kind, direction, float(stations[i]), float(stations[j]),
-                       float(np.min(available[i:j + 1])), float(np.max(required[i:j + 1])))
-            for i, j in true_runs(short)]
+    return [
+        Deficiency(
+            kind,
+            direction,
+            float(stations[i]),
+            float(stations[j]),
+            float(np.min(available[i : j + 1])),
+            float(np.max(required[i : j + 1])),
+        )
+        for i, j in true_runs(short)
+    ]
 
 
 @dataclass(frozen=True, eq=False)
@@ -439,35 +533,56 @@ class Review:
     @property
     def failed(self) -> bool:
         """True when any check fails or any station range lacks sight distance."""
-        return (any(c.failed for c in self.curves) or bool(self.deficiencies)
-                or any(ch.verdict == "fail" for _, ch in self.radius_checks))
+        return (
+            any(c.failed for c in self.curves)
+            or bool(self.deficiencies)
+            or any(ch.verdict == "fail" for _, ch in self.radius_checks)
+        )
 
 
-def radius_checks(curves, crit: Criteria, speed: float, e_max: float | None = None,
-                  lu: str = "ft") -> tuple[tuple[float, Check], ...]:
+def radius_checks(
+    curves, crit: Criteria, speed: float, e_max: float | None = None, lu: str = "ft"
+) -> tuple[tuple[float, Check], ...]:
     """Minimum radius for the design speed against each horizontal curve's radius."""
     need = crit.min_radius(speed, e_max)
     if need is None:
         return ()
     e = crit.e_max if e_max is None else e_max
     return tuple(
-        (c.start_station, Check(f"minimum radius (e max {100 * e:g} %)", need, c.radius, lu,
-                                _verdict(c.radius >= need - 1e-9)))
+        (
+            c.start_station,
+            Check(
+                f"minimum radius (e max {100 * e:g} %)",
+                need,
+                c.radius,
+                lu,
+                _verdict(c.radius >= need - 1e-9),
+            ),
+        )
         for c in curves
     )
 
 
-def review_profile(geom: VerticalGeometry, crit: Criteria, speed: float, *,
-                   curbed: bool = False, passing: bool = False, step: float | None = None,
-                   length_unit: str = "ft", horizontal_curves=(),
-                   e_max: float | None = None) -> Review:
+def review_profile(
+    geom: VerticalGeometry,
+    crit: Criteria,
+    speed: float,
+    *,
+    curbed: bool = False,
+    passing: bool = False,
+    step: float | None = None,
+    length_unit: str = "ft",
+    horizontal_curves=(),
+    e_max: float | None = None,
+) -> Review:
     """Review ``geom`` for a design ``speed`` in the criteria's speed unit."""
     if not (math.isfinite(speed) and speed > 0):
         raise UsageError(f"design speed must be a positive number, got {speed:g}")
     ssd = design_ssd(crit, speed)
     curves = tuple(
-        CurveReview(i + 1, c, check_curve(c, crit, speed, curbed=curbed, passing=passing,
-                                          lu=length_unit))
+        CurveReview(
+            i + 1, c, check_curve(c, crit, speed, curbed=curbed, passing=passing, lu=length_unit)
+        )
         for i, c in enumerate(geom.curves)
     )
     st = step or UNIT_DEFAULTS[length_unit == "m"].sight_step
@@ -477,10 +592,12 @@ def review_profile(geom: VerticalGeometry, crit: Criteria, speed: float, *,
     _, g = vertical.evaluate(geom, sd.stations)
     req_ahead = np.array([design_ssd(crit, speed, max(0.0, -x)) for x in g])
     req_behind = np.array([design_ssd(crit, speed, max(0.0, x)) for x in g])
-    defs = (_runs(sd.stations, sd.ahead, req_ahead, "stopping", "ahead")
-            + _runs(sd.stations, sd.behind, req_behind, "stopping", "behind")
-            + _runs(sd.stations, sd.headlight_ahead, req_ahead, "headlight", "ahead")
-            + _runs(sd.stations, sd.headlight_behind, req_behind, "headlight", "behind"))
+    defs = (
+        _runs(sd.stations, sd.ahead, req_ahead, "stopping", "ahead")
+        + _runs(sd.stations, sd.behind, req_behind, "stopping", "behind")
+        + _runs(sd.stations, sd.headlight_ahead, req_ahead, "headlight", "ahead")
+        + _runs(sd.stations, sd.headlight_behind, req_behind, "headlight", "behind")
+    )
     notes = (
         "Sight distance is measured on the finished grade alone: cuts, barriers, "
         "structures and horizontal curvature can shorten it further.",

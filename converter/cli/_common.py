@@ -69,31 +69,42 @@ def write_file(path: str, data: str | bytes, inputs: Sequence[str]) -> None:
 def add_common(p: argparse.ArgumentParser, *, profile: bool = True) -> None:
     """FILE, --alignment and (usually) --profile."""
     p.add_argument("file", metavar="FILE", help="LandXML file")
-    p.add_argument("--alignment", metavar="NAME", help="alignment (needed when the file has several)")
+    p.add_argument(
+        "--alignment", metavar="NAME", help="alignment (needed when the file has several)"
+    )
     if profile:
         p.add_argument("--profile", metavar="NAME", help="finished-grade profile (ProfAlign) name")
 
 
 def add_ground(p: argparse.ArgumentParser) -> None:
     """--ground and --surface."""
-    p.add_argument("--ground", metavar="FILE",
-                   help="LandXML file with the existing-ground TIN (default: FILE itself when "
-                        "--surface is given)")
-    p.add_argument("--surface", metavar="NAME",
-                   help="TIN surface to sample along the alignment (default: the only one)")
+    p.add_argument(
+        "--ground",
+        metavar="FILE",
+        help="LandXML file with the existing-ground TIN (default: FILE itself when "
+        "--surface is given)",
+    )
+    p.add_argument(
+        "--surface",
+        metavar="NAME",
+        help="TIN surface to sample along the alignment (default: the only one)",
+    )
 
 
 def add_output(p: argparse.ArgumentParser) -> None:
     """--format and -o of the table commands."""
-    p.add_argument("--format", choices=("csv", "json"), default="csv", help="output format (default csv)")
+    p.add_argument(
+        "--format", choices=("csv", "json"), default="csv", help="output format (default csv)"
+    )
     p.add_argument("-o", "--output", metavar="PATH", help="write here instead of standard output")
 
 
 def add_report(p: argparse.ArgumentParser) -> None:
     """--json and -o of the report commands."""
     p.add_argument("--json", action="store_true", help="write JSON instead of text")
-    p.add_argument("-o", "--output", metavar="PATH", help="write the report here instead of "
-                   "standard output")
+    p.add_argument(
+        "-o", "--output", metavar="PATH", help="write the report here instead of standard output"
+    )
 
 
 def with_ground(solved: SolvedAlignment, args: argparse.Namespace) -> SolvedAlignment:
@@ -123,8 +134,9 @@ def layer_names(args: argparse.Namespace) -> dict[str, str]:
     return names
 
 
-def drawing_mapping(args: argparse.Namespace,
-                    stored: dict[str, str]) -> tuple[float, float, str] | None:
+def drawing_mapping(
+    args: argparse.Namespace, stored: dict[str, str]
+) -> tuple[float, float, str] | None:
     """(exaggeration, datum, how) from the options or the drawing; None when neither says."""
     if (args.exaggeration is None) != (args.datum is None):
         raise UsageError("give both --exaggeration and --datum, or neither")

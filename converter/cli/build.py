@@ -72,8 +72,13 @@ def run(args: argparse.Namespace) -> int:
     files = collect_inputs(args.inputs)
     if not files:
         raise UsageError("no LandXML files found in " + ", ".join(args.inputs))
-    opts = BuildOptions(speed=args.speed, speed_unit=args.units, ground=args.ground,
-                        surface=args.surface, sheet=dict(cfg.get("sheet", {})),
-                        layers=dict(cfg.get("layers", {})))
+    opts = BuildOptions(
+        speed=args.speed,
+        speed_unit=args.units,
+        ground=args.ground,
+        surface=args.surface,
+        sheet=dict(cfg.get("sheet", {})),
+        layers=dict(cfg.get("layers", {})),
+    )
     workers = args.jobs or min(len(files), os.cpu_count() or 1)
     return run_jobs([BuildJob(f, opts) for f in files], args.output, workers)

@@ -28,16 +28,34 @@ def add_parser(sub: Any) -> None:
     add_common(p)
     p.add_argument("--dxf", metavar="DRAWING", help="DXF with drafted profile linework")
     add_ground(p)
-    p.add_argument("--layer", metavar="NAME", help="layer of the finished-grade linework "
-                   "(default PROFILE-GRADE when present)")
-    p.add_argument("--exaggeration", type=float, metavar="E",
-                   help="vertical exaggeration of the drawing")
-    p.add_argument("--datum", type=float, metavar="D",
-                   help="elevation at y = 0 (default: read from a gradeline drawing, else fitted)")
-    p.add_argument("--tolerance", type=float, default=0.01, metavar="T",
-                   help="distance and elevation tolerance in file units (default 0.01)")
-    p.add_argument("--angle-tolerance", type=float, default=2.0, metavar="SEC",
-                   help="angle and direction tolerance in seconds of arc (default 2)")
+    p.add_argument(
+        "--layer",
+        metavar="NAME",
+        help="layer of the finished-grade linework (default PROFILE-GRADE when present)",
+    )
+    p.add_argument(
+        "--exaggeration", type=float, metavar="E", help="vertical exaggeration of the drawing"
+    )
+    p.add_argument(
+        "--datum",
+        type=float,
+        metavar="D",
+        help="elevation at y = 0 (default: read from a gradeline drawing, else fitted)",
+    )
+    p.add_argument(
+        "--tolerance",
+        type=float,
+        default=0.01,
+        metavar="T",
+        help="distance and elevation tolerance in file units (default 0.01)",
+    )
+    p.add_argument(
+        "--angle-tolerance",
+        type=float,
+        default=2.0,
+        metavar="SEC",
+        help="angle and direction tolerance in seconds of arc (default 2)",
+    )
     add_report(p)
     p.set_defaults(func=run)
 
@@ -57,12 +75,16 @@ def _drawing(args: argparse.Namespace, doc: Any, tol: Any) -> tuple[Any, Any, st
     if not layer:
         layer = next((n for n in names if n.upper() == LAYER_ROLES["grade"]), "")
         if not layer:
-            raise UsageError(f"{args.dxf}: name the profile layer with --layer; layers with "
-                             "linework: " + (", ".join(names) or "none"))
+            raise UsageError(
+                f"{args.dxf}: name the profile layer with --layer; layers with "
+                "linework: " + (", ".join(names) or "none")
+            )
     lines = read_linework(dxf_doc, layer, tol.distance / 20.0)
     if not lines:
-        raise UsageError(f"{args.dxf}: no LINE, LWPOLYLINE, POLYLINE, SPLINE or ARC on layer "
-                         f"{layer!r}; layers with linework: " + (", ".join(names) or "none"))
+        raise UsageError(
+            f"{args.dxf}: no LINE, LWPOLYLINE, POLYLINE, SPLINE or ARC on layer "
+            f"{layer!r}; layers with linework: " + (", ".join(names) or "none")
+        )
     found = drawing_mapping(args, read_mapping(dxf_doc))
     if found is not None:
         exag, datum, how = found
@@ -87,11 +109,13 @@ def run(args: argparse.Namespace) -> int:
         base = dl.open_alignment(doc, args.alignment, args.profile)
         with_tin, _ = dl.attach_ground(base, args.ground, args.surface)
         findings += check.check_ground_against_surface(
-            base.alignment, with_tin.ground_at, tol, with_tin.alignment.grounds[0].name)
+            base.alignment, with_tin.ground_at, tol, with_tin.alignment.grounds[0].name
+        )
     drawing, stationing, layer = (None, None, args.layer or "")
     if args.dxf:
         drawing, stationing, layer = _drawing(args, doc, tol)
-    text, over = dl.check_report(doc, findings, tol, opts, drawing, args.dxf or "", layer,
-                                 stationing)
+    text, over = dl.check_report(
+        doc, findings, tol, opts, drawing, args.dxf or "", layer, stationing
+    )
     emit(text, args.output, [args.file] + ([args.dxf] if args.dxf else []))
     return 1 if over else 0

@@ -12,8 +12,9 @@ NAME = "curves"
 
 def add_parser(sub: Any) -> None:
     """Register the command."""
-    p = sub.add_parser(NAME, help="one row per vertical curve: PVI, grades, A, L, K, BVC/EVC, "
-                       "high/low point")
+    p = sub.add_parser(
+        NAME, help="one row per vertical curve: PVI, grades, A, L, K, BVC/EVC, high/low point"
+    )
     add_common(p)
     add_output(p)
     p.set_defaults(func=run)

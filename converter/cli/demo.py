@@ -11,8 +11,13 @@ NAME = "demo"
 def add_parser(sub: Any) -> None:
     """Register the command."""
     p = sub.add_parser(NAME, help="build everything from the bundled samples")
-    p.add_argument("-o", "--output", default="gradeline-demo", metavar="OUTDIR",
-                   help="output folder (default gradeline-demo)")
+    p.add_argument(
+        "-o",
+        "--output",
+        default="gradeline-demo",
+        metavar="OUTDIR",
+        help="output folder (default gradeline-demo)",
+    )
     p.add_argument("--jobs", type=int, metavar="N", help="parallel processes")
     p.set_defaults(func=run)
 
@@ -40,7 +45,11 @@ def run(args: argparse.Namespace) -> int:
     metric_sheet["project"] = "Tarnholm Link Road (invented sample)"
     jobs = [
         BuildJob(bypass, BuildOptions(speed=50.0, speed_unit="mph", ground=terrain, sheet=sheet)),
-        BuildJob(link, BuildOptions(speed=80.0, speed_unit="kmh", surface="Survey 2026 west",
-                                    sheet=metric_sheet)),
+        BuildJob(
+            link,
+            BuildOptions(
+                speed=80.0, speed_unit="kmh", surface="Survey 2026 west", sheet=metric_sheet
+            ),
+        ),
     ]
     return run_jobs(jobs, args.output, args.jobs or 1)

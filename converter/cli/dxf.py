@@ -21,24 +21,44 @@ def add_parser(sub: Any) -> None:
             "Profile in model space at x = station, y = (elevation - datum) x exaggeration "
             "(datum and exaggeration are written into the drawing). Parabolic curves are "
             "exact degree-2 SPLINEs, or polylines within 0.005 ft / 0.002 m of the curve "
-            "with --curves polyline (always in R12). Layer roles: "
-            + ", ".join(LAYER_ROLES)
+            "with --curves polyline (always in R12). Layer roles: " + ", ".join(LAYER_ROLES)
         ),
     )
     add_common(p)
     p.add_argument("-o", "--output", metavar="PATH", required=True, help="profile DXF to write")
     p.add_argument("--plan", metavar="PATH", help="also write the plan linework to this DXF")
     add_ground(p)
-    p.add_argument("--exaggeration", type=float, default=10.0, metavar="E",
-                   help="vertical exaggeration (default 10)")
-    p.add_argument("--scale", type=float, metavar="S",
-                   help="plot scale for text heights: 1\" = S ft (default 50) or 1:S (default 500)")
-    p.add_argument("--curves", choices=("spline", "polyline"), default="spline",
-                   help="parabolic curves as exact SPLINEs (default) or polylines")
-    p.add_argument("--dxf-version", choices=("R2010", "R2000", "R12"), default="R2010",
-                   help="DXF version (default R2010)")
-    p.add_argument("--layer", action="append", metavar="ROLE=NAME",
-                   help="rename a layer, e.g. --layer grade=C-ROAD-PROF (repeatable)")
+    p.add_argument(
+        "--exaggeration",
+        type=float,
+        default=10.0,
+        metavar="E",
+        help="vertical exaggeration (default 10)",
+    )
+    p.add_argument(
+        "--scale",
+        type=float,
+        metavar="S",
+        help='plot scale for text heights: 1" = S ft (default 50) or 1:S (default 500)',
+    )
+    p.add_argument(
+        "--curves",
+        choices=("spline", "polyline"),
+        default="spline",
+        help="parabolic curves as exact SPLINEs (default) or polylines",
+    )
+    p.add_argument(
+        "--dxf-version",
+        choices=("R2010", "R2000", "R12"),
+        default="R2010",
+        help="DXF version (default R2010)",
+    )
+    p.add_argument(
+        "--layer",
+        action="append",
+        metavar="ROLE=NAME",
+        help="rename a layer, e.g. --layer grade=C-ROAD-PROF (repeatable)",
+    )
     p.add_argument("--config", metavar="FILE", help="TOML file; its [layers] table renames layers")
     p.set_defaults(func=run)
 
@@ -49,8 +69,9 @@ def run(args: argparse.Namespace) -> int:
 
     solved = dl.open_alignment(args.file, args.alignment, args.profile, need_profile=True)
     solved = with_ground(solved, args)
-    opts = dl.DrawingOptions(args.scale, args.exaggeration, args.curves, args.dxf_version,
-                             layer_names(args))
+    opts = dl.DrawingOptions(
+        args.scale, args.exaggeration, args.curves, args.dxf_version, layer_names(args)
+    )
     outputs = [(args.output, dl.profile_dxf(solved, opts))]
     if args.plan:
         outputs.append((args.plan, dl.plan_dxf(solved, opts)))

@@ -32,22 +32,33 @@ def add_parser(sub: Any) -> None:
     p.add_argument("--layer", required=True, metavar="NAME", help="layer of the finished grade")
     p.add_argument("--exaggeration", type=float, metavar="E", help="vertical exaggeration")
     p.add_argument("--datum", type=float, metavar="D", help="elevation at y = 0")
-    p.add_argument("--start-station", type=float, metavar="S",
-                   help="station of the first point (default: x itself is the station)")
-    p.add_argument("--units", choices=("ft", "m"),
-                   help="units of the drawing (default: from it, else ft)")
-    p.add_argument("--window", type=float, metavar="W",
-                   help="length over which bends are detected (default 80 ft / 24 m)")
-    p.add_argument("--name", metavar="NAME",
-                   help="alignment name in the LandXML (default: file name)")
-    p.add_argument("--profile-name", default="Fitted profile", metavar="NAME", help="ProfAlign name")
+    p.add_argument(
+        "--start-station",
+        type=float,
+        metavar="S",
+        help="station of the first point (default: x itself is the station)",
+    )
+    p.add_argument(
+        "--units", choices=("ft", "m"), help="units of the drawing (default: from it, else ft)"
+    )
+    p.add_argument(
+        "--window",
+        type=float,
+        metavar="W",
+        help="length over which bends are detected (default 80 ft / 24 m)",
+    )
+    p.add_argument(
+        "--name", metavar="NAME", help="alignment name in the LandXML (default: file name)"
+    )
+    p.add_argument(
+        "--profile-name", default="Fitted profile", metavar="NAME", help="ProfAlign name"
+    )
     p.add_argument("-o", "--output", required=True, metavar="PATH", help="LandXML file to write")
     p.add_argument("--json", action="store_true", help="report as JSON")
     p.set_defaults(func=run)
 
 
-def _report(args: argparse.Namespace, result: Any, units: Any, exag: float,
-            datum: float) -> str:
+def _report(args: argparse.Namespace, result: Any, units: Any, exag: float, datum: float) -> str:
     from gradeline.geometry.stations import Stationing
     from gradeline.render.outputs import json_text
 
@@ -55,30 +66,63 @@ def _report(args: argparse.Namespace, result: Any, units: Any, exag: float,
     stationing = Stationing(units)
     rows = []
     for c in result.curves:
-        rows.append({"pvi_station": c.pvi_station, "pvi_label": stationing.label(c.pvi_station),
-                     "pvi_elevation": c.pvi_elevation, "kind": c.kind, "length_in": c.length_in,
-                     "length_out": c.length_out, "length": c.length_in + c.length_out,
-                     "radius": c.radius, "rms": c.rms, "max_residual": c.max_residual})
+        rows.append(
+            {
+                "pvi_station": c.pvi_station,
+                "pvi_label": stationing.label(c.pvi_station),
+                "pvi_elevation": c.pvi_elevation,
+                "kind": c.kind,
+                "length_in": c.length_in,
+                "length_out": c.length_out,
+                "length": c.length_in + c.length_out,
+                "radius": c.radius,
+                "rms": c.rms,
+                "max_residual": c.max_residual,
+            }
+        )
     if args.json:
-        return json_text({"drawing": args.drawing, "layer": args.layer, "output": args.output,
-                          "exaggeration": exag, "datum": datum, "points": result.points,
-                          "rms": result.rms, "max_residual": result.max_residual,
-                          "worst_station": result.worst_station, "curves": rows,
-                          "pvis": [{"station": p.station, "elevation": p.elevation,
-                                    "kind": p.kind} for p in prof.pvis]})
-    out = [f"fitted {len(prof.pvis)} PVIs and {len(result.curves)} vertical curves to "
-           f"{result.points} points on layer {args.layer!r}; worst residual "
-           f"{result.max_residual:.4f} {units.symbol} at "
-           f"{stationing.label(result.worst_station)}, rms {result.rms:.4f}",
-           f"wrote {args.output}", ""]
+        return json_text(
+            {
+                "drawing": args.drawing,
+                "layer": args.layer,
+                "output": args.output,
+                "exaggeration": exag,
+                "datum": datum,
+                "points": result.points,
+                "rms": result.rms,
+                "max_residual": result.max_residual,
+                "worst_station": result.worst_station,
+                "curves": rows,
+                "pvis": [
+                    {"station": p.station, "elevation": p.elevation, "kind": p.kind}
+                    for p in prof.pvis
+                ],
+            }
+        )
+    out = [
+        f"fitted {len(prof.pvis)} PVIs and {len(result.curves)} vertical curves to "
+        f"{result.points} points on layer {args.layer!r}; worst residual "
+        f"{result.max_residual:.4f} {units.symbol} at "
+        f"{stationing.label(result.worst_station)}, rms {result.rms:.4f}",
+        f"wrote {args.output}",
+        "",
+    ]
     for p in prof.pvis:
         c = next((r for r in rows if abs(r["pvi_station"] - p.station) < 1e-9), None)
-        desc = "" if c is None else (
-            f"  {c['kind']}  L {c['length']:.3f}"
-            + (f" ({c['length_in']:.3f} + {c['length_out']:.3f})"
-               if c["kind"] == "unsymmetric" else "")
-            + (f"  R {c['radius']:.1f}" if c["radius"] else "")
-            + f"  residual max {c['max_residual']:.4f}")
+        desc = (
+            ""
+            if c is None
+            else (
+                f"  {c['kind']}  L {c['length']:.3f}"
+                + (
+                    f" ({c['length_in']:.3f} + {c['length_out']:.3f})"
+                    if c["kind"] == "unsymmetric"
+                    else ""
+                )
+                + (f"  R {c['radius']:.1f}" if c["radius"] else "")
+                + f"  residual max {c['max_residual']:.4f}"
+            )
+        )
         out.append(f"PVI {stationing.label(p.station)}  EL {p.elevation:.4f}{desc}")
     return "\n".join(out) + "\n"
 
@@ -94,13 +138,17 @@ def run(args: argparse.Namespace) -> int:
     names = layer_names(dxf_doc)
     lines = read_linework(dxf_doc, args.layer, 0.0005)
     if not lines:
-        raise UsageError(f"{args.drawing}: no LINE, LWPOLYLINE, POLYLINE, SPLINE or ARC on layer "
-                         f"{args.layer!r}; layers with linework: " + (", ".join(names) or "none"))
+        raise UsageError(
+            f"{args.drawing}: no LINE, LWPOLYLINE, POLYLINE, SPLINE or ARC on layer "
+            f"{args.layer!r}; layers with linework: " + (", ".join(names) or "none")
+        )
     mapping = read_mapping(dxf_doc)
     found = drawing_mapping(args, mapping)
     if found is None:
-        raise UsageError(f"{args.drawing}: the drawing does not say how it maps to elevations; "
-                         "give --exaggeration and --datum")
+        raise UsageError(
+            f"{args.drawing}: the drawing does not say how it maps to elevations; "
+            "give --exaggeration and --datum"
+        )
     exag, datum, _ = found
     if exag <= 0:
         raise UsageError("--exaggeration must be positive")

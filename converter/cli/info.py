@@ -125,8 +125,11 @@ def describe_text(info: dict[str, Any]) -> str:
         if hz:
             matched, stated = hz["stated_directions_matched"]
             conv = hz["direction_convention_text"]
-            how = (f"{matched} of {stated} stated directions match" if stated
-                   else "no stated directions; assumed")
+            how = (
+                f"{matched} of {stated} stated directions match"
+                if stated
+                else "no stated directions; assumed"
+            )
             lines.append(
                 f"  horizontal: {hz['start_label']} to {hz['end_label']}, "
                 f"{_count(hz['lines'], 'line')}, {_count(hz['curves'], 'curve')}, "

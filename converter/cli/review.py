@@ -15,7 +15,7 @@ def add_parser(sub: Any) -> None:
     p = sub.add_parser(
         NAME,
         help="design-control review: sight distance, comfort, appearance, drainage (exit 1 on "
-             "failure)",
+        "failure)",
         description=(
             "Closed-form checks of every vertical curve for the design speed (crest stopping "
             "sight distance, sag headlight sight distance, comfort, appearance, drainage on "
@@ -28,15 +28,32 @@ def add_parser(sub: Any) -> None:
     )
     add_common(p)
     p.add_argument("--speed", type=float, required=True, metavar="V", help="design speed")
-    p.add_argument("--units", choices=("mph", "kmh"),
-                   help="unit of --speed (default: mph for files in feet, kmh for metres)")
-    p.add_argument("--curbed", action="store_true", help="curbed section: flag drainage on flat curves")
-    p.add_argument("--passing", action="store_true", help="also check passing sight distance on crests")
-    p.add_argument("--criteria", metavar="FILE", help="TOML design controls (see converter/criteria/)")
-    p.add_argument("--emax", type=float, metavar="E",
-                   help="maximum superelevation rate for the minimum-radius check (default 0.08)")
-    p.add_argument("--step", type=float, metavar="D",
-                   help="station step of the sight-distance run (default 10 ft / 5 m)")
+    p.add_argument(
+        "--units",
+        choices=("mph", "kmh"),
+        help="unit of --speed (default: mph for files in feet, kmh for metres)",
+    )
+    p.add_argument(
+        "--curbed", action="store_true", help="curbed section: flag drainage on flat curves"
+    )
+    p.add_argument(
+        "--passing", action="store_true", help="also check passing sight distance on crests"
+    )
+    p.add_argument(
+        "--criteria", metavar="FILE", help="TOML design controls (see converter/criteria/)"
+    )
+    p.add_argument(
+        "--emax",
+        type=float,
+        metavar="E",
+        help="maximum superelevation rate for the minimum-radius check (default 0.08)",
+    )
+    p.add_argument(
+        "--step",
+        type=float,
+        metavar="D",
+        help="station step of the sight-distance run (default 10 ft / 5 m)",
+    )
     add_report(p)
     p.set_defaults(func=run)
 
@@ -46,8 +63,16 @@ def run(args: argparse.Namespace) -> int:
     from gradeline import deliverables as dl
 
     solved = dl.open_alignment(args.file, args.alignment, args.profile, need_profile=True)
-    opts = dl.ReviewOptions(args.speed, args.units, args.curbed, args.passing, args.criteria,
-                            args.emax, args.step, args.json)
+    opts = dl.ReviewOptions(
+        args.speed,
+        args.units,
+        args.curbed,
+        args.passing,
+        args.criteria,
+        args.emax,
+        args.step,
+        args.json,
+    )
     text, failed = dl.review_report(solved, opts)
     emit(text, args.output, [args.file])
     return 1 if failed else 0

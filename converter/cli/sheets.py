@@ -24,18 +24,31 @@ def add_parser(sub: Any) -> None:
     add_common(p)
     p.add_argument("-o", "--output", metavar="PATH", required=True, help="PDF to write")
     add_ground(p)
-    p.add_argument("--size", choices=("ansi-d", "ansi-b", "iso-a1", "iso-a3"),
-                   help="sheet size (default ansi-d for feet, iso-a1 for metres)")
-    p.add_argument("--scale", type=float, metavar="S",
-                   help="horizontal scale: 1\" = S ft (20, 40, 50, 100; default 50) or 1:S "
-                        "(250, 500, 1000; default 500)")
-    p.add_argument("--exaggeration", type=float, metavar="E",
-                   help="vertical exaggeration (default 10; lowered on a sheet whose profile "
-                        "would not fit, and the title block says so)")
-    p.add_argument("--interval", type=float, metavar="D",
-                   help="station table interval (default 50 ft / 20 m)")
-    p.add_argument("--config", metavar="FILE",
-                   help="TOML file with a [sheet] table (see samples/sheets.toml)")
+    p.add_argument(
+        "--size",
+        choices=("ansi-d", "ansi-b", "iso-a1", "iso-a3"),
+        help="sheet size (default ansi-d for feet, iso-a1 for metres)",
+    )
+    p.add_argument(
+        "--scale",
+        type=float,
+        metavar="S",
+        help='horizontal scale: 1" = S ft (20, 40, 50, 100; default 50) or 1:S '
+        "(250, 500, 1000; default 500)",
+    )
+    p.add_argument(
+        "--exaggeration",
+        type=float,
+        metavar="E",
+        help="vertical exaggeration (default 10; lowered on a sheet whose profile "
+        "would not fit, and the title block says so)",
+    )
+    p.add_argument(
+        "--interval", type=float, metavar="D", help="station table interval (default 50 ft / 20 m)"
+    )
+    p.add_argument(
+        "--config", metavar="FILE", help="TOML file with a [sheet] table (see samples/sheets.toml)"
+    )
     p.set_defaults(func=run)
 
 
@@ -49,8 +62,12 @@ def run(args: argparse.Namespace) -> int:
     dl.check_sheet_config(sheet_cfg, args.config or "config")
     solved = dl.open_alignment(args.file, args.alignment, args.profile, need_profile=True)
     solved = with_ground(solved, args)
-    overrides = {"size": args.size, "scale": args.scale, "exaggeration": args.exaggeration,
-                 "interval": args.interval}
+    overrides = {
+        "size": args.size,
+        "scale": args.scale,
+        "exaggeration": args.exaggeration,
+        "interval": args.interval,
+    }
     opts = dl.sheet_options(solved, sheet_cfg, overrides, config_name=args.config or "config")
     data = dl.sheets_pdf(solved, opts)
     warn(dl.plan_warnings(solved))

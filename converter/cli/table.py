@@ -24,7 +24,9 @@ def add_parser(sub: Any) -> None:
     add_common(p)
     add_ground(p)
     group = p.add_mutually_exclusive_group(required=True)
-    group.add_argument("--interval", type=float, metavar="D", help="row every D file units of station")
+    group.add_argument(
+        "--interval", type=float, metavar="D", help="row every D file units of station"
+    )
     group.add_argument(
         "--at",
         metavar="STATIONS",

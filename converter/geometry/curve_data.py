@@ -1,5 +1,4 @@
-"""Horizontal curve data (PI, R, delta, T, L, chord, E, M, PC/PT, TS/SC/CS/ST) and plan key points.
-"""
+"""Horizontal curve data (PI, R, delta, T, L, chord, E, M, PC/PT, TS/SC/CS/ST), key points."""
 
 from __future__ import annotations
 
@@ -8,6 +7,7 @@ from collections.abc import Sequence
 from dataclasses import dataclass, field
 
 import numpy as np
+
 from gradeline.geometry.horizontal import (
     HorizontalGeometry,
     _wrap,
@@ -88,7 +88,7 @@ def curve_data(geom: HorizontalGeometry) -> tuple[HorizontalCurve, ...]:
     belong to the circular arc.
     """
     els = geom.elements
-    out = []
+    out: list[HorizontalCurve] = []
     for i, g in enumerate(els):
         if g.kind != "arc":
             continue
@@ -103,7 +103,9 @@ def curve_data(geom: HorizontalGeometry) -> tuple[HorizontalCurve, ...]:
             sp_out, sp_type = last.length, sp_type or last.kind
         radius = 1.0 / abs(g.k0)
         delta = _wrap(last.heading1 - first.heading0)
-        pi = tangent_intersection((first.x0, first.y0), first.heading0, (last.x1, last.y1), last.heading1)
+        pi = tangent_intersection(
+            (first.x0, first.y0), first.heading0, (last.x1, last.y1), last.heading1
+        )
         if pi is not None:
             t_in = math.hypot(pi[0] - first.x0, pi[1] - first.y0)
             t_out = math.hypot(last.x1 - pi[0], last.y1 - pi[1])
@@ -113,44 +115,47 @@ def curve_data(geom: HorizontalGeometry) -> tuple[HorizontalCurve, ...]:
         else:
             t_in = t_out = external = math.nan
         sweep = g.length / radius
-        out.append(HorizontalCurve(
-            number=len(out) + 1,
-            radius=radius,
-            delta=delta,
-            arc_length=g.length,
-            tangent_in=t_in,
-            tangent_out=t_out,
-            chord=math.hypot(g.x1 - g.x0, g.y1 - g.y0),
-            external=external,
-            middle_ordinate=radius * (1.0 - math.cos(sweep / 2.0)),
-            pi_station=first.start_station + t_in,
-            pi_northing=pi[1] if pi else None,
-            pi_easting=pi[0] if pi else None,
-            start_station=first.start_station,
-            end_station=last.end_station,
-            sc_station=g.start_station if sp_in else None,
-            cs_station=g.end_station if sp_out else None,
-            spiral_in=sp_in,
-            spiral_out=sp_out,
-            spiral_type=sp_type,
-            source=g.source,
-        ))
+        out.append(
+            HorizontalCurve(
+                number=len(out) + 1,
+                radius=radius,
+                delta=delta,
+                arc_length=g.length,
+                tangent_in=t_in,
+                tangent_out=t_out,
+                chord=math.hypot(g.x1 - g.x0, g.y1 - g.y0),
+                external=external,
+                middle_ordinate=radius * (1.0 - math.cos(sweep / 2.0)),
+                pi_station=first.start_station + t_in,
+                pi_northing=pi[1] if pi else None,
+                pi_easting=pi[0] if pi else None,
+                start_station=first.start_station,
+                end_station=last.end_station,
+                sc_station=g.start_station if sp_in else None,
+                cs_station=g.end_station if sp_out else None,
+                spiral_in=sp_in,
+                spiral_out=sp_out,
+                spiral_type=sp_type,
+                source=g.source,
+            )
+        )
     return tuple(out)
 
 
-def key_points(geom: HorizontalGeometry,
-               curves: Sequence[HorizontalCurve] | None = None) -> list[tuple[float, str]]:
+def key_points(
+    geom: HorizontalGeometry, curves: Sequence[HorizontalCurve] | None = None
+) -> list[tuple[float, str]]:
     """(station, tag) of POB, POE and every PC, PT, TS, SC, CS and ST.
 
     ``curves`` is the curve data of ``geom`` when the caller already has it.
     """
-    pts = [(geom.start, "POB")]
-    for c in (curve_data(geom) if curves is None else curves):
-        if c.spiral_in:
+    pts: list[tuple[float, str]] = [(geom.start, "POB")]
+    for c in curve_data(geom) if curves is None else curves:
+        if c.spiral_in and c.sc_station is not None:
             pts += [(c.start_station, "TS"), (c.sc_station, "SC")]
         else:
             pts.append((c.start_station, "PC"))
-        if c.spiral_out:
+        if c.spiral_out and c.cs_station is not None:
             pts += [(c.cs_station, "CS"), (c.end_station, "ST")]
         else:
             pts.append((c.end_station, "PT"))

@@ -14,11 +14,12 @@ from __future__ import annotations
 import math
 
 import numpy as np
+from numpy.typing import ArrayLike, NDArray
+
 from gradeline.geometry import horizontal
 from gradeline.geometry._runs import true_runs
 from gradeline.geometry.horizontal import HorizontalGeometry
 from gradeline.model import GroundPiece, GroundProfile, SourceRef, Surface
-from numpy.typing import ArrayLike, NDArray
 
 __all__ = ["Surface", "TriangleIndex", "ground_profile", "interpolate", "sample_alignment"]
 
@@ -117,8 +118,9 @@ def _edges(index: TriangleIndex) -> tuple[NDArray[np.int64], NDArray[np.int64]]:
     return e[:, 0], e[:, 1]
 
 
-def _crossings(index: TriangleIndex, sx: NDArray[np.float64], sy: NDArray[np.float64],
-               ss: NDArray[np.float64]) -> NDArray[np.float64]:
+def _crossings(
+    index: TriangleIndex, sx: NDArray[np.float64], sy: NDArray[np.float64], ss: NDArray[np.float64]
+) -> NDArray[np.float64]:
     """Stations where the polyline (sx, sy at stations ss) crosses a TIN edge."""
     x, y = index.s.x, index.s.y
     tri = index.tri
@@ -129,14 +131,21 @@ def _crossings(index: TriangleIndex, sx: NDArray[np.float64], sy: NDArray[np.flo
     # (segments are shorter than a cell, so this covers every triangle they touch
     # except through a cell corner, which the mid-point adds)
     mids = ((ax + bx) / 2, (ay + by) / 2)
-    seg_cells = [index.cells_of(ax, ay), index.cells_of(bx, by), index.cells_of(*mids),
-                 index.cells_of(ax, by), index.cells_of(bx, ay)]
+    seg_cells = [
+        index.cells_of(ax, ay),
+        index.cells_of(bx, by),
+        index.cells_of(*mids),
+        index.cells_of(ax, by),
+        index.cells_of(bx, ay),
+    ]
     pairs_seg, pairs_tri = [], []
     for cells in seg_cells:
         ok = np.flatnonzero(cells >= 0)
         n = index.start[cells[ok] + 1] - index.start[cells[ok]]
         seg = np.repeat(ok, n)
-        pos = np.repeat(index.start[cells[ok]], n) + (np.arange(n.sum()) - np.repeat(np.cumsum(n) - n, n))
+        pos = np.repeat(index.start[cells[ok]], n) + (
+            np.arange(n.sum()) - np.repeat(np.cumsum(n) - n, n)
+        )
         pairs_seg.append(seg)
         pairs_tri.append(index.items[pos])
     seg = np.concatenate(pairs_seg)
@@ -157,9 +166,16 @@ def _crossings(index: TriangleIndex, sx: NDArray[np.float64], sy: NDArray[np.flo
     return np.unique(np.round(np.concatenate(out), 9)) if out else np.empty(0)
 
 
-def sample_alignment(hz: HorizontalGeometry, index: TriangleIndex, *, step: float | None = None,
-                     stations: ArrayLike | None = None, lo: float | None = None,
-                     hi: float | None = None, chord: float = 0.001):
+def sample_alignment(
+    hz: HorizontalGeometry,
+    index: TriangleIndex,
+    *,
+    step: float | None = None,
+    stations: ArrayLike | None = None,
+    lo: float | None = None,
+    hi: float | None = None,
+    chord: float = 0.001,
+):
     """Ground along the alignment at every TIN edge crossing plus regular stations.
 
     Returns (stations, ground); ground is NaN where the alignment is off the
@@ -179,8 +195,10 @@ def sample_alignment(hz: HorizontalGeometry, index: TriangleIndex, *, step: floa
         if n > 20_000_000:
             from gradeline.errors import UsageError
 
-            raise UsageError(f"sampling the surface along {s1 - s0:g} of alignment needs "
-                             f"{n:,} points (at most 20,000,000); is a length in the file wrong?")
+            raise UsageError(
+                f"sampling the surface along {s1 - s0:g} of alignment needs "
+                f"{n:,} points (at most 20,000,000); is a length in the file wrong?"
+            )
         base.append(np.linspace(s0, s1, n))
     ss = np.unique(np.concatenate(base))
     north, east, _ = horizontal.evaluate(hz, ss)
@@ -192,15 +210,20 @@ def sample_alignment(hz: HorizontalGeometry, index: TriangleIndex, *, step: floa
         parts.append(np.asarray(stations, dtype=np.float64).reshape(-1))
     st = np.unique(np.concatenate(parts))
     st = st[(st >= a) & (st <= b)]
-    n, e, _ = horizontal.evaluate(hz, st)
-    return st, interpolate(index, e, n)
+    north, east, _ = horizontal.evaluate(hz, st)
+    return st, interpolate(index, east, north)
 
 
-def ground_profile(name: str, stations: NDArray[np.float64], ground: NDArray[np.float64],
-                   source: SourceRef | None = None) -> GroundProfile:
+def ground_profile(
+    name: str,
+    stations: NDArray[np.float64],
+    ground: NDArray[np.float64],
+    source: SourceRef | None = None,
+) -> GroundProfile:
     """A :class:`GroundProfile` with one piece per run of stations on the surface."""
     pieces = [
-        GroundPiece(tuple(stations[i:j + 1].tolist()), tuple(ground[i:j + 1].tolist()), source)
-        for i, j in true_runs(np.isfinite(ground)) if j > i
+        GroundPiece(tuple(stations[i : j + 1].tolist()), tuple(ground[i : j + 1].tolist()), source)
+        for i, j in true_runs(np.isfinite(ground))
+        if j > i
     ]
     return GroundProfile(name, tuple(pieces), source)

@@ -24,6 +24,8 @@ import math
 from dataclasses import dataclass, field
 
 import numpy as np
+from numpy.typing import ArrayLike, NDArray
+
 from gradeline.errors import ModelError
 from gradeline.geometry.spirals import (
     _GL_T,
@@ -46,7 +48,6 @@ from gradeline.model import (
     SourceRef,
 )
 from gradeline.model.units import angle_from_unit, angle_to_unit
-from numpy.typing import ArrayLike, NDArray
 
 __all__ = [
     "CONVENTIONS",
@@ -201,20 +202,34 @@ def solve(
             if prev is not None:
                 gap = math.hypot(g.x0 - prev.x1, g.y0 - prev.y1)
                 if gap > tol_distance:
-                    findings.append(GeometryNote(
-                        "gap", index, g.start_station,
-                        f"gap of {gap:.4f} between the end of element {prev.index + 1} "
-                        f"({prev.element}) and the start of element {index + 1} ({g.element})",
-                        0.0, gap, el.source))
+                    findings.append(
+                        GeometryNote(
+                            "gap",
+                            index,
+                            g.start_station,
+                            f"gap of {gap:.4f} between the end of element {prev.index + 1} "
+                            f"({prev.element}) and the start of element {index + 1} ({g.element})",
+                            0.0,
+                            gap,
+                            el.source,
+                        )
+                    )
                 kink = abs(_wrap(g.heading0 - prev.heading1))
                 if kink > tol_angle:
                     code = "angle-point" if prev.kind == g.kind == "line" else "kink"
                     what = "angle point" if code == "angle-point" else "direction changes"
-                    findings.append(GeometryNote(
-                        code, index, g.start_station,
-                        f"{what}: direction changes by {math.degrees(kink):.6f} degrees at the "
-                        f"start of element {index + 1} ({g.element})",
-                        0.0, kink, el.source))
+                    findings.append(
+                        GeometryNote(
+                            code,
+                            index,
+                            g.start_station,
+                            f"{what}: direction changes by {math.degrees(kink):.6f} degrees at the "
+                            f"start of element {index + 1} ({g.element})",
+                            0.0,
+                            kink,
+                            el.source,
+                        )
+                    )
             geoms.append(g)
             station = g.end_station
             prev = g
@@ -280,16 +295,20 @@ def _arc(index: int, el: HCurve, station: float, prev: ElementGeom | None) -> El
     # the end point follows from Start, Center and the sweep: End is checked against it
     x1 = xc + radius * math.cos(a1 + sign * sweep)
     y1 = yc + radius * math.sin(a1 + sign * sweep)
-    return ElementGeom(index, "arc", station, length, xs, ys, h0, k, k, x1, y1, h1, (xc, yc),
-                       el.source)
+    return ElementGeom(
+        index, "arc", station, length, xs, ys, h0, k, k, x1, y1, h1, (xc, yc), el.source
+    )
 
 
 def _spiral(index: int, el: HSpiral, station: float, prev: ElementGeom | None) -> ElementGeom:
     if el.spi_type not in SPIRAL_TYPES:
         raise ModelError(
             f"spiral type {el.spi_type!r} is not supported; gradeline computes "
-            + ", ".join(SPIRAL_TYPES) + " spirals from their curvature laws",
-            el.source, "Spiral")
+            + ", ".join(SPIRAL_TYPES)
+            + " spirals from their curvature laws",
+            el.source,
+            "Spiral",
+        )
     sign = 1.0 if el.rot == "ccw" else -1.0
     k0 = 0.0 if math.isinf(el.radius_start) else sign / el.radius_start
     k1 = 0.0 if math.isinf(el.radius_end) else sign / el.radius_end
@@ -300,8 +319,11 @@ def _spiral(index: int, el: HSpiral, station: float, prev: ElementGeom | None) -
     elif prev is not None:
         h0 = prev.heading1
     else:
-        raise ModelError("cannot tell the spiral's start direction: give its PI point or a "
-                         "preceding element", el.source, "Spiral")
+        raise ModelError(
+            "cannot tell the spiral's start direction: give its PI point or a preceding element",
+            el.source,
+            "Spiral",
+        )
     law = _LAW[el.spi_type]
     dk = k1 - k0
     L = el.length
@@ -310,15 +332,19 @@ def _spiral(index: int, el: HSpiral, station: float, prev: ElementGeom | None) -
         raise ModelError(
             f"spiral turns through {math.degrees(turn):.0f} degrees (length {L:g} with radii "
             f"{el.radius_start:g} and {el.radius_end:g}); a road transition turns far less than "
-            "a full circle", el.source, "Spiral")
+            "a full circle",
+            el.source,
+            "Spiral",
+        )
     n = _panels(law, L, k0, dk)
     x, y = xs, ys
     for i in range(n):
         dx, dy = _integrate_spiral(law, L, h0, k0, dk, L * i / n, L * (i + 1) / n)
         x, y = x + dx, y + dy
     h1 = h0 + k0 * L + dk * L * float(_shape_integral(np.array([law]), np.array([1.0]))[0])
-    return ElementGeom(index, el.spi_type, station, L, xs, ys, h0, k0, k1, x, y, h1, None,
-                       el.source)
+    return ElementGeom(
+        index, el.spi_type, station, L, xs, ys, h0, k0, k1, x, y, h1, None, el.source
+    )
 
 
 def _element_findings(index: int, el: HElement, g: ElementGeom, tol: float) -> list[GeometryNote]:
@@ -329,24 +355,48 @@ def _element_findings(index: int, el: HElement, g: ElementGeom, tol: float) -> l
         r_start = math.hypot(g.x0 - xc, g.y0 - yc)
         r_end = math.hypot(xe - xc, ye - yc)
         if abs(r_end - r_start) > tol:
-            out.append(GeometryNote(
-                "radius", index, g.start_station,
-                f"Curve End is {r_end:.4f} from Center but Start is {r_start:.4f}: the points "
-                "do not lie on one circle", r_start, r_end, el.source))
+            out.append(
+                GeometryNote(
+                    "radius",
+                    index,
+                    g.start_station,
+                    f"Curve End is {r_end:.4f} from Center but Start is {r_start:.4f}: the points "
+                    "do not lie on one circle",
+                    r_start,
+                    r_end,
+                    el.source,
+                )
+            )
         stated = el.get("radius")
         if stated is not None and abs(abs(stated) - r_start) > tol:
-            out.append(GeometryNote(
-                "radius", index, g.start_station,
-                f"stated radius {stated:.4f} disagrees with the Start-Center distance "
-                f"{r_start:.4f}", stated, r_start, el.source))
+            out.append(
+                GeometryNote(
+                    "radius",
+                    index,
+                    g.start_station,
+                    f"stated radius {stated:.4f} disagrees with the Start-Center distance "
+                    f"{r_start:.4f}",
+                    stated,
+                    r_start,
+                    el.source,
+                )
+            )
     elif isinstance(el, HSpiral):
         xe, ye = _xy(el.end)
         miss = math.hypot(xe - g.x1, ye - g.y1)
         if miss > tol:
-            out.append(GeometryNote(
-                "spiral-end", index, g.end_station,
-                f"stated End is {miss:.4f} from the end computed from Start, direction, "
-                f"length and radii of this {el.spi_type} spiral", 0.0, miss, el.source))
+            out.append(
+                GeometryNote(
+                    "spiral-end",
+                    index,
+                    g.end_station,
+                    f"stated End is {miss:.4f} from the end computed from Start, direction, "
+                    f"length and radii of this {el.spi_type} spiral",
+                    0.0,
+                    miss,
+                    el.source,
+                )
+            )
     return out
 
 
@@ -360,8 +410,11 @@ def _stated_directions(horizontal: HorizontalAlignment, geoms: list[ElementGeom]
         parts = by_index.get(index)
         if not parts:
             continue
-        for name, heading in (("dir", parts[0].heading0), ("dirStart", parts[0].heading0),
-                              ("dirEnd", parts[-1].heading1)):
+        for name, heading in (
+            ("dir", parts[0].heading0),
+            ("dirStart", parts[0].heading0),
+            ("dirEnd", parts[-1].heading1),
+        ):
             value = el.get(name)
             if value is not None and not (isinstance(el, HIrregular) and len(parts) > 1):
                 pairs.append((name, value, heading, index))
@@ -427,8 +480,15 @@ def _assemble(horizontal, geoms, findings, convention, matches) -> HorizontalGeo
             panel_x.append(x)
             panel_y.append(y)
             if law:
-                dx, dy = _integrate_spiral(law, g.length, g.heading0, g.k0, g.k1 - g.k0,
-                                           g.length * i / n, g.length * (i + 1) / n)
+                dx, dy = _integrate_spiral(
+                    law,
+                    g.length,
+                    g.heading0,
+                    g.k0,
+                    g.k1 - g.k0,
+                    g.length * i / n,
+                    g.length * (i + 1) / n,
+                )
                 x, y = x + dx, y + dy
     return HorizontalGeometry(
         alignment=horizontal,
@@ -480,8 +540,11 @@ def _state(geom: HorizontalGeometry, s: NDArray[np.float64]):
         b = d[sp]
         u = a[:, None] + (b - a)[:, None] * (1.0 + _GL_T[None, :]) / 2.0
         lw2 = np.repeat(lw[:, None], len(_GL_T), axis=1)
-        th = h0s[:, None] + k0s[:, None] * u + (dks * Ls)[:, None] * _shape_integral(
-            lw2, u / Ls[:, None])
+        th = (
+            h0s[:, None]
+            + k0s[:, None] * u
+            + (dks * Ls)[:, None] * _shape_integral(lw2, u / Ls[:, None])
+        )
         halfw = (b - a) / 2.0
         x[sp] = geom.panel_x[p] + halfw * (np.cos(th) @ _GL_W)
         y[sp] = geom.panel_y[p] + halfw * (np.sin(th) @ _GL_W)

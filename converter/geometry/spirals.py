@@ -18,8 +18,15 @@ TWO_PI = 2.0 * math.pi
 #: gradeline computes (laws as commonly published for these transitions; from
 #: memory). Other LandXML ``spiType`` values are refused by name.
 SPIRAL_TYPES = ("clothoid", "bloss", "cosine", "sinusoid", "biquadratic")
-_LAW = {"line": 0, "arc": 0, "clothoid": 1, "bloss": 2, "cosine": 3, "sinusoid": 4,
-        "biquadratic": 5}
+_LAW = {
+    "line": 0,
+    "arc": 0,
+    "clothoid": 1,
+    "bloss": 2,
+    "cosine": 3,
+    "sinusoid": 4,
+    "biquadratic": 5,
+}
 
 _GL_T, _GL_W = np.polynomial.legendre.leggauss(8)
 _PANEL_TURN = 0.25  # radians of turning per quadrature panel
@@ -68,9 +75,9 @@ def _shape_integral(law: NDArray[np.intp], t: NDArray[np.float64]) -> NDArray[np
     return out
 
 
-
-def _integrate_spiral(law: int, length: float, h0: float, k0: float, dk: float,
-                      a: float, b: float) -> tuple[float, float]:
+def _integrate_spiral(
+    law: int, length: float, h0: float, k0: float, dk: float, a: float, b: float
+) -> tuple[float, float]:
     """(dx, dy) along a spiral from local distance a to b (scalar quadrature)."""
     u = a + (b - a) * (1.0 + _GL_T) / 2.0
     t = u / length

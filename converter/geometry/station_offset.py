@@ -7,8 +7,9 @@ from __future__ import annotations
 import math
 
 import numpy as np
-from gradeline.geometry.horizontal import HorizontalGeometry, _state
 from numpy.typing import ArrayLike, NDArray
+
+from gradeline.geometry.horizontal import HorizontalGeometry, _state
 
 __all__ = ["foot_points", "station_offset"]
 
@@ -26,8 +27,12 @@ def _samples(geom: HorizontalGeometry) -> NDArray[np.float64]:
     return np.concatenate(parts)
 
 
-def foot_points(geom: HorizontalGeometry, px: NDArray[np.float64], py: NDArray[np.float64],
-            s: NDArray[np.float64]):
+def foot_points(
+    geom: HorizontalGeometry,
+    px: NDArray[np.float64],
+    py: NDArray[np.float64],
+    s: NDArray[np.float64],
+):
     """Newton steps from stations ``s`` to the foot points of (px, py) on the alignment.
 
     Returns the station (clamped to the ends), the along-tangent and left-normal

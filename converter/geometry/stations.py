@@ -13,10 +13,11 @@ import re
 from dataclasses import dataclass
 
 import numpy as np
+from numpy.typing import ArrayLike, NDArray
+
 from gradeline.errors import UsageError
 from gradeline.model import StationEquation
 from gradeline.model.units import Units
-from numpy.typing import ArrayLike, NDArray
 
 __all__ = [
     "Stationing",
@@ -167,9 +168,7 @@ class Stationing:
 
     def label(self, internal: float) -> str:
         """Label text of one internal station, e.g. ``12+34.56``."""
-        return format_station(
-            float(self.label_value(internal)), self.station_length, self.decimals
-        )
+        return format_station(float(self.label_value(internal)), self.station_length, self.decimals)
 
     def _fmt(self, labelled: float) -> str:
         return format_station(labelled, self.station_length, self.decimals)
@@ -183,7 +182,7 @@ class Stationing:
         """Every (region, internal station) in [lo, hi] that carries ``labelled``."""
         starts, offsets = self._tables()
         ends = np.append(starts[1:], np.inf)
-        found = []
+        found: list[tuple[int, float]] = []
         for k in range(len(starts)):
             internal = labelled - offsets[k]
             a, b = max(starts[k], lo), min(ends[k], hi)
@@ -235,8 +234,10 @@ class Stationing:
         if not (interval > 0 and math.isfinite(interval)):
             raise UsageError(f"interval must be a positive number, got {interval:g}")
         if (hi - lo) / interval > 2_000_000:
-            raise UsageError(f"interval {interval:g} gives {(hi - lo) / interval:,.0f} stations "
-                             "(at most 2,000,000); choose a larger interval")
+            raise UsageError(
+                f"interval {interval:g} gives {(hi - lo) / interval:,.0f} stations "
+                "(at most 2,000,000); choose a larger interval"
+            )
         starts, offsets = self._tables()
         ends = np.append(starts[1:], np.inf)
         out: list[NDArray[np.float64]] = []
@@ -254,4 +255,3 @@ class Stationing:
             )
             out.append(np.clip(internal[keep], lo, hi))
         return np.concatenate(out) if out else np.empty(0)
-

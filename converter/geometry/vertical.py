@@ -22,9 +22,10 @@ from collections.abc import Callable
 from dataclasses import dataclass, field
 
 import numpy as np
+from numpy.typing import ArrayLike, NDArray
+
 from gradeline.errors import ModelError
 from gradeline.model import CurveKind, Profile, SourceRef
-from numpy.typing import ArrayLike, NDArray
 
 __all__ = [
     "KeyPoint",
@@ -387,8 +388,22 @@ def _curve(i, spec, s_pvi, e_pvi, g1, g2):
     if dtheta == 0.0:
         radius = abs(spec.radius) if spec.radius is not None else math.inf
         curve = VerticalCurve(
-            i, "circular", s_pvi, e_pvi, g1, g2, s_pvi, e_pvi, s_pvi, e_pvi, 0.0, 0.0, 0.0,
-            radius=radius, arc_length=0.0, source=spec.source,
+            i,
+            "circular",
+            s_pvi,
+            e_pvi,
+            g1,
+            g2,
+            s_pvi,
+            e_pvi,
+            s_pvi,
+            e_pvi,
+            0.0,
+            0.0,
+            0.0,
+            radius=radius,
+            arc_length=0.0,
+            source=spec.source,
         )
         return curve, []
     if spec.radius is not None:

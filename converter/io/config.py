@@ -23,7 +23,9 @@ def read_config(path: str) -> dict[str, Any]:
         with open(path, "rb") as fh:
             return tomllib.load(fh)
     except OSError as err:
-        raise InputError(f"cannot read the file ({err.strerror})", SourceRef(path), "config") from None
+        raise InputError(
+            f"cannot read the file ({err.strerror})", SourceRef(path), "config"
+        ) from None
     except tomllib.TOMLDecodeError as err:
         line = getattr(err, "lineno", None)
         msg = str(err).split(" (at line")[0]

@@ -1,13 +1,14 @@
-"""DXF reader: linework and the stored profile mapping of a drawing (ezdxf).
-"""
+"""DXF reader: linework and the stored profile mapping of a drawing (ezdxf)."""
 
 from __future__ import annotations
 
 import contextlib
+from typing import Any
 
 import ezdxf
 import numpy as np
 from ezdxf.document import Drawing as DxfDocument
+
 from gradeline.render.dxf import META_PREFIX
 
 __all__ = ["LINEWORK_TYPES", "layer_names", "read_drawing", "read_linework", "read_mapping"]
@@ -25,7 +26,7 @@ def read_mapping(doc: DxfDocument) -> dict[str, str]:
     if not out and doc.dxfversion >= "AC1018":
         for tag, value in doc.header.custom_vars:
             if tag.startswith(META_PREFIX):
-                out[tag[len(META_PREFIX):].lower()] = value
+                out[tag[len(META_PREFIX) :].lower()] = value
     return out
 
 
@@ -40,12 +41,15 @@ def read_drawing(path: str):
     try:
         return ezdxf.readfile(path)
     except OSError as err:
-        raise InputError(f"cannot read the file ({err.strerror or err})", SourceRef(path), "DXF") from None
+        raise InputError(
+            f"cannot read the file ({err.strerror or err})", SourceRef(path), "DXF"
+        ) from None
     except ezdxf.DXFStructureError as err:
         raise InputError(f"not a valid DXF file ({err})", SourceRef(path), "DXF") from None
     except Exception as err:  # ezdxf raises many kinds on damaged files
-        raise InputError(f"not a readable DXF file ({type(err).__name__}: {err})",
-                         SourceRef(path), "DXF") from None
+        raise InputError(
+            f"not a readable DXF file ({type(err).__name__}: {err})", SourceRef(path), "DXF"
+        ) from None
 
 
 def read_linework(doc: DxfDocument, layer: str, tolerance: float) -> list[np.ndarray]:
@@ -59,7 +63,8 @@ def read_linework(doc: DxfDocument, layer: str, tolerance: float) -> list[np.nda
 
     out: list[np.ndarray] = []
     query = " ".join(LINEWORK_TYPES)
-    for e in doc.modelspace().query(query):
+    for entity in doc.modelspace().query(query):
+        e: Any = entity  # the kind decides which methods it has
         if e.dxf.layer.upper() != layer.upper():
             continue
         kind = e.dxftype()

@@ -13,6 +13,8 @@ import math
 import os
 from collections.abc import Iterator
 
+from lxml import etree
+
 from gradeline.errors import InputError, ModelError
 from gradeline.model import (
     Alignment,
@@ -31,7 +33,6 @@ from gradeline.model import (
     StationEquation,
 )
 from gradeline.model.units import ANGLE_UNITS, LINEAR_UNITS, Units
-from lxml import etree
 
 __all__ = ["parse_bytes", "read"]
 
@@ -210,10 +211,32 @@ class _Reader:
     # -- horizontal geometry ------------------------------------------------
     _STATED = {
         "Line": ("staStart", "length", "dir"),
-        "Curve": ("staStart", "length", "radius", "chord", "delta", "dirStart", "dirEnd",
-                  "external", "midOrd", "tangent"),
-        "Spiral": ("staStart", "length", "radiusStart", "radiusEnd", "theta", "totalX",
-                   "totalY", "tanLong", "tanShort", "dirStart", "dirEnd", "constant"),
+        "Curve": (
+            "staStart",
+            "length",
+            "radius",
+            "chord",
+            "delta",
+            "dirStart",
+            "dirEnd",
+            "external",
+            "midOrd",
+            "tangent",
+        ),
+        "Spiral": (
+            "staStart",
+            "length",
+            "radiusStart",
+            "radiusEnd",
+            "theta",
+            "totalX",
+            "totalY",
+            "tanLong",
+            "tanShort",
+            "dirStart",
+            "dirEnd",
+            "constant",
+        ),
         "IrregularLine": ("staStart", "length", "dir"),
     }
 
@@ -225,7 +248,9 @@ class _Reader:
             return None
         values = self.numbers(p, f"{name} coordinate")
         if len(values) not in (2, 3):
-            raise self.fail(p, f"expected 'northing easting [elevation]', found {len(values)} values")
+            raise self.fail(
+                p, f"expected 'northing easting [elevation]', found {len(values)} values"
+            )
         return (values[0], values[1])
 
     def stated(self, el: etree._Element, kind: str) -> tuple[tuple[str, float], ...]:
@@ -257,25 +282,47 @@ class _Reader:
             kind = _local(child)
             src = self.src(child)
             if kind == "Line":
-                elements.append(HLine(self.point(child, "Start"), self.point(child, "End"),
-                                      self.stated(child, kind), src))
+                elements.append(
+                    HLine(
+                        self.point(child, "Start"),
+                        self.point(child, "End"),
+                        self.stated(child, kind),
+                        src,
+                    )
+                )
             elif kind == "Curve":
                 rot = child.get("rot")
-                elements.append(HCurve(
-                    self.point(child, "Start"), self.point(child, "Center"),
-                    self.point(child, "End"), rot, self.point(child, "PI", required=False),
-                    self.stated(child, kind), src))
+                elements.append(
+                    HCurve(
+                        self.point(child, "Start"),
+                        self.point(child, "Center"),
+                        self.point(child, "End"),
+                        rot,
+                        self.point(child, "PI", required=False),
+                        self.stated(child, kind),
+                        src,
+                    )
+                )
             elif kind == "Spiral":
                 rot = child.get("rot")
                 if rot is None:
                     raise self.fail(child, "missing required attribute 'rot' (cw or ccw)")
                 spi_type = child.get("spiType", "clothoid")
                 length = self.required(child, "length")
-                elements.append(HSpiral(
-                    self.point(child, "Start"), self.point(child, "End"), length,
-                    self.radius_attr(child, "radiusStart"), self.radius_attr(child, "radiusEnd"),
-                    rot, spi_type, self.point(child, "PI", required=False),
-                    self.stated(child, kind), src))
+                elements.append(
+                    HSpiral(
+                        self.point(child, "Start"),
+                        self.point(child, "End"),
+                        length,
+                        self.radius_attr(child, "radiusStart"),
+                        self.radius_attr(child, "radiusEnd"),
+                        rot,
+                        spi_type,
+                        self.point(child, "PI", required=False),
+                        self.stated(child, kind),
+                        src,
+                    )
+                )
             elif kind == "IrregularLine":
                 pl = _child(child, "PntList2D")
                 values = self.numbers(pl, "point coordinate") if pl is not None else []
@@ -323,9 +370,7 @@ class _Reader:
                 arc = self.attr(child, "length")
                 if radius is None and arc is None:
                     raise self.fail(child, "a CircCurve needs a 'radius' or a 'length' attribute")
-                spec = PVISpec(
-                    station, elev, "circular", radius=radius, arc_length=arc, source=src
-                )
+                spec = PVISpec(station, elev, "circular", radius=radius, arc_length=arc, source=src)
             specs.append(spec)
         return Profile(name, tuple(specs), self.src(el))
 
@@ -335,9 +380,7 @@ class _Reader:
             values = self.numbers(pl, "ground value")
             if len(values) % 2:
                 raise self.fail(pl, "expected station/elevation pairs, found an odd count")
-            pieces.append(
-                GroundPiece(tuple(values[0::2]), tuple(values[1::2]), self.src(pl))
-            )
+            pieces.append(GroundPiece(tuple(values[0::2]), tuple(values[1::2]), self.src(pl)))
         return GroundProfile(name, tuple(p for p in pieces if p.stations), self.src(el))
 
 
@@ -406,8 +449,14 @@ def _parse_streaming(path: str) -> Document:
     separately by :func:`read_surface`.
     """
     context = etree.iterparse(
-        path, events=("end",), tag=("{*}P", "{*}F"), resolve_entities=False,
-        no_network=True, load_dtd=False, huge_tree=False, collect_ids=False,
+        path,
+        events=("end",),
+        tag=("{*}P", "{*}F"),
+        resolve_entities=False,
+        no_network=True,
+        load_dtd=False,
+        huge_tree=False,
+        collect_ids=False,
     )
     try:
         for _, el in context:

@@ -1,9 +1,10 @@
-"""LandXML 1.2 writer (the sequence order of the schema; stable bytes).
-"""
+"""LandXML 1.2 writer (the sequence order of the schema; stable bytes)."""
 
 from __future__ import annotations
 
 import math
+
+from lxml import etree
 
 from gradeline.model import (
     Document,
@@ -11,7 +12,6 @@ from gradeline.model import (
     HLine,
     HSpiral,
 )
-from lxml import etree
 
 __all__ = ["write_landxml"]
 
@@ -19,10 +19,18 @@ __all__ = ["write_landxml"]
 LANDXML_NS = "http://www.landxml.org/schema/LandXML-1.2"
 
 _UNIT_ATTRS = {
-    "Imperial": {"areaUnit": "squareFoot", "volumeUnit": "cubicYard",
-                 "temperatureUnit": "fahrenheit", "pressureUnit": "inHG"},
-    "Metric": {"areaUnit": "squareMeter", "volumeUnit": "cubicMeter",
-               "temperatureUnit": "celsius", "pressureUnit": "milliBars"},
+    "Imperial": {
+        "areaUnit": "squareFoot",
+        "volumeUnit": "cubicYard",
+        "temperatureUnit": "fahrenheit",
+        "pressureUnit": "inHG",
+    },
+    "Metric": {
+        "areaUnit": "squareMeter",
+        "volumeUnit": "cubicMeter",
+        "temperatureUnit": "celsius",
+        "pressureUnit": "milliBars",
+    },
 }
 
 
@@ -31,8 +39,13 @@ def _num(v: float) -> str:
     return "0" if text in ("-0", "") else text
 
 
-def write_landxml(doc: Document, *, date: str = "2000-01-01", time: str = "00:00:00",
-                  application: str = "gradeline") -> bytes:
+def write_landxml(
+    doc: Document,
+    *,
+    date: str = "2000-01-01",
+    time: str = "00:00:00",
+    application: str = "gradeline",
+) -> bytes:
     """A LandXML 1.2 document for ``doc`` (alignments, stationing, plan, profiles).
 
     Elements are written in the order of the LandXML 1.2 schema's sequences:
@@ -41,20 +54,34 @@ def write_landxml(doc: Document, *, date: str = "2000-01-01", time: str = "00:00
     gives the same bytes (``date`` and ``time`` are fixed unless given).
     """
     nsmap = {None: LANDXML_NS}
-    root = etree.Element(f"{{{LANDXML_NS}}}LandXML", nsmap=nsmap,
-                         attrib={"version": "1.2", "date": date, "time": time})
+    root = etree.Element(
+        f"{{{LANDXML_NS}}}LandXML",
+        nsmap=nsmap,
+        attrib={"version": "1.2", "date": date, "time": time},
+    )
 
     def sub(parent, tag, attrib=None, text=None):
-        el = etree.SubElement(parent, f"{{{LANDXML_NS}}}{tag}",
-                              attrib={k: v for k, v in (attrib or {}).items() if v is not None})
+        el = etree.SubElement(
+            parent,
+            f"{{{LANDXML_NS}}}{tag}",
+            attrib={k: v for k, v in (attrib or {}).items() if v is not None},
+        )
         if text is not None:
             el.text = text
         return el
 
     units = sub(root, "Units")
     system = "Metric" if doc.units.metric else "Imperial"
-    sub(units, system, {**_UNIT_ATTRS[system], "linearUnit": doc.units.linear,
-                        "angularUnit": doc.units.angular, "directionUnit": doc.units.direction})
+    sub(
+        units,
+        system,
+        {
+            **_UNIT_ATTRS[system],
+            "linearUnit": doc.units.linear,
+            "angularUnit": doc.units.angular,
+            "directionUnit": doc.units.direction,
+        },
+    )
     if doc.project:
         sub(root, "Project", {"name": doc.project})
     sub(root, "Application", {"name": application, "manufacturer": "gradeline", "version": "1"})
@@ -67,9 +94,16 @@ def write_landxml(doc: Document, *, date: str = "2000-01-01", time: str = "00:00
         length = al.length
         if length is None and al.profiles:
             length = al.profiles[0].end - al.sta_start
-        a = sub(als, "Alignment", {"name": al.name, "length": _num(length or 0.0),
-                                   "staStart": _num(al.sta_start),
-                                   "desc": al.description or None})
+        a = sub(
+            als,
+            "Alignment",
+            {
+                "name": al.name,
+                "length": _num(length or 0.0),
+                "staStart": _num(al.sta_start),
+                "desc": al.description or None,
+            },
+        )
         if al.horizontal is not None:
             cg = sub(a, "CoordGeom")
             for el in al.horizontal.elements:
@@ -86,9 +120,13 @@ def write_landxml(doc: Document, *, date: str = "2000-01-01", time: str = "00:00
                     if el.pi is not None:
                         sub(x, "PI", text=pt(el.pi))
                 elif isinstance(el, HSpiral):
-                    attrs.update(length=_num(el.length), rot=el.rot, spiType=el.spi_type,
-                                 radiusStart="INF" if math.isinf(el.radius_start) else _num(el.radius_start),
-                                 radiusEnd="INF" if math.isinf(el.radius_end) else _num(el.radius_end))
+                    attrs.update(
+                        length=_num(el.length),
+                        rot=el.rot,
+                        spiType=el.spi_type,
+                        radiusStart="INF" if math.isinf(el.radius_start) else _num(el.radius_start),
+                        radiusEnd="INF" if math.isinf(el.radius_end) else _num(el.radius_end),
+                    )
                     x = sub(cg, "Spiral", attrs)
                     sub(x, "Start", text=pt(el.start))
                     if el.pi is not None:
@@ -100,16 +138,28 @@ def write_landxml(doc: Document, *, date: str = "2000-01-01", time: str = "00:00
                     sub(x, "End", text=pt(el.points[-1]))
                     sub(x, "PntList2D", text=" ".join(pt(p) for p in el.points))
         for eq in al.equations:
-            sub(a, "StaEquation", {"staBack": _num(eq.back), "staAhead": _num(eq.ahead),
-                                   "staInternal": _num(eq.internal)})
+            sub(
+                a,
+                "StaEquation",
+                {
+                    "staBack": _num(eq.back),
+                    "staAhead": _num(eq.ahead),
+                    "staInternal": _num(eq.internal),
+                },
+            )
         if al.profiles or al.grounds:
             prof_el = sub(a, "Profile", {"name": al.name})
             for g in al.grounds:
                 ps = sub(prof_el, "ProfSurf", {"name": g.name})
                 for piece in g.pieces:
-                    sub(ps, "PntList2D", text=" ".join(
-                        f"{_num(s)} {_num(z)}" for s, z in zip(piece.stations, piece.elevations,
-                                                               strict=True)))
+                    sub(
+                        ps,
+                        "PntList2D",
+                        text=" ".join(
+                            f"{_num(s)} {_num(z)}"
+                            for s, z in zip(piece.stations, piece.elevations, strict=True)
+                        ),
+                    )
             for prof in al.profiles:
                 pa = sub(prof_el, "ProfAlign", {"name": prof.name})
                 for p in prof.pvis:
@@ -119,11 +169,20 @@ def write_landxml(doc: Document, *, date: str = "2000-01-01", time: str = "00:00
                     elif p.kind == "parabolic":
                         sub(pa, "ParaCurve", {"length": _num(p.length)}, text)
                     elif p.kind == "unsymmetric":
-                        sub(pa, "UnsymParaCurve", {"lengthIn": _num(p.length_in),
-                                                   "lengthOut": _num(p.length_out)}, text)
+                        sub(
+                            pa,
+                            "UnsymParaCurve",
+                            {"lengthIn": _num(p.length_in), "lengthOut": _num(p.length_out)},
+                            text,
+                        )
                     else:
-                        sub(pa, "CircCurve", {"length": None if p.arc_length is None else
-                                              _num(p.arc_length),
-                                              "radius": None if p.radius is None else _num(p.radius)},
-                            text)
+                        sub(
+                            pa,
+                            "CircCurve",
+                            {
+                                "length": None if p.arc_length is None else _num(p.arc_length),
+                                "radius": None if p.radius is None else _num(p.radius),
+                            },
+                            text,
+                        )
     return etree.tostring(root, xml_declaration=True, encoding="UTF-8", pretty_print=True)

@@ -8,11 +8,12 @@ from __future__ import annotations
 
 import os
 
+from lxml import etree
+
 from gradeline.errors import InputError
 from gradeline.model import (
     SourceRef,
 )
-from lxml import etree
 
 __all__ = ["read_surface", "surface_names"]
 
@@ -55,17 +56,32 @@ def read_surface(path: str | os.PathLike[str], name: str | None = None):
     names = [n for n, _ in found]
     src = SourceRef(name_s, None)
     if not names:
-        raise InputError("no TIN surface (Surfaces/Surface/Definition with Pnts and Faces)",
-                         src, "Surfaces")
+        raise InputError(
+            "no TIN surface (Surfaces/Surface/Definition with Pnts and Faces)", src, "Surfaces"
+        )
     if name is None and len(names) > 1:
-        raise InputError(f"the file has {len(names)} surfaces; choose one with --surface: "
-                         + ", ".join(names), src, "Surfaces")
+        raise InputError(
+            f"the file has {len(names)} surfaces; choose one with --surface: " + ", ".join(names),
+            src,
+            "Surfaces",
+        )
     if name is not None and name not in names:
-        raise InputError(f"no surface named {name!r}; surfaces: " + ", ".join(names), src, "Surfaces")
+        raise InputError(
+            f"no surface named {name!r}; surfaces: " + ", ".join(names), src, "Surfaces"
+        )
     data = next(d for n, d in found if d is not None)
-    return Surface(name=data["name"], ids=data["ids"], x=data["x"], y=data["y"], z=data["z"],
-                   faces=data["faces"], hidden=data["hidden"], source=SourceRef(name_s, data["line"]),
-                   linear_unit=data["unit"], skipped_faces=data["skipped"])
+    return Surface(
+        name=data["name"],
+        ids=data["ids"],
+        x=data["x"],
+        y=data["y"],
+        z=data["z"],
+        faces=data["faces"],
+        hidden=data["hidden"],
+        source=SourceRef(name_s, data["line"]),
+        linear_unit=data["unit"],
+        skipped_faces=data["skipped"],
+    )
 
 
 def _iter_surfaces(path: str, want: str | None, names_only: bool):
@@ -83,8 +99,14 @@ def _iter_surfaces(path: str, want: str | None, names_only: bool):
     batch = 4096
     try:
         context = etree.iterparse(
-            path, events=("end",), tag=tags, resolve_entities=False, no_network=True,
-            load_dtd=False, huge_tree=True, remove_comments=True,
+            path,
+            events=("end",),
+            tag=tags,
+            resolve_entities=False,
+            no_network=True,
+            load_dtd=False,
+            huge_tree=True,
+            remove_comments=True,
         )
         unit = None
         checked = False
@@ -103,8 +125,9 @@ def _iter_surfaces(path: str, want: str | None, names_only: bool):
                     surface = surface.getparent()
                 name = surface.get("name") if surface is not None else None
                 taking.clear()
-                taking[key] = (not names_only) and surface is not None and (
-                    want is None or name == want)
+                taking[key] = (
+                    (not names_only) and surface is not None and (want is None or name == want)
+                )
             return taking[key]
 
         def take(holder, upto: int | None) -> None:
@@ -123,8 +146,9 @@ def _iter_surfaces(path: str, want: str | None, names_only: bool):
                 checked = True
                 tree = el.getroottree()
                 if tree.docinfo.doctype or tree.docinfo.internalDTD is not None:
-                    raise InputError("DOCTYPE declarations are not accepted", SourceRef(path, 1),
-                                     "DOCTYPE")
+                    raise InputError(
+                        "DOCTYPE declarations are not accepted", SourceRef(path, 1), "DOCTYPE"
+                    )
             tag = el.tag
             last = tag[-1]
             if last in "PF" and (len(tag) == 1 or tag[-2] == "}"):
@@ -141,8 +165,20 @@ def _iter_surfaces(path: str, want: str | None, names_only: bool):
                 current = el.get("name") or f"surface {el.sourceline}"
                 if (not names_only) and (want is None or current == want) and (ids or faces_text):
                     hidden = [i for i, f in enumerate(hidden_flags) if f == "1"]
-                    yield current, _surface_arrays(path, current, el.sourceline, unit, ids,
-                                                   pts_text, faces_text, hidden, np)
+                    yield (
+                        current,
+                        _surface_arrays(
+                            path,
+                            current,
+                            el.sourceline,
+                            unit,
+                            ids,
+                            pts_text,
+                            faces_text,
+                            hidden,
+                            np,
+                        ),
+                    )
                     ids, pts_text, faces_text, hidden_flags = [], [], [], []
                 else:
                     yield current, None
@@ -152,8 +188,11 @@ def _iter_surfaces(path: str, want: str | None, names_only: bool):
                 unit = el.get("linearUnit")
     except etree.XMLSyntaxError as err:
         msg = (err.msg or "not well-formed").splitlines()[0].split(", line ")[0]
-        raise InputError(f"not well-formed ({msg}); the file may be truncated or not XML",
-                         SourceRef(path, err.lineno or 1), "XML") from None
+        raise InputError(
+            f"not well-formed ({msg}); the file may be truncated or not XML",
+            SourceRef(path, err.lineno or 1),
+            "XML",
+        ) from None
     except OSError as err:
         raise InputError(f"cannot read the file ({err.strerror or err})", src, "LandXML") from None
 
@@ -182,11 +221,14 @@ def _surface_arrays(path, name, line, unit, ids, pts_text, faces_text, hidden, n
     src = SourceRef(path, line)
     pts = _numbers(" ".join(pts_text), np.float64, np)
     if pts is None:
-        raise InputError(f"surface {name!r}: a point is not 'northing easting elevation'",
-                         src, "P")
+        raise InputError(f"surface {name!r}: a point is not 'northing easting elevation'", src, "P")
     if len(pts) != 3 * len(pts_text):
-        raise InputError(f"surface {name!r}: every point needs northing, easting and elevation "
-                         f"({len(pts_text)} points, {len(pts)} values)", src, "P")
+        raise InputError(
+            f"surface {name!r}: every point needs northing, easting and elevation "
+            f"({len(pts_text)} points, {len(pts)} values)",
+            src,
+            "P",
+        )
     pts = pts.reshape(-1, 3)
     if not np.all(np.isfinite(pts)):
         raise InputError(f"surface {name!r}: a point has a non-finite value", src, "P")
@@ -197,8 +239,9 @@ def _surface_arrays(path, name, line, unit, ids, pts_text, faces_text, hidden, n
     sorted_ids = id_arr[order]
     dup = np.flatnonzero(np.diff(sorted_ids) == 0)
     if dup.size:
-        raise InputError(f"surface {name!r}: point id {int(sorted_ids[dup[0]])} is used twice",
-                         src, "P")
+        raise InputError(
+            f"surface {name!r}: point id {int(sorted_ids[dup[0]])} is used twice", src, "P"
+        )
     f = _numbers(" ".join(faces_text), np.int64, np)
     if f is None:
         raise InputError(f"surface {name!r}: a face is not three point ids", src, "F")
@@ -210,20 +253,32 @@ def _surface_arrays(path, name, line, unit, ids, pts_text, faces_text, hidden, n
     missing = sorted_ids[pos_c] != f
     if missing.any():
         bad = int(f[missing][0])
-        raise InputError(f"surface {name!r}: a face names point id {bad}, which does not exist",
-                         src, "F")
+        raise InputError(
+            f"surface {name!r}: a face names point id {bad}, which does not exist", src, "F"
+        )
     faces = order[pos_c]
     hid = np.zeros(len(f), dtype=bool)
     hid[np.asarray(hidden, dtype=np.int64)] = True
     # degenerate (zero-area) faces carry no surface: dropped and counted
     x, y = pts[:, 1], pts[:, 0]
     a = faces
-    area2 = ((x[a[:, 1]] - x[a[:, 0]]) * (y[a[:, 2]] - y[a[:, 0]])
-             - (x[a[:, 2]] - x[a[:, 0]]) * (y[a[:, 1]] - y[a[:, 0]]))
+    area2 = (x[a[:, 1]] - x[a[:, 0]]) * (y[a[:, 2]] - y[a[:, 0]]) - (x[a[:, 2]] - x[a[:, 0]]) * (
+        y[a[:, 1]] - y[a[:, 0]]
+    )
     keep = area2 != 0
     skipped = int((~keep).sum())
-    return {"name": name, "ids": id_arr, "x": x.copy(), "y": y.copy(), "z": pts[:, 2].copy(),
-            "faces": faces[keep], "hidden": hid[keep], "line": line, "unit": unit, "skipped": skipped}
+    return {
+        "name": name,
+        "ids": id_arr,
+        "x": x.copy(),
+        "y": y.copy(),
+        "z": pts[:, 2].copy(),
+        "faces": faces[keep],
+        "hidden": hid[keep],
+        "line": line,
+        "unit": unit,
+        "skipped": skipped,
+    }
 
 
 # --------------------------------------------------------------------------- writer

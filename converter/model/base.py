@@ -1,5 +1,4 @@
-"""Where model objects came from, and the guard on every number they hold.
-"""
+"""Where model objects came from, and the guard on every number they hold."""
 
 from __future__ import annotations
 
@@ -29,5 +28,8 @@ def _finite(value: float, what: str, source: SourceRef | None, element: str) -> 
     if not math.isfinite(value):
         raise ModelError(f"{what} must be a finite number, got {value!r}", source, element)
     if abs(value) > MAX_MAGNITUDE:
-        raise ModelError(f"{what} {value:g} is not a plausible survey value (at most "
-                         f"{MAX_MAGNITUDE:g} in size)", source, element)
+        raise ModelError(
+            f"{what} {value:g} is not a plausible survey value (at most {MAX_MAGNITUDE:g} in size)",
+            source,
+            element,
+        )

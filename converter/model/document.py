@@ -1,5 +1,4 @@
-"""Documents, alignments and station equations.
-"""
+"""Documents, alignments and station equations."""
 
 from __future__ import annotations
 

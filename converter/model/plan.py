@@ -1,5 +1,4 @@
-"""Plan geometry as the file states it: ``CoordGeom`` lines, curves, spirals.
-"""
+"""Plan geometry as the file states it: ``CoordGeom`` lines, curves, spirals."""
 
 from __future__ import annotations
 
@@ -9,7 +8,16 @@ from dataclasses import dataclass, field
 from gradeline.errors import ModelError
 from gradeline.model.base import SourceRef
 
-__all__ = ["HCurve", "HElement", "HIrregular", "HLine", "HSpiral", "HorizontalAlignment", "Point", "Stated"]
+__all__ = [
+    "HCurve",
+    "HElement",
+    "HIrregular",
+    "HLine",
+    "HSpiral",
+    "HorizontalAlignment",
+    "Point",
+    "Stated",
+]
 
 
 Point = tuple[float, float]
@@ -72,8 +80,12 @@ class HCurve:
     element = "Curve"
 
     def __post_init__(self) -> None:
-        for p, what in ((self.start, "Start"), (self.center, "Center"), (self.end, "End"),
-                        (self.pi, "PI")):
+        for p, what in (
+            (self.start, "Start"),
+            (self.center, "Center"),
+            (self.end, "End"),
+            (self.pi, "PI"),
+        ):
             _check_point(p, what, self.source, "Curve")
         if self.rot not in (None, "cw", "ccw"):
             raise ModelError(f"rot must be 'cw' or 'ccw', got {self.rot!r}", self.source, "Curve")
@@ -104,11 +116,14 @@ class HSpiral:
         for p, what in ((self.start, "Start"), (self.end, "End"), (self.pi, "PI")):
             _check_point(p, what, self.source, "Spiral")
         if not (math.isfinite(self.length) and self.length > 0):
-            raise ModelError(f"spiral length must be positive, got {self.length:g}",
-                             self.source, "Spiral")
+            raise ModelError(
+                f"spiral length must be positive, got {self.length:g}", self.source, "Spiral"
+            )
         for r, what in ((self.radius_start, "radiusStart"), (self.radius_end, "radiusEnd")):
             if math.isnan(r) or r <= 0:
-                raise ModelError(f"{what} must be positive or INF, got {r:g}", self.source, "Spiral")
+                raise ModelError(
+                    f"{what} must be positive or INF, got {r:g}", self.source, "Spiral"
+                )
         if math.isinf(self.radius_start) and math.isinf(self.radius_end):
             raise ModelError("a spiral needs at least one finite radius", self.source, "Spiral")
         if self.rot not in ("cw", "ccw"):
@@ -131,8 +146,9 @@ class HIrregular:
 
     def __post_init__(self) -> None:
         if len(self.points) < 2:
-            raise ModelError("an IrregularLine needs at least two points", self.source,
-                             "IrregularLine")
+            raise ModelError(
+                "an IrregularLine needs at least two points", self.source, "IrregularLine"
+            )
         for p in self.points:
             _check_point(p, "point", self.source, "IrregularLine")
 
@@ -153,5 +169,6 @@ class HorizontalAlignment:
 
     def __post_init__(self) -> None:
         if not self.elements:
-            raise ModelError("CoordGeom has no Line, Curve, Spiral or IrregularLine",
-                             self.source, "CoordGeom")
+            raise ModelError(
+                "CoordGeom has no Line, Curve, Spiral or IrregularLine", self.source, "CoordGeom"
+            )

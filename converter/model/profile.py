@@ -1,5 +1,4 @@
-"""Finished-grade profiles: PVIs and the vertical curves on them (``ProfAlign``).
-"""
+"""Finished-grade profiles: PVIs and the vertical curves on them (``ProfAlign``)."""
 
 from __future__ import annotations
 

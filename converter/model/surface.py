@@ -1,14 +1,14 @@
-"""Existing ground: profiles along an alignment (``ProfSurf``) and TIN surfaces.
-"""
+"""Existing ground: profiles along an alignment (``ProfSurf``) and TIN surfaces."""
 
 from __future__ import annotations
 
 from dataclasses import dataclass, field
 
 import numpy as np
+from numpy.typing import NDArray
+
 from gradeline.errors import ModelError
 from gradeline.model.base import SourceRef
-from numpy.typing import NDArray
 
 __all__ = ["GroundPiece", "GroundProfile", "Surface"]
 
@@ -23,9 +23,7 @@ class GroundPiece:
 
     def __post_init__(self) -> None:
         if len(self.stations) != len(self.elevations):
-            raise ModelError(
-                "stations and elevations differ in count", self.source, "PntList2D"
-            )
+            raise ModelError("stations and elevations differ in count", self.source, "PntList2D")
         for a, b in zip(self.stations, self.stations[1:], strict=False):
             if not b > a:
                 raise ModelError(

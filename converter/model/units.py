@@ -125,8 +125,7 @@ class Units:
         for unit in (self.angular, self.direction):
             if unit not in ANGLE_UNITS:
                 raise ModelError(
-                    f"unsupported angular unit {unit!r}; expected one of "
-                    + ", ".join(ANGLE_UNITS)
+                    f"unsupported angular unit {unit!r}; expected one of " + ", ".join(ANGLE_UNITS)
                 )
 
     @property

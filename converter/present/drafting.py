@@ -17,6 +17,7 @@ import math
 from typing import Any
 
 import numpy as np
+
 from gradeline.present import labels
 from gradeline.present.items import (
     ArcItem,
@@ -43,6 +44,7 @@ __all__ = [
     "profile_drawing",
 ]
 
+
 # --------------------------------------------------------------------------- profile
 def _poly_samples(x0: float, x1: float, c: float, tol: float) -> np.ndarray:
     """Stations splitting [x0, x1] so a parabola with coefficient c deviates < tol."""
@@ -62,8 +64,14 @@ def _circle_samples(x0: float, x1: float, r: float, tol: float) -> np.ndarray:
 class _Profile:
     """Builds a profile :class:`Drawing` step by step, for the whole profile or a window."""
 
-    def __init__(self, ctx: SolvedAlignment, layout: DraftingLayout, curves: str,
-                 window: tuple[float, float] | None, strip: bool) -> None:
+    def __init__(
+        self,
+        ctx: SolvedAlignment,
+        layout: DraftingLayout,
+        curves: str,
+        window: tuple[float, float] | None,
+        strip: bool,
+    ) -> None:
         if ctx.geometry is None:
             raise ValueError("profile drawing needs a profile")
         self.ctx = ctx
@@ -158,16 +166,21 @@ class _Profile:
                 s = _circle_samples(a, b, float(g.r[i]), tol)
                 pts = tuple(zip(s.tolist(), self.y(self.ctx.elevation(s)).tolist(), strict=True))
                 cx, cy, r = float(g.cx[i]), float(g.cy[i]), float(g.r[i])
-                ang = [math.degrees(math.atan2(float(z) - cy, x - cx))
-                       for x, z in ((a, self.ctx.elevation(a)), (b, self.ctx.elevation(b)))]
+                ang = [
+                    math.degrees(math.atan2(float(z) - cy, x - cx))
+                    for x, z in ((a, self.ctx.elevation(a)), (b, self.ctx.elevation(b)))
+                ]
                 start, end = (ang[0], ang[1]) if g.sign[i] > 0 else (ang[1], ang[0])
                 self.items.append(ArcItem("grade", (cx, float(self.y(cy))), r, start, end, pts))
             elif g.c[i] != 0.0:
                 (z0, z1), (g0, _) = self.ctx.profile_at([a, b])
                 # the control point of a parabola over [a, b] is where its end tangents meet
                 zc = float(z0) + float(g0) * (b - a) / 2.0
-                ctrl = ((a, float(self.y(z0))), ((a + b) / 2, float(self.y(zc))),
-                        (b, float(self.y(z1))))
+                ctrl = (
+                    (a, float(self.y(z0))),
+                    ((a + b) / 2, float(self.y(zc))),
+                    (b, float(self.y(z1))),
+                )
                 s = _poly_samples(a, b, float(g.c[i]), tol)
                 pts = tuple(zip(s.tolist(), self.y(self.ctx.elevation(s)).tolist(), strict=True))
                 self.items.append(QuadCurve("grade", ctrl, pts))
@@ -179,9 +192,14 @@ class _Profile:
             if not (self.x0 <= c.pvi_station <= self.x1):
                 continue
             pvi = (c.pvi_station, float(self.y(c.pvi_elevation)))
-            for s, z in ((c.bvc_station, c.bvc_elevation), (c.evc_station, c.evc_elevation)):
-                s_c = min(max(s, self.x0), self.x1)
-                z_c = c.pvi_elevation + (z - c.pvi_elevation) * (s_c - c.pvi_station) / (s - c.pvi_station)
+            for s_end, z_end in (
+                (c.bvc_station, c.bvc_elevation),
+                (c.evc_station, c.evc_elevation),
+            ):
+                s_c = min(max(s_end, self.x0), self.x1)
+                z_c = c.pvi_elevation + (z_end - c.pvi_elevation) * (s_c - c.pvi_station) / (
+                    s_end - c.pvi_station
+                )
                 self.items.append(Path("tangents", ((s_c, float(self.y(z_c))), pvi)))
         for s, z in zip(g.pvi_stations[1:-1], g.pvi_elevations[1:-1], strict=True):
             if self.x0 <= s <= self.x1:
@@ -189,7 +207,9 @@ class _Profile:
 
     def _ground(self) -> None:
         for s, z in self.grounds:
-            self.items.append(Path("ground", tuple(zip(s.tolist(), self.y(z).tolist(), strict=True))))
+            self.items.append(
+                Path("ground", tuple(zip(s.tolist(), self.y(z).tolist(), strict=True)))
+            )
 
     # key-point labels: vertical text in columns, spread so they never touch ----
     def _point_labels(self, dense: np.ndarray) -> float:
@@ -202,15 +222,41 @@ class _Profile:
             lines = [labels.point_label("PVI", st.label(s), z, units)]
             if c is not None:
                 lines.append(labels.curve_label(c.length, c.k, units))
-                wanted.append((c.bvc_station, c.bvc_elevation,
-                               [labels.point_label("BVC", st.label(c.bvc_station), c.bvc_elevation, units)]))
-                wanted.append((c.evc_station, c.evc_elevation,
-                               [labels.point_label("EVC", st.label(c.evc_station), c.evc_elevation, units)]))
-                if c.turning_station is not None:
+                wanted.append(
+                    (
+                        c.bvc_station,
+                        c.bvc_elevation,
+                        [
+                            labels.point_label(
+                                "BVC", st.label(c.bvc_station), c.bvc_elevation, units
+                            )
+                        ],
+                    )
+                )
+                wanted.append(
+                    (
+                        c.evc_station,
+                        c.evc_elevation,
+                        [
+                            labels.point_label(
+                                "EVC", st.label(c.evc_station), c.evc_elevation, units
+                            )
+                        ],
+                    )
+                )
+                if c.turning_station is not None and c.turning_elevation is not None:
                     tag = labels.turning_point_tag(c.curve_type)
-                    wanted.append((c.turning_station, c.turning_elevation,
-                                   [labels.point_label(tag, st.label(c.turning_station),
-                                                       c.turning_elevation, units)]))
+                    wanted.append(
+                        (
+                            c.turning_station,
+                            c.turning_elevation,
+                            [
+                                labels.point_label(
+                                    tag, st.label(c.turning_station), c.turning_elevation, units
+                                )
+                            ],
+                        )
+                    )
             wanted.append((s, z, lines))
         wanted = sorted(w for w in wanted if self.x0 <= w[0] <= self.x1)
         if not wanted:
@@ -221,7 +267,7 @@ class _Profile:
         # block i reaches from pos - widths[i] + 0.6h (its left column) to pos - 0.25h,
         # so two blocks keep a 0.6h gap when pos[i] >= pos[i - 1] + widths[i]; a
         # forward pass pushes right, a backward pass pulls left inside the grid
-        pos = []
+        pos: list[float] = []
         for i, x in enumerate(xs):
             pos.append(max(x, self.x0 + widths[i]) if not pos else max(x, pos[-1] + widths[i]))
         pos[-1] = min(pos[-1], self.x1)
@@ -273,11 +319,17 @@ class _Profile:
             z = self.datum + k * minor_z
             is_maj = abs(z / major_z - round(z / major_z)) < 1e-9
             y = float(self.y(z))
-            self.items.append(Path("grid_major" if is_maj else "grid", ((self.x0, y), (self.x1, y))))
+            self.items.append(
+                Path("grid_major" if is_maj else "grid", ((self.x0, y), (self.x1, y)))
+            )
             if is_maj:
                 text = labels.grid_elevation_text(z, major_z)
-                self.items.append(Text("labels", text, self.x0 - 0.8 * h, y, h, 0.0, "right", "middle"))
-                self.items.append(Text("labels", text, self.x1 + 0.8 * h, y, h, 0.0, "left", "middle"))
+                self.items.append(
+                    Text("labels", text, self.x0 - 0.8 * h, y, h, 0.0, "right", "middle")
+                )
+                self.items.append(
+                    Text("labels", text, self.x1 + 0.8 * h, y, h, 0.0, "left", "middle")
+                )
 
     def _strip(self) -> float:
         """Existing-ground and finished-grade elevations at each labelled station."""
@@ -291,12 +343,23 @@ class _Profile:
         width = labels.text_width("0" * 7, h)
         rows = [("FINISHED GRADE", fg, -2.6 * h), ("EXISTING GROUND", eg, -3.4 * h - width)]
         for title, values, top in rows:
-            self.items.append(Text("labels", title, self.x0 - 0.8 * h, top - width / 2, h,
-                                   0.0, "right", "middle"))
+            self.items.append(
+                Text("labels", title, self.x0 - 0.8 * h, top - width / 2, h, 0.0, "right", "middle")
+            )
             for x, z in zip(major.tolist(), values.tolist(), strict=True):
                 if math.isfinite(z):
-                    self.items.append(Text("labels", labels.elevation_text(z, units), x + 0.5 * h,
-                                           top, h, 90.0, "right", "middle"))
+                    self.items.append(
+                        Text(
+                            "labels",
+                            labels.elevation_text(z, units),
+                            x + 0.5 * h,
+                            top,
+                            h,
+                            90.0,
+                            "right",
+                            "middle",
+                        )
+                    )
         bottom = -3.4 * h - 2 * width
         self.items.append(Path("grid", ((self.x0, -2.2 * h), (self.x1, -2.2 * h))))
         self.items.append(Path("grid", ((self.x0, -3.0 * h - width), (self.x1, -3.0 * h - width))))
@@ -315,14 +378,24 @@ class _Profile:
                 continue
             angle = math.degrees(math.atan(grade * exag))
             text = labels.grade_text(grade)
-            for frac, side in ((0.5, 1), (0.35, 1), (0.65, 1), (0.5, -1), (0.25, 1), (0.75, 1),
-                               (0.35, -1), (0.65, -1)):
+            for frac, side in (
+                (0.5, 1),
+                (0.35, 1),
+                (0.65, 1),
+                (0.5, -1),
+                (0.25, 1),
+                (0.75, 1),
+                (0.35, -1),
+                (0.65, -1),
+            ):
                 s = v0 + frac * (v1 - v0)
                 z = z0 + grade * (s - s0)
                 a = math.radians(angle)
                 off = side * 0.6 * h
                 x, y = s - off * math.sin(a), float(self.y(z)) + off * math.cos(a)
-                item = Text("labels", text, x, y, h, angle, "center", "bottom" if side > 0 else "top")
+                item = Text(
+                    "labels", text, x, y, h, angle, "center", "bottom" if side > 0 else "top"
+                )
                 box = item.corners()
                 if box[:, 0].min() < v0 or box[:, 0].max() > v1:
                     continue
@@ -334,8 +407,7 @@ class _Profile:
     def _info(self, bottom: float) -> float:
         lay, h = self.lay, self.h
         u = self.units.symbol
-        text = labels.profile_mapping_note(self.ctx.alignment.name, self.datum,
-                                           lay.exaggeration, u)
+        text = labels.profile_mapping_note(self.ctx.alignment.name, self.datum, lay.exaggeration, u)
         y = bottom + 0.8 * h if not self.strip else bottom - 0.6 * h
         self.items.append(Text("info", text, self.x0, y, 0.8 * h, 0.0, "left", "top"))
         return y - 0.8 * h
@@ -401,6 +473,7 @@ def plan_drawing(ctx: SolvedAlignment, layout: DraftingLayout) -> Drawing:
         north, east, _ = ctx.plan_at(s)
         pts = tuple(zip(east.tolist(), north.tolist(), strict=True))
         if el.kind == "arc":
+            assert el.center is not None
             cx, cy = el.center
             a0 = math.degrees(math.atan2(el.y0 - cy, el.x0 - cx))
             a1 = math.degrees(math.atan2(el.y1 - cy, el.x1 - cx))
@@ -417,33 +490,67 @@ def plan_drawing(ctx: SolvedAlignment, layout: DraftingLayout) -> Drawing:
     guard_count((hz.end - hz.start) / layout.plan_tick, "plan station ticks")
     ticks = st.round_stations(layout.plan_tick, hz.start, hz.end)
     north, east, head = ctx.plan_at(ticks)
-    for s, n_, e_, hd in zip(ticks.tolist(), north.tolist(), east.tolist(), head.tolist(), strict=True):
+    for s, n_, e_, hd in zip(
+        ticks.tolist(), north.tolist(), east.tolist(), head.tolist(), strict=True
+    ):
         nx, ny = -math.sin(hd), math.cos(hd)  # left normal
-        items.append(Path("plan_ticks", ((e_ - 0.6 * h * nx, n_ - 0.6 * h * ny),
-                                         (e_ + 0.6 * h * nx, n_ + 0.6 * h * ny))))
+        items.append(
+            Path(
+                "plan_ticks",
+                ((e_ - 0.6 * h * nx, n_ - 0.6 * h * ny), (e_ + 0.6 * h * nx, n_ + 0.6 * h * ny)),
+            )
+        )
         rot, flipped = _readable_flag(math.degrees(hd) + 90.0)
         text = labels.grid_station_text(float(st.label_value(s)), units)
-        put(Text("plan_labels", text, e_ + 1.0 * h * nx, n_ + 1.0 * h * ny, h, rot,
-                 "right" if flipped else "left", "middle"))
+        put(
+            Text(
+                "plan_labels",
+                text,
+                e_ + 1.0 * h * nx,
+                n_ + 1.0 * h * ny,
+                h,
+                rot,
+                "right" if flipped else "left",
+                "middle",
+            )
+        )
     keys = ctx.plan_key_points
     merged: dict[float, list[str]] = {}
-    for s, tag in keys:
-        near = next((k for k in merged if abs(k - s) < 1e-6), None)
-        merged.setdefault(near if near is not None else s, []).append(tag)
-    for s, tags in sorted(merged.items()):
-        n_, e_, hd = (float(v) for v in ctx.plan_at(s))
+    for key_s, tag in keys:
+        near = next((k for k in merged if abs(k - key_s) < 1e-6), None)
+        merged.setdefault(near if near is not None else key_s, []).append(tag)
+    for key_s, tags in sorted(merged.items()):
+        n_, e_, hd = (float(v) for v in ctx.plan_at(key_s))
         items.append(Circle("plan_points", (e_, n_), 0.4 * h))
         rx, ry = math.sin(hd), -math.cos(hd)  # right normal
         rot, flipped = _readable_flag(math.degrees(hd) - 90.0)
-        text = labels.plan_point_label("/".join(tags), st.label(s))
-        put(Text("plan_labels", text, e_ + 1.0 * h * rx, n_ + 1.0 * h * ry, h, rot,
-                 "right" if flipped else "left", "middle"))
+        text = labels.plan_point_label("/".join(tags), st.label(key_s))
+        put(
+            Text(
+                "plan_labels",
+                text,
+                e_ + 1.0 * h * rx,
+                n_ + 1.0 * h * ry,
+                h,
+                rot,
+                "right" if flipped else "left",
+                "middle",
+            )
+        )
     for c in ctx.curves:
-        if c.pi_northing is None:
+        if c.pi_northing is None or c.pi_easting is None:
             continue
         lines = [labels.plan_point_label("PI", st.label(c.pi_station))] + labels.plan_curve_note(
-            c.number, c.delta, c.radius, c.tangent_in, c.arc_length, c.external,
-            c.spiral_in, c.spiral_out, units)
+            c.number,
+            c.delta,
+            c.radius,
+            c.tangent_in,
+            c.arc_length,
+            c.external,
+            c.spiral_in,
+            c.spiral_out,
+            units,
+        )
         mid = (c.start_station + c.end_station) / 2
         mn, me, _ = (float(v) for v in ctx.plan_at(mid))
         ox, oy = c.pi_easting - me, c.pi_northing - mn
@@ -456,11 +563,29 @@ def plan_drawing(ctx: SolvedAlignment, layout: DraftingLayout) -> Drawing:
         bx = c.pi_easting + ux * 2 * h + (0 if ux >= 0 else -block_w)
         by = c.pi_northing + uy * 2 * h + (block_h if uy >= 0 else 0)
         for j, t in enumerate(lines):
-            put(Text("plan_notes", t, bx, by - (j + 1) * 1.5 * h + 0.5 * h, h, 0.0, "left", "bottom"))
-    xs = [p[0] for i in items if isinstance(i, (Path, ArcItem)) for p in (i.points if isinstance(i, Path) else i.polyline)]
-    ys = [p[1] for i in items if isinstance(i, (Path, ArcItem)) for p in (i.points if isinstance(i, Path) else i.polyline)]
+            put(
+                Text(
+                    "plan_notes", t, bx, by - (j + 1) * 1.5 * h + 0.5 * h, h, 0.0, "left", "bottom"
+                )
+            )
+    xs = [
+        p[0]
+        for i in items
+        if isinstance(i, (Path, ArcItem))
+        for p in (i.points if isinstance(i, Path) else i.polyline)
+    ]
+    ys = [
+        p[1]
+        for i in items
+        if isinstance(i, (Path, ArcItem))
+        for p in (i.points if isinstance(i, Path) else i.polyline)
+    ]
     boxes = np.concatenate(taken) if taken else np.zeros((0, 2))
-    ext = (min(xs + boxes[:, 0].tolist()), min(ys + boxes[:, 1].tolist()),
-           max(xs + boxes[:, 0].tolist()), max(ys + boxes[:, 1].tolist()))
+    ext = (
+        min(xs + boxes[:, 0].tolist()),
+        min(ys + boxes[:, 1].tolist()),
+        max(xs + boxes[:, 0].tolist()),
+        max(ys + boxes[:, 1].tolist()),
+    )
     meta = {"kind": "plan", "alignment": ctx.alignment.name, "linear_unit": units.linear}
     return Drawing(tuple(items), ext, meta)

@@ -10,9 +10,20 @@ from dataclasses import dataclass, field
 from typing import Any, TypeAlias
 
 import numpy as np
+
 from gradeline.present import labels
 
-__all__ = ["XY", "ArcItem", "Circle", "Drawing", "Item", "Path", "QuadCurve", "Text", "boxes_overlap"]
+__all__ = [
+    "XY",
+    "ArcItem",
+    "Circle",
+    "Drawing",
+    "Item",
+    "Path",
+    "QuadCurve",
+    "Text",
+    "boxes_overlap",
+]
 
 
 XY = tuple[float, float]
@@ -106,14 +117,17 @@ class _BoxIndex:
 
     def __init__(self, boxes: list[np.ndarray]) -> None:
         self.boxes = list(boxes)
-        self.bb = np.array([[b[:, 0].min(), b[:, 1].min(), b[:, 0].max(), b[:, 1].max()]
-                            for b in self.boxes]).reshape(-1, 4)
+        self.bb = np.array(
+            [[b[:, 0].min(), b[:, 1].min(), b[:, 0].max(), b[:, 1].max()] for b in self.boxes]
+        ).reshape(-1, 4)
 
     def hits(self, box: np.ndarray, gap: float = 0.0) -> bool:
         x0, y0 = box.min(axis=0) - gap
         x1, y1 = box.max(axis=0) + gap
         bb = self.bb
-        near = np.flatnonzero((bb[:, 0] <= x1) & (bb[:, 2] >= x0) & (bb[:, 1] <= y1) & (bb[:, 3] >= y0))
+        near = np.flatnonzero(
+            (bb[:, 0] <= x1) & (bb[:, 2] >= x0) & (bb[:, 1] <= y1) & (bb[:, 3] >= y0)
+        )
         return any(boxes_overlap(box, self.boxes[i], gap) for i in near)
 
     def add(self, box: np.ndarray) -> None:

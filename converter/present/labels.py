@@ -144,7 +144,9 @@ def plan_curve_note(
         f"E = {length_text(external, units)} {u}",
     ]
     if spiral_in or spiral_out:
-        lines.insert(3, f"LS = {length_text(spiral_in, units)} / {length_text(spiral_out, units)} {u}")
+        lines.insert(
+            3, f"LS = {length_text(spiral_in, units)} / {length_text(spiral_out, units)} {u}"
+        )
     return lines
 
 
@@ -159,7 +161,7 @@ def turning_point_tag(curve_type: str) -> str:
 
 
 def scale_text(scale: float, exaggeration: float, metric: bool) -> str:
-    """Horizontal and vertical scale of a sheet, e.g. ``H 1" = 50'  V 1" = 5'`` or ``H 1:500  V 1:50``.
+    """Horizontal and vertical scale of a sheet.
 
     Examples
     --------
@@ -170,13 +172,15 @@ def scale_text(scale: float, exaggeration: float, metric: bool) -> str:
     """
     if metric:
         return f"H 1:{scale:g}  V 1:{scale / exaggeration:g}"
-    return f'H 1" = {scale:g}\'  V 1" = {scale / exaggeration:g}\''
+    return f"H 1\" = {scale:g}'  V 1\" = {scale / exaggeration:g}'"
 
 
 def profile_mapping_note(alignment: str, datum: float, exaggeration: float, unit: str) -> str:
     """The note that tells a CAD user how profile y maps to elevation."""
-    return (f"PROFILE {alignment}: X = STATION, Y = (ELEVATION - {datum:g}) x "
-            f"{exaggeration:g}; UNITS {unit}")
+    return (
+        f"PROFILE {alignment}: X = STATION, Y = (ELEVATION - {datum:g}) x "
+        f"{exaggeration:g}; UNITS {unit}"
+    )
 
 
 def grid_station_text(station_label_value: float, units: Units) -> str:
@@ -203,16 +207,74 @@ def grid_elevation_text(elevation: float, step: float) -> str:
 #: tests compare them with reportlab's font metrics).
 _WIDTHS = {
     **dict.fromkeys("0123456789", 556),
-    " ": 278, ".": 278, ",": 278, ":": 278, ";": 278, "/": 278, "+": 584, "=": 584,
-    "-": 333, "%": 889, "(": 333, ")": 333, "°": 400, "'": 191, '"': 355, "&": 667,
-    "A": 667, "B": 667, "C": 722, "D": 722, "E": 667, "F": 611, "G": 778, "H": 722,
-    "I": 278, "J": 500, "K": 667, "L": 556, "M": 833, "N": 722, "O": 778, "P": 667,
-    "Q": 778, "R": 722, "S": 667, "T": 611, "U": 722, "V": 667, "W": 944, "X": 667,
-    "Y": 667, "Z": 611,
-    "a": 556, "b": 556, "c": 500, "d": 556, "e": 556, "f": 278, "g": 556, "h": 556,
-    "i": 222, "j": 222, "k": 500, "l": 222, "m": 833, "n": 556, "o": 556, "p": 556,
-    "q": 556, "r": 333, "s": 500, "t": 278, "u": 556, "v": 500, "w": 722, "x": 500,
-    "y": 500, "z": 500,
+    " ": 278,
+    ".": 278,
+    ",": 278,
+    ":": 278,
+    ";": 278,
+    "/": 278,
+    "+": 584,
+    "=": 584,
+    "-": 333,
+    "%": 889,
+    "(": 333,
+    ")": 333,
+    "°": 400,
+    "'": 191,
+    '"': 355,
+    "&": 667,
+    "A": 667,
+    "B": 667,
+    "C": 722,
+    "D": 722,
+    "E": 667,
+    "F": 611,
+    "G": 778,
+    "H": 722,
+    "I": 278,
+    "J": 500,
+    "K": 667,
+    "L": 556,
+    "M": 833,
+    "N": 722,
+    "O": 778,
+    "P": 667,
+    "Q": 778,
+    "R": 722,
+    "S": 667,
+    "T": 611,
+    "U": 722,
+    "V": 667,
+    "W": 944,
+    "X": 667,
+    "Y": 667,
+    "Z": 611,
+    "a": 556,
+    "b": 556,
+    "c": 500,
+    "d": 556,
+    "e": 556,
+    "f": 278,
+    "g": 556,
+    "h": 556,
+    "i": 222,
+    "j": 222,
+    "k": 500,
+    "l": 222,
+    "m": 833,
+    "n": 556,
+    "o": 556,
+    "p": 556,
+    "q": 556,
+    "r": 333,
+    "s": 500,
+    "t": 278,
+    "u": 556,
+    "v": 500,
+    "w": 722,
+    "x": 500,
+    "y": 500,
+    "z": 500,
 }
 #: Width of any other character, and the safety margin on every label.
 _OTHER_WIDTH = 1000

@@ -25,8 +25,11 @@ MAX_DRAWN_LINES = 200_000
 def guard_count(count: float, what: str, hint: str = "") -> None:
     """Refuse work that would produce more than :data:`MAX_DRAWN_LINES` items."""
     if not count <= MAX_DRAWN_LINES:
-        raise UsageError(f"{what}: {count:,.0f} would be needed (at most {MAX_DRAWN_LINES:,}); "
-                         + (hint or "is a length in the file wrong?"))
+        raise UsageError(
+            f"{what}: {count:,.0f} would be needed (at most {MAX_DRAWN_LINES:,}); "
+            + (hint or "is a length in the file wrong?")
+        )
+
 
 @dataclass(frozen=True, slots=True)
 class DraftingLayout:
@@ -88,15 +91,15 @@ class DraftingLayout:
         """A copy with some layers renamed; unknown roles are refused by name."""
         unknown = sorted(set(names) - set(LAYER_ROLES))
         if unknown:
-            raise UsageError(
-                f"unknown layer role {unknown[0]!r}; roles: " + ", ".join(LAYER_ROLES)
-            )
+            raise UsageError(f"unknown layer role {unknown[0]!r}; roles: " + ", ".join(LAYER_ROLES))
         merged = dict(self.layers)
         merged.update(names)
         return replace(self, layers=merged)
 
 
-def default_layout(units: Units, scale: float | None = None, exaggeration: float = 10.0) -> DraftingLayout:
+def default_layout(
+    units: Units, scale: float | None = None, exaggeration: float = 10.0
+) -> DraftingLayout:
     """Common-practice defaults: 1" = 50' with 100-ft stations, or 1:500 with 20-m ticks.
 
     Examples

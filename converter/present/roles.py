@@ -61,11 +61,13 @@ _BLACK = (0.0, 0.0, 0.0)
 
 ROLE_STYLE: dict[Role, RoleStyle] = {
     Role.GRADE: RoleStyle("PROFILE-GRADE", 5, "Continuous", 50, _BLUE, 1.4),
-    Role.GROUND: RoleStyle("PROFILE-GROUND", 32, "GL_DASHED", 25, (0.55, 0.33, 0.12), 0.8,
-                           (5.0, 3.0)),
+    Role.GROUND: RoleStyle(
+        "PROFILE-GROUND", 32, "GL_DASHED", 25, (0.55, 0.33, 0.12), 0.8, (5.0, 3.0)
+    ),
     Role.GRID: RoleStyle("PROFILE-GRID", 253, "Continuous", 9, (0.78, 0.80, 0.84), 0.25),
-    Role.GRID_MAJOR: RoleStyle("PROFILE-GRID-MAJOR", 251, "Continuous", 18, (0.55, 0.58, 0.64),
-                               0.5),
+    Role.GRID_MAJOR: RoleStyle(
+        "PROFILE-GRID-MAJOR", 251, "Continuous", 18, (0.55, 0.58, 0.64), 0.5
+    ),
     Role.LABELS: RoleStyle("PROFILE-LABELS", 7, "Continuous", 18, _BLACK, 0.4),
     Role.PVI: RoleStyle("PROFILE-PVI", 6, "Continuous", 25, _PURPLE, 0.6),
     Role.TANGENTS: RoleStyle("PROFILE-TANGENTS", 6, "GL_DASHED", 13, _PURPLE, 0.4, (4.0, 2.5)),
@@ -75,8 +77,7 @@ ROLE_STYLE: dict[Role, RoleStyle] = {
     Role.PLAN_LABELS: RoleStyle("PLAN-LABELS", 7, "Continuous", 18, _BLACK, 0.4),
     Role.PLAN_POINTS: RoleStyle("PLAN-POINTS", 6, "Continuous", 25, _PURPLE, 0.6),
     Role.PLAN_NOTES: RoleStyle("PLAN-CURVE-DATA", 7, "Continuous", 18, _BLACK, 0.4),
-    Role.MATCH: RoleStyle(None, 1, "Continuous", 35, (0.80, 0.10, 0.10), 0.9,
-                          (9.0, 3.0, 2.0, 3.0)),
+    Role.MATCH: RoleStyle(None, 1, "Continuous", 35, (0.80, 0.10, 0.10), 0.9, (9.0, 3.0, 2.0, 3.0)),
     Role.FRAME: RoleStyle(None, 7, "Continuous", 35, _BLACK, 1.0),
 }
 

@@ -12,10 +12,11 @@ from collections.abc import Sequence
 from typing import Any
 
 import numpy as np
+from numpy.typing import ArrayLike, NDArray
+
 from gradeline.geometry.vertical import JOIN_TOLERANCE
 from gradeline.model.units import angle_to_unit
 from gradeline.solved import SolvedAlignment
-from numpy.typing import ArrayLike, NDArray
 
 __all__ = [
     "CURVE_COLUMNS",
@@ -166,7 +167,7 @@ def station_rows(
 
 def vertical_curve_rows(ctx: SolvedAlignment) -> list[Row]:
     """One row per vertical curve."""
-    rows = []
+    rows: list[Row] = []
     if ctx.geometry is None:
         return rows
     label = ctx.stationing.label
@@ -245,8 +246,9 @@ def curve_rows(ctx: SolvedAlignment) -> list[Row]:
     return horizontal_curve_rows(ctx) + vertical_curve_rows(ctx)
 
 
-def add_ground_columns(ctx: SolvedAlignment, stations: ArrayLike,
-                       rows: list[Row]) -> tuple[str, ...]:
+def add_ground_columns(
+    ctx: SolvedAlignment, stations: ArrayLike, rows: list[Row]
+) -> tuple[str, ...]:
     """Add ``ground`` and ``cut_fill`` (finished grade minus ground) from the attached TIN.
 
     Returns the column names of the widened table.

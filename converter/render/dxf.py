@@ -17,6 +17,7 @@ from collections.abc import Iterator
 import ezdxf
 import numpy as np
 from ezdxf.document import Drawing as DxfDocument
+
 from gradeline.present.items import ArcItem, Circle, Drawing, Path, QuadCurve, Text
 from gradeline.present.layout import DraftingLayout
 from gradeline.present.roles import ROLE_STYLE, Role
@@ -49,15 +50,19 @@ def _fixed_metadata() -> Iterator[None]:
 def _setup(doc: DxfDocument, layout: DraftingLayout, roles: set[str], r12: bool) -> None:
     if "GL_DASHED" not in doc.linetypes:
         scale = layout.text_height
-        doc.linetypes.add("GL_DASHED", pattern=[1.5 * scale, 1.0 * scale, -0.5 * scale],
-                          description="gradeline dashed __ __ __")
+        doc.linetypes.add(
+            "GL_DASHED",
+            pattern=[1.5 * scale, 1.0 * scale, -0.5 * scale],
+            description="gradeline dashed __ __ __",
+        )
     if TEXT_STYLE not in doc.styles:
         doc.styles.add(TEXT_STYLE, font="txt" if r12 else "arial.ttf")
     for role in sorted(roles):
         style = ROLE_STYLE[Role(role)]
         color, linetype, weight = style.aci, style.linetype, style.lineweight
-        doc.layers.add(layout.layer(role), color=color, linetype=linetype,
-                       lineweight=-3 if r12 else weight)
+        doc.layers.add(
+            layout.layer(role), color=color, linetype=linetype, lineweight=-3 if r12 else weight
+        )
 
 
 def _polyline(msp, points, layer: str, r12: bool) -> None:
@@ -97,7 +102,9 @@ def _stable_classes(doc: DxfDocument) -> None:
     doc.classes.add_required_classes(doc.dxfversion)
     required = list(REQUIRED_CLASSES.get(doc.dxfversion, REQ_R2004))
     items = list(doc.classes.classes.items())
-    first = sorted((kv for kv in items if kv[0][0] in required), key=lambda kv: required.index(kv[0][0]))
+    first = sorted(
+        (kv for kv in items if kv[0][0] in required), key=lambda kv: required.index(kv[0][0])
+    )
     rest = sorted(kv for kv in items if kv[0][0] not in required)
     doc.classes.classes.clear()
     doc.classes.classes.update(first + rest)
@@ -125,8 +132,9 @@ def write_dxf(
         return _write(drawing, layout, version, curves, linear_unit)
 
 
-def _write(drawing: Drawing, layout: DraftingLayout, version: str, curves: str,
-           linear_unit: str) -> bytes:
+def _write(
+    drawing: Drawing, layout: DraftingLayout, version: str, curves: str, linear_unit: str
+) -> bytes:
     r12 = version == "R12"
     log = logging.getLogger("ezdxf")
     level = log.level
@@ -141,7 +149,7 @@ def _write(drawing: Drawing, layout: DraftingLayout, version: str, curves: str,
         if "$INSUNITS" in doc.header:
             del doc.header["$INSUNITS"]
     doc.header["$MEASUREMENT"] = 1 if linear_unit == "meter" else 0
-    roles = {getattr(i, "role") for i in drawing.items} | {"info"}
+    roles = {i.role for i in drawing.items} | {"info"}
     _setup(doc, layout, roles, r12)
     msp = doc.modelspace()
     exact_arcs = drawing.meta.get("kind") == "plan" or drawing.meta.get("exaggeration") == 1.0
@@ -160,15 +168,24 @@ def _write(drawing: Drawing, layout: DraftingLayout, version: str, curves: str,
                 _polyline(msp, item.polyline, layer, r12)
         elif isinstance(item, ArcItem):
             if exact_arcs:
-                msp.add_arc(item.center, item.radius, item.start_deg, item.end_deg,
-                            dxfattribs={"layer": layer})
+                msp.add_arc(
+                    item.center,
+                    item.radius,
+                    item.start_deg,
+                    item.end_deg,
+                    dxfattribs={"layer": layer},
+                )
             else:
                 _polyline(msp, item.polyline, layer, r12)
         elif isinstance(item, Circle):
             msp.add_circle(item.center, item.radius, dxfattribs={"layer": layer})
         elif isinstance(item, Text):
-            txt = msp.add_text(item.text, height=item.height, rotation=item.rotation,
-                               dxfattribs={"layer": layer, "style": TEXT_STYLE})
+            txt = msp.add_text(
+                item.text,
+                height=item.height,
+                rotation=item.rotation,
+                dxfattribs={"layer": layer, "style": TEXT_STYLE},
+            )
             txt.dxf.halign = _HALIGN[item.halign]
             txt.dxf.valign = _VALIGN[item.valign]
             txt.dxf.insert = (item.x, item.y)

@@ -32,7 +32,7 @@ def _float_text(value: float) -> str:
 
 
 def csv_text(rows: Iterable[Mapping[str, Any]], columns: Sequence[str]) -> str:
-    """Rows as CSV with a header; floats rounded by :func:`~gradeline.present.labels.data_number`."""
+    """Rows as CSV with a header; floats rounded by :func:`gradeline.present.labels.data_number`."""
     buf = io.StringIO()
     writer = csv.writer(buf, lineterminator="\n")
     writer.writerow(columns)
@@ -58,7 +58,9 @@ def json_text(payload: Any) -> str:
     return json.dumps(clean(payload), indent=2, allow_nan=False) + "\n"
 
 
-def refuse_overwrite(output: str | os.PathLike[str], inputs: Iterable[str | os.PathLike[str]]) -> None:
+def refuse_overwrite(
+    output: str | os.PathLike[str], inputs: Iterable[str | os.PathLike[str]]
+) -> None:
     """Raise when ``output`` names one of the ``inputs``."""
     out = os.path.abspath(output)
     for src in inputs:
@@ -66,7 +68,9 @@ def refuse_overwrite(output: str | os.PathLike[str], inputs: Iterable[str | os.P
         if not same and os.path.exists(out) and os.path.exists(src):
             same = os.path.samefile(out, src)
         if same:
-            raise UsageError(f"output {os.fspath(output)!r} is an input file; it is never overwritten")
+            raise UsageError(
+                f"output {os.fspath(output)!r} is an input file; it is never overwritten"
+            )
 
 
 def write_atomic(path: str | os.PathLike[str], data: str | bytes) -> None:

@@ -32,13 +32,20 @@ def review_summary(rev: Review) -> str:
     checks = sum(len(c.checks) for c in rev.curves) + len(rev.radius_checks)
     tight = sum(ch.verdict == "fail" for _, ch in rev.radius_checks)
     if not rev.failed:
-        return (f"PASS: all {checks} checks on {len(rev.curves)} vertical curves"
-                + (f" and {len(rev.radius_checks)} horizontal curves" if rev.radius_checks else "")
-                + " pass and sight distance is available everywhere")
-    return (f"FAIL: {failed_curves} of {len(rev.curves)} vertical curves fail a check; "
-            f"{ranges} station range{'s' if ranges != 1 else ''} lack sight distance"
-            + (f"; {tight} horizontal curve{'s' if tight != 1 else ''} below the minimum radius"
-               if tight else ""))
+        return (
+            f"PASS: all {checks} checks on {len(rev.curves)} vertical curves"
+            + (f" and {len(rev.radius_checks)} horizontal curves" if rev.radius_checks else "")
+            + " pass and sight distance is available everywhere"
+        )
+    return (
+        f"FAIL: {failed_curves} of {len(rev.curves)} vertical curves fail a check; "
+        f"{ranges} station range{'s' if ranges != 1 else ''} lack sight distance"
+        + (
+            f"; {tight} horizontal curve{'s' if tight != 1 else ''} below the minimum radius"
+            if tight
+            else ""
+        )
+    )
 
 
 def review_text(ctx: SolvedAlignment, rev: Review) -> str:
@@ -50,7 +57,8 @@ def review_text(ctx: SolvedAlignment, rev: Review) -> str:
         review_summary(rev),
         f"file {ctx.document.path}, alignment {ctx.alignment.name!r}, profile "
         f"{ctx.profile.name if ctx.profile else '-'!r}",
-        f"design speed {rev.speed:g} {_SPEED.get(rev.speed_unit, rev.speed_unit)}; controls: {rev.criteria.name}; "
+        f"design speed {rev.speed:g} {_SPEED.get(rev.speed_unit, rev.speed_unit)}; "
+        f"controls: {rev.criteria.name}; "
         f"stopping sight distance {rev.ssd:g} {lu} on level grade "
         f"(eye {rev.criteria.eye_height:g} {lu}, object {rev.criteria.object_height:g} {lu})",
         "",
@@ -63,20 +71,26 @@ def review_text(ctx: SolvedAlignment, rev: Review) -> str:
             f"K {labels.k_text(c.k)}" + ("" if c.kind == "parabolic" else f"  ({c.kind})")
         )
         width = max(len(ch.name) for ch in cr.checks) if cr.checks else 10
-        lines.append(f"  {'check':<{width}}  {'required':>10}  {'provided':>10}  {'margin':>10}  verdict")
+        lines.append(
+            f"  {'check':<{width}}  {'required':>10}  {'provided':>10}  {'margin':>10}  verdict"
+        )
         for ch in cr.checks:
             margin = ch.margin
             m = "-" if not math.isfinite(margin) else f"{margin:+.2f}"
-            lines.append(f"  {ch.name:<{width}}  {_num(ch.required):>10}  {_num(ch.provided):>10}  "
-                         f"{m:>10}  {ch.verdict.upper() if ch.verdict != 'pass' else 'pass'}"
-                         + (f"  ({ch.note})" if ch.note else ""))
+            lines.append(
+                f"  {ch.name:<{width}}  {_num(ch.required):>10}  {_num(ch.provided):>10}  "
+                f"{m:>10}  {ch.verdict.upper() if ch.verdict != 'pass' else 'pass'}"
+                + (f"  ({ch.note})" if ch.note else "")
+            )
         lines.append("")
     if rev.radius_checks:
         lines.append("horizontal curves:")
         for i, (station, ch) in enumerate(rev.radius_checks, start=1):
-            lines.append(f"  curve {i} at {st.label(station)}: {ch.name}: required R {ch.required:.1f} "
-                         f"{lu}, provided {ch.provided:.1f} {lu}, margin {ch.margin:+.1f}  "
-                         f"{'pass' if ch.verdict == 'pass' else ch.verdict.upper()}")
+            lines.append(
+                f"  curve {i} at {st.label(station)}: {ch.name}: required R {ch.required:.1f} "
+                f"{lu}, provided {ch.provided:.1f} {lu}, margin {ch.margin:+.1f}  "
+                f"{'pass' if ch.verdict == 'pass' else ch.verdict.upper()}"
+            )
         lines.append("")
     step = rev.sight.stations[1] - rev.sight.stations[0] if len(rev.sight.stations) > 1 else 0
     lines.append(f"sight distance along the finished grade (every {step:g} {lu}, both directions):")
@@ -123,24 +137,44 @@ def review_payload(ctx: SolvedAlignment, rev: Review) -> dict[str, Any]:
                 "K": cr.curve.k,
                 "failed": cr.failed,
                 "checks": [
-                    {"name": ch.name, "required": fin(ch.required), "provided": fin(ch.provided),
-                     "margin": fin(ch.margin), "unit": ch.unit, "verdict": ch.verdict,
-                     "note": ch.note}
+                    {
+                        "name": ch.name,
+                        "required": fin(ch.required),
+                        "provided": fin(ch.provided),
+                        "margin": fin(ch.margin),
+                        "unit": ch.unit,
+                        "verdict": ch.verdict,
+                        "note": ch.note,
+                    }
                     for ch in cr.checks
                 ],
             }
             for cr in rev.curves
         ],
         "sight_distance_deficiencies": [
-            {"kind": d.kind, "direction": d.direction, "start": d.start, "end": d.end,
-             "start_label": st.label(d.start), "end_label": st.label(d.end),
-             "available_min": d.available_min, "required": d.required}
+            {
+                "kind": d.kind,
+                "direction": d.direction,
+                "start": d.start,
+                "end": d.end,
+                "start_label": st.label(d.start),
+                "end_label": st.label(d.end),
+                "available_min": d.available_min,
+                "required": d.required,
+            }
             for d in rev.deficiencies
         ],
         "horizontal_curves": [
-            {"number": i, "pc_station": s, "pc_label": st.label(s), "name": ch.name,
-             "required_radius": ch.required, "radius": ch.provided, "margin": ch.margin,
-             "verdict": ch.verdict}
+            {
+                "number": i,
+                "pc_station": s,
+                "pc_label": st.label(s),
+                "name": ch.name,
+                "required_radius": ch.required,
+                "radius": ch.provided,
+                "margin": ch.margin,
+                "verdict": ch.verdict,
+            }
             for i, (s, ch) in enumerate(rev.radius_checks, start=1)
         ],
         "notes": list(rev.notes),
@@ -165,13 +199,17 @@ def check_summary(findings, drawing) -> str:
     return f"{over} finding{'s' if over != 1 else ''} over tolerance in {total} checks"
 
 
-def check_text(doc, findings, drawing, tol, drawing_name: str = "", layer: str = "",
-               stationing=None) -> str:
+def check_text(
+    doc, findings, drawing, tol, drawing_name: str = "", layer: str = "", stationing=None
+) -> str:
     """Readable cross-check report grouped by alignment and element; summary first."""
     units = doc.units
-    lines = [check_summary(findings, drawing),
-             f"file {doc.path}; tolerances: {tol.distance:g} {units.symbol} for distances, "
-             f"{math.degrees(tol.angle) * 3600:g}\" for angles", ""]
+    lines = [
+        check_summary(findings, drawing),
+        f"file {doc.path}; tolerances: {tol.distance:g} {units.symbol} for distances, "
+        f'{math.degrees(tol.angle) * 3600:g}" for angles',
+        "",
+    ]
     from gradeline.geometry.stations import Stationing
 
     current = None
@@ -191,20 +229,29 @@ def check_text(doc, findings, drawing, tol, drawing_name: str = "", layer: str =
         if f.miss:
             body = f"{f.quantity}: off by {f.stated:.4f}" + (f" {f.unit}" if f.unit else "")
         elif f.stated is not None and f.computed is not None:
-            body = (f"{f.quantity}: stated {_val(f.stated, f.unit)}, computed {_val(f.computed, f.unit)}, "
-                    f"difference {f.difference:+.4f}" + (f" {f.unit}" if f.unit else ""))
+            body = (
+                f"{f.quantity}: stated {_val(f.stated, f.unit)}, "
+                f"computed {_val(f.computed, f.unit)}, "
+                f"difference {f.difference:+.4f}" + (f" {f.unit}" if f.unit else "")
+            )
         else:
             body = f"{f.quantity}: {f.message}"
-        note = (f" ({f.message})" if f.message and f.stated is not None and f.computed is not None
-                and not f.miss else "")
+        note = (
+            f" ({f.message})"
+            if f.message and f.stated is not None and f.computed is not None and not f.miss
+            else ""
+        )
         lines.append(f"  {verdict:<4}  {where}: {body}{note}")
     if drawing is not None:
         d = drawing
         lab = stationing.label if stationing is not None else (lambda s: f"{s:.3f}")
-        lines += ["", f"drawing {drawing_name}, layer {layer!r}: x = station, y = (elevation - "
-                  f"{d.datum:.4f}) x {d.exaggeration:.6g} ({d.mapping_from})",
-                  f"  {d.samples} samples; deviation from the computed grade: max {d.max_deviation:.4f} "
-                  f"{units.symbol} at {lab(d.worst_station)}, mean {d.mean_deviation:.4f} {units.symbol}"]
+        lines += [
+            "",
+            f"drawing {drawing_name}, layer {layer!r}: x = station, y = (elevation - "
+            f"{d.datum:.4f}) x {d.exaggeration:.6g} ({d.mapping_from})",
+            f"  {d.samples} samples; deviation from the computed grade: max {d.max_deviation:.4f} "
+            f"{units.symbol} at {lab(d.worst_station)}, mean {d.mean_deviation:.4f} {units.symbol}",
+        ]
         if not d.over:
             lines.append(f"  ok    within {tol.distance:g} {units.symbol} everywhere it is drawn")
         for a, b, w in d.over:
@@ -215,7 +262,9 @@ def check_text(doc, findings, drawing, tol, drawing_name: str = "", layer: str =
     return "\n".join(lines) + "\n"
 
 
-def check_payload(doc, findings, drawing, tol, drawing_name: str = "", layer: str = "") -> dict[str, Any]:
+def check_payload(
+    doc, findings, drawing, tol, drawing_name: str = "", layer: str = ""
+) -> dict[str, Any]:
     """The cross-check as JSON-ready data."""
     out: dict[str, Any] = {
         "summary": check_summary(findings, drawing),
@@ -223,11 +272,23 @@ def check_payload(doc, findings, drawing, tol, drawing_name: str = "", layer: st
         "tolerance": tol.distance,
         "angle_tolerance_seconds": math.degrees(tol.angle) * 3600,
         "findings": [
-            {"alignment": f.alignment, "element": f.element, "index": f.index, "station": f.station,
-             "quantity": f.quantity, "stated": f.stated, "computed": f.computed,
-             "difference": f.difference, "unit": f.unit, "verdict": f.verdict, "message": f.message,
-             "measures": "distance between stated and computed" if f.miss else "stated - computed",
-             "line": f.source.line if f.source else None}
+            {
+                "alignment": f.alignment,
+                "element": f.element,
+                "index": f.index,
+                "station": f.station,
+                "quantity": f.quantity,
+                "stated": f.stated,
+                "computed": f.computed,
+                "difference": f.difference,
+                "unit": f.unit,
+                "verdict": f.verdict,
+                "message": f.message,
+                "measures": "distance between stated and computed"
+                if f.miss
+                else "stated - computed",
+                "line": f.source.line if f.source else None,
+            }
             for f in findings
         ],
         "caution": labels.CAUTION,
@@ -235,9 +296,15 @@ def check_payload(doc, findings, drawing, tol, drawing_name: str = "", layer: st
     if drawing is not None:
         d = drawing
         out["drawing"] = {
-            "file": drawing_name, "layer": layer, "exaggeration": d.exaggeration, "datum": d.datum,
-            "mapping": d.mapping_from, "samples": d.samples, "max_deviation": d.max_deviation,
-            "mean_deviation": d.mean_deviation, "worst_station": d.worst_station,
+            "file": drawing_name,
+            "layer": layer,
+            "exaggeration": d.exaggeration,
+            "datum": d.datum,
+            "mapping": d.mapping_from,
+            "samples": d.samples,
+            "max_deviation": d.max_deviation,
+            "mean_deviation": d.mean_deviation,
+            "worst_station": d.worst_station,
             "over_tolerance": [{"start": a, "end": b, "worst": w} for a, b, w in d.over],
             "not_covered": [{"start": a, "end": b} for a, b in d.uncovered],
         }
