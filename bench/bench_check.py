@@ -16,7 +16,7 @@ import numpy as np
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
 from bench._common import synthetic_plan, synthetic_profile  # noqa: E402
-from gradeline.analysis import check
+from gradeline.analysis import check, drawing_check
 from gradeline.geometry import horizontal, vertical
 from gradeline.io.dxf_read import read_drawing, read_linework  # noqa: E402
 from gradeline.model import Alignment, Document  # noqa: E402
@@ -48,7 +48,7 @@ def main() -> None:
         lines = read_linework(read_drawing(str(path)), "FG", 0.0005)
         t_read = time.perf_counter() - t0
         t0 = time.perf_counter()
-        result = check.check_linework(lines, geom, 0.01, 10.0, 900.0, "given")
+        result = drawing_check.check_linework(lines, geom, 0.01, 10.0, 900.0, "given")
         t_cmp = time.perf_counter() - t0
     print(
         f"{len(plan.elements)} plan elements, {len(prof.pvis)} PVIs, {length:,.0f} ft; "

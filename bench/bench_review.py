@@ -18,7 +18,7 @@ import numpy as np
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
 from bench._common import synthetic_profile  # noqa: E402
-from gradeline.analysis import review
+from gradeline.analysis import review, sight
 from gradeline.geometry import vertical
 
 
@@ -40,7 +40,7 @@ def main() -> None:
     crit = review.load_criteria(None, metric=False)
     reach = 1.25 * review.design_ssd(crit, 60.0, 0.05)
     t0 = time.perf_counter()
-    sd = review.sight_distance(geom, crit, step=10.0, reach=reach, sample=1.0)
+    sd = sight.sight_distance(geom, crit, step=10.0, reach=reach, sample=1.0)
     t_vec = time.perf_counter() - t0
     xs = geom.start + np.arange(int(geom.end - geom.start) + 1, dtype=float)
     z = vertical.elevation(geom, xs).tolist()

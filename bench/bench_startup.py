@@ -29,8 +29,10 @@ def main() -> None:
     helped = _median_ms([sys.executable, "-m", "gradeline", "--help"])
     table = _median_ms([sys.executable, "-c", "import numpy, lxml.etree"])
     print(f"python -c pass (baseline):         {bare:6.1f} ms")
-    print(f"gradeline --help:                  {helped:6.1f} ms  ({helped / bare:.1f}x the bare "
-          f"interpreter; target < 100 ms)")
+    print(
+        f"gradeline --help:                  {helped:6.1f} ms  ({helped / bare:.1f}x the bare "
+        f"interpreter; target < 100 ms)"
+    )
     print(f"import numpy, lxml (for scale):    {table:6.1f} ms")
 
 

@@ -167,7 +167,7 @@ def review(solved: SolvedAlignment, speed: float, **options: Any):  # noqa: ANN2
 def check(solved: SolvedAlignment, tolerance: float = 0.01, angle_tolerance_sec: float = 2.0):  # noqa: ANN201
     """Cross-check findings of one solved alignment (stated values against computed ones).
 
-    Returns a list of :class:`gradeline.analysis.check.Finding`; those with
+    Returns a list of :class:`gradeline.analysis.findings.Finding`; those with
     ``verdict == "over"`` exceed the tolerance.
     """
     from gradeline import deliverables as dl

@@ -20,7 +20,7 @@ from gradeline.model import Document
 from gradeline.solved import SolvedAlignment, solve, with_surface
 
 if TYPE_CHECKING:
-    from gradeline.analysis.check import Finding, Tolerances
+    from gradeline.analysis.findings import Finding, Tolerances
     from gradeline.present.layout import DraftingLayout
     from gradeline.sheets.pdf import SheetOptions
 
@@ -140,7 +140,7 @@ def station_table(solved: SolvedAlignment, opts: TableOptions) -> str:
     if opts.at is not None:
         texts = [t for t in opts.at if t.strip()]
         if not texts:
-            raise UsageError("--at needs at least one station")
+            raise UsageError("give at least one station", choice="at")
         at = [solved.stationing.internal_of(t, solved.start, solved.end) for t in texts]
         stations, tags = tables.table_stations(solved, at=at)
     else:
@@ -197,13 +197,13 @@ def profile_dxf(solved: SolvedAlignment, opts: DrawingOptions) -> bytes:
 
 def plan_dxf(solved: SolvedAlignment, opts: DrawingOptions) -> bytes:
     """The plan drawing (needs plan geometry)."""
-    from gradeline.present import drafting
+    from gradeline.present.plan_drawing import plan_drawing
     from gradeline.render.dxf import write_dxf
 
     if solved.horizontal is None:
         raise UsageError(f"alignment {solved.alignment.name!r} has no CoordGeom; no plan to draw")
     lay = opts.layout(solved)
-    drawing = drafting.plan_drawing(solved, lay)
+    drawing = plan_drawing(solved, lay)
     return write_dxf(
         drawing,
         lay,
@@ -329,7 +329,7 @@ class CheckOptions:
         """The tolerances as the check module takes them."""
         import math
 
-        from gradeline.analysis.check import Tolerances
+        from gradeline.analysis.findings import Tolerances
 
         if self.tolerance <= 0 or self.angle_tolerance_sec <= 0:
             raise UsageError("tolerances must be positive")

@@ -25,6 +25,10 @@ class GradelineError(Exception):
         File and line the problem was found at.
     element : str, optional
         The XML element (or other named thing) at fault.
+    choice : str, optional
+        What the caller can choose to get past the error (``alignment``,
+        ``profile``, ``surface``, ``mapping``, ``window``); the command line
+        turns it into the option to give. Library messages never name options.
     """
 
     def __init__(
@@ -32,11 +36,14 @@ class GradelineError(Exception):
         message: str,
         source: SourceRef | None = None,
         element: str | None = None,
+        *,
+        choice: str | None = None,
     ) -> None:
         super().__init__(message)
         self.message = message
         self.source = source
         self.element = element
+        self.choice = choice
 
     def __str__(self) -> str:
         parts = []
@@ -56,6 +63,7 @@ class GradelineError(Exception):
             self.message,
             self.source if self.source is not None else source,
             self.element if self.element else element,
+            choice=self.choice,
         )
         return err
 

@@ -30,6 +30,8 @@ from gradeline.model import Alignment, Document, Profile, SourceRef, Surface
 if TYPE_CHECKING:
     from gradeline.geometry.ground import TriangleIndex
 
+from gradeline.geometry.directions import direction_value
+
 __all__ = ["SolvedAlignment", "solve", "solve_alignment", "with_surface"]
 
 #: Tags of vertical key points (the profile's station wins where plan and
@@ -164,9 +166,7 @@ class SolvedAlignment:
     def direction(self, heading: ArrayLike) -> NDArray[np.float64]:
         """Headings as directions in the file's convention and direction unit."""
         assert self.horizontal is not None
-        return horizontal.direction_value(
-            heading, self.horizontal.convention, self.document.units.direction
-        )
+        return direction_value(heading, self.horizontal.convention, self.document.units.direction)
 
     def ground_at(self, stations: ArrayLike) -> NDArray[np.float64]:
         """Exact TIN ground at internal stations (NaN off the surface; needs a surface)."""

@@ -54,16 +54,17 @@ def render_dxf(
 
 
 def main() -> None:
+    from gradeline.deliverables import open_alignment as select
     from gradeline.present import drafting
     from gradeline.present.layout import default_layout
+    from gradeline.present.plan_drawing import plan_drawing
     from gradeline.render.dxf import write_dxf
-    from gradeline.solved import select
 
     ctx = select(ROOT / "samples" / "orrin-vale-bypass.xml", "Orrin Vale Bypass")
     lay = default_layout(ctx.document.units)
     prof = write_dxf(drafting.profile_drawing(ctx, lay), lay, linear_unit="USSurveyFoot")
     render_dxf(prof, (1330.0, 2430.0, -40.0, 360.0), 12.0, ROOT / "docs" / "profile.png", dpi=150)
-    plan = write_dxf(drafting.plan_drawing(ctx, lay), lay, linear_unit="USSurveyFoot")
+    plan = write_dxf(plan_drawing(ctx, lay), lay, linear_unit="USSurveyFoot")
     render_dxf(
         plan, (21250.0, 22450.0, 10430.0, 10830.0), 12.0, ROOT / "docs" / "plan.png", dpi=150
     )
@@ -74,9 +75,9 @@ def sheet_page() -> None:
     import subprocess
     import tempfile
 
+    from gradeline.deliverables import open_alignment as select
     from gradeline.io.config import read_config
     from gradeline.sheets.pdf import SheetOptions, render_sheets
-    from gradeline.solved import select
 
     cfg = read_config(str(ROOT / "samples" / "sheets.toml"))["sheet"]
     ctx = select(ROOT / "samples" / "orrin-vale-bypass.xml", "Orrin Vale Bypass")

@@ -15,9 +15,10 @@ import numpy as np
 from reportlab.pdfbase.pdfmetrics import stringWidth
 from reportlab.pdfgen import canvas as rl_canvas
 
-from gradeline.present import drafting, labels
+from gradeline.present import labels
 from gradeline.present.items import ArcItem, Circle, Drawing, Path, QuadCurve, Text
 from gradeline.present.layout import DraftingLayout, default_layout
+from gradeline.present.plan_drawing import plan_drawing
 from gradeline.present.roles import ROLE_STYLE, Role
 from gradeline.sheets import tables
 from gradeline.sheets.layout import (
@@ -507,7 +508,7 @@ def render_sheets(ctx: SolvedAlignment, opts: SheetOptions) -> bytes:
     c.setAuthor(opts.drawn_by or "gradeline")
     c.setCreator("gradeline")
     c.setSubject(labels.CAUTION)
-    plan = drafting.plan_drawing(ctx, lay) if ctx.horizontal is not None else None
+    plan = plan_drawing(ctx, lay) if ctx.horizontal is not None else None
     boxes = _item_boxes(plan) if plan is not None else None
     for frame in plan_info.frames:
         view = sheet_view(ctx, lay, geo, frame, len(plan_info.frames))

@@ -260,3 +260,17 @@ def test_gap_is_a_warning_not_an_error(tmp_path, capsys):
     assert code == 0
     assert f"gradeline: warning: {path}:4: Line: gap of 0.5000 between the end of element 1" in err
     assert out.count("\n") >= 4
+
+
+def test_library_errors_name_no_option_but_the_command_line_does(capsys):
+    """Library messages say what to choose; only the CLI names the option (issue 13)."""
+    from gradeline import InputError, read
+
+    doc = read(US_SAMPLE)
+    with pytest.raises(InputError) as info:
+        doc.alignment(None)
+    assert "--" not in str(info.value) and info.value.choice == "alignment"
+    assert main(["table", str(US_SAMPLE), "--interval", "100"]) == 2
+    err = capsys.readouterr().err
+    assert err.count("\n") == 1
+    assert "choose one: Orrin Vale Bypass, Kettle Lane (give --alignment NAME)" in err

@@ -20,6 +20,7 @@ from gradeline.geometry.station_offset import station_offset
 from gradeline.io.dxf_read import read_mapping
 from gradeline.present import drafting, items
 from gradeline.present.layout import default_layout
+from gradeline.present.plan_drawing import plan_drawing
 from gradeline.render.dxf import write_dxf
 from tests.conftest import METRIC_SAMPLE, US_SAMPLE
 
@@ -31,7 +32,7 @@ R12_TYPES = {"LINE", "POLYLINE", "VERTEX", "SEQEND", "ARC", "CIRCLE", "TEXT", "P
 def _make(path, name, version="R2010", curves="spline", plan=False):
     ctx = open_alignment(path, name)
     lay = default_layout(ctx.document.units)
-    d = drafting.plan_drawing(ctx, lay) if plan else drafting.profile_drawing(ctx, lay, curves)
+    d = plan_drawing(ctx, lay) if plan else drafting.profile_drawing(ctx, lay, curves)
     data = write_dxf(d, lay, version=version, curves=curves, linear_unit=ctx.document.units.linear)
     enc = "utf-8" if version == "R2010" else "cp1252"
     return ctx, lay, ezdxf.read(io.StringIO(data.decode(enc))), data

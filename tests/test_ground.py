@@ -189,7 +189,7 @@ def test_unknown_and_ambiguous_surface_names(tmp_path):
     )
     path = tmp_path / "two.xml"
     path.write_text(two)
-    with pytest.raises(InputError, match="2 surfaces; choose one with --surface: A, B"):
+    with pytest.raises(InputError, match="2 surfaces; choose one: A, B"):
         surface_reader.read_surface(path)
 
 

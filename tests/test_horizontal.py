@@ -16,6 +16,7 @@ from gradeline.deliverables import open_alignment
 from gradeline.errors import InputError, ModelError
 from gradeline.geometry import horizontal as H
 from gradeline.geometry.curve_data import curve_data
+from gradeline.geometry.directions import wrap_angle
 from gradeline.geometry.station_offset import station_offset
 from gradeline.io import landxml
 from gradeline.model import HCurve, HLine, HorizontalAlignment, HSpiral
@@ -202,7 +203,7 @@ def test_samples_are_continuous_and_match_stated_values(path, name):
     assert matched == stated > 0
     # heading continuous at every join (tangent alignment)
     for a, b in zip(h.elements, h.elements[1:], strict=False):
-        assert abs(H._wrap(b.heading0 - a.heading1)) < 1e-6
+        assert abs(wrap_angle(b.heading0 - a.heading1)) < 1e-6
         assert math.hypot(b.x0 - a.x1, b.y0 - a.y1) < 1e-5
     # the alignment's stated length agrees with the computed one
     assert h.end - h.start == pytest.approx(ctx.alignment.length, abs=1e-3)

@@ -406,7 +406,8 @@ def fit_profile(
     except ModelError as err:
         raise FitError(
             f"the recovered geometry is not a valid profile ({err.message}); "
-            "try a different --window"
+            "try a different window",
+            choice="window",
         ) from None
     # circular curves: state the arc length and the radius sign as LandXML files do
     # (positive on a sag, negative on a crest)

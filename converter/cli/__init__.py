@@ -21,6 +21,16 @@ from gradeline.errors import GradelineError
 
 __all__ = ["COMMANDS", "build_parser", "main"]
 
+#: The option that makes each kind of choice a library error asks for.
+CHOICE_OPTIONS = {
+    "alignment": "--alignment NAME",
+    "profile": "--profile NAME",
+    "surface": "--surface NAME",
+    "mapping": "--exaggeration and --datum",
+    "window": "--window W",
+    "at": "--at STATIONS",
+}
+
 #: Command modules of :mod:`gradeline.cli`, in the order of ``--help``.
 COMMANDS = ("info", "table", "dxf", "sheets", "review", "check", "fit", "build", "demo", "curves")
 
@@ -50,7 +60,8 @@ def main(argv: Sequence[str] | None = None) -> int:
     try:
         return int(args.func(args))
     except GradelineError as err:
-        sys.stderr.write(f"{PROG}: {err}\n")
+        hint = CHOICE_OPTIONS.get(err.choice or "")
+        sys.stderr.write(f"{PROG}: {err}" + (f" (give {hint})" if hint else "") + "\n")
         return 2
     except BrokenPipeError:
         return 0

@@ -63,7 +63,7 @@ def add_parser(sub: Any) -> None:
 def _drawing(args: argparse.Namespace, doc: Any, tol: Any) -> tuple[Any, Any, str]:
     """The DXF linework check: (result, stationing, layer)."""
     from gradeline import deliverables as dl
-    from gradeline.analysis import check
+    from gradeline.analysis import drawing_check
     from gradeline.io.dxf_read import layer_names, read_drawing, read_linework, read_mapping
     from gradeline.present.roles import LAYER_ROLES
 
@@ -89,9 +89,9 @@ def _drawing(args: argparse.Namespace, doc: Any, tol: Any) -> tuple[Any, Any, st
     if found is not None:
         exag, datum, how = found
     else:
-        exag, datum = check.fit_mapping(lines, solved.geometry)
+        exag, datum = drawing_check.fit_mapping(lines, solved.geometry)
         how = "fitted by least squares"
-    result = check.check_linework(lines, solved.geometry, tol.distance, exag, datum, how)
+    result = drawing_check.check_linework(lines, solved.geometry, tol.distance, exag, datum, how)
     return result, solved.stationing, layer
 
 

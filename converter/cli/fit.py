@@ -158,7 +158,9 @@ def run(args: argparse.Namespace) -> int:
     try:
         pts = fit.chain(lines, gap=0.01 * max(1.0, exag))
     except fit.FitError as err:
-        raise UsageError(f"{args.drawing}: layer {args.layer!r}: {err.message}") from None
+        raise UsageError(
+            f"{args.drawing}: layer {args.layer!r}: {err.message}", choice=err.choice
+        ) from None
     if args.start_station is not None:
         pts[:, 0] = pts[:, 0] - pts[0, 0] + args.start_station
     pts[:, 1] = pts[:, 1] / exag + datum
@@ -167,7 +169,9 @@ def run(args: argparse.Namespace) -> int:
     try:
         result = fit.fit_profile(pts, window=window, name=args.profile_name)
     except fit.FitError as err:
-        raise UsageError(f"{args.drawing}: layer {args.layer!r}: {err.message}") from None
+        raise UsageError(
+            f"{args.drawing}: layer {args.layer!r}: {err.message}", choice=err.choice
+        ) from None
     name = args.name or os.path.splitext(os.path.basename(args.drawing))[0]
     prof = result.profile
     al = Alignment(name, sta_start=prof.start, length=prof.end - prof.start, profiles=(prof,))

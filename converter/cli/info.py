@@ -19,7 +19,7 @@ def add_parser(sub: Any) -> None:
 
 def describe(path: str) -> dict[str, Any]:
     """What ``info`` reports about a file, as plain data."""
-    from gradeline.geometry.horizontal import CONVENTIONS
+    from gradeline.geometry.directions import CONVENTIONS
     from gradeline.geometry.spirals import SPIRAL_TYPES
     from gradeline.io import landxml
     from gradeline.solved import solve_alignment

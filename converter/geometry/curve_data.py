@@ -8,9 +8,9 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from gradeline.geometry.directions import wrap_angle
 from gradeline.geometry.horizontal import (
     HorizontalGeometry,
-    _wrap,
 )
 from gradeline.geometry.spirals import SPIRAL_TYPES
 from gradeline.geometry.station_offset import foot_points
@@ -102,7 +102,7 @@ def curve_data(geom: HorizontalGeometry) -> tuple[HorizontalCurve, ...]:
             last = els[i + 1]
             sp_out, sp_type = last.length, sp_type or last.kind
         radius = 1.0 / abs(g.k0)
-        delta = _wrap(last.heading1 - first.heading0)
+        delta = wrap_angle(last.heading1 - first.heading0)
         pi = tangent_intersection(
             (first.x0, first.y0), first.heading0, (last.x1, last.y1), last.heading1
         )

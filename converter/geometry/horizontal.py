@@ -8,7 +8,7 @@ as a finding and never silently bridged.
 Internally x = easting, y = northing and the heading is the math angle
 (radians, counter-clockwise from east); curvature is positive when the road
 turns left (``rot="ccw"``). Conversion to the file's direction convention and
-unit happens only in :func:`direction_value`.
+unit happens only in :func:`gradeline.geometry.directions.direction_value`.
 
 Spirals are evaluated from their curvature law k(s): the heading is the exact
 integral of k, and the coordinates are the integrals of (cos, sin) of the
@@ -27,6 +27,7 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 from gradeline.errors import ModelError
+from gradeline.geometry.directions import _detect_convention, wrap_angle
 from gradeline.geometry.spirals import (
     _GL_T,
     _GL_W,
@@ -47,27 +48,17 @@ from gradeline.model import (
     HSpiral,
     SourceRef,
 )
-from gradeline.model.units import angle_from_unit, angle_to_unit
 
 __all__ = [
-    "CONVENTIONS",
     "SPIRAL_TYPES",
     "ElementGeom",
     "GeometryNote",
     "HorizontalGeometry",
     "curvature",
-    "direction_value",
     "evaluate",
     "solve",
 ]
 
-
-#: Direction conventions a file may use for ``dir``/``dirStart``/``dirEnd``.
-CONVENTIONS = {
-    "ccw-north": "counter-clockwise from north",
-    "cw-north": "clockwise from north (azimuth)",
-    "ccw-east": "counter-clockwise from east",
-}
 
 #: Stations this close beyond the POB or POE (file units) evaluate at the end:
 #: exported coordinates are rounded, so a profile's end can sit a hair past the plan's.
@@ -149,11 +140,6 @@ class HorizontalGeometry:
         return float(self.s0[-1] + self.length[-1])
 
 
-def _wrap(a: float) -> float:
-    """Angle wrapped to [-pi, pi)."""
-    return (a + math.pi) % TWO_PI - math.pi
-
-
 def _xy(p: tuple[float, float]) -> tuple[float, float]:
     """(northing, easting) -> (x, y) = (easting, northing)."""
     return p[1], p[0]
@@ -214,7 +200,7 @@ def solve(
                             el.source,
                         )
                     )
-                kink = abs(_wrap(g.heading0 - prev.heading1))
+                kink = abs(wrap_angle(g.heading0 - prev.heading1))
                 if kink > tol_angle:
                     code = "angle-point" if prev.kind == g.kind == "line" else "kink"
                     what = "angle point" if code == "angle-point" else "direction changes"
@@ -281,9 +267,9 @@ def _arc(index: int, el: HCurve, station: float, prev: ElementGeom | None) -> El
     if rot is None:
         if prev is not None:
             ccw_dir = a1 + math.pi / 2
-            rot = "ccw" if abs(_wrap(ccw_dir - prev.heading1)) < math.pi / 2 else "cw"
+            rot = "ccw" if abs(wrap_angle(ccw_dir - prev.heading1)) < math.pi / 2 else "cw"
         else:
-            rot = "ccw" if _wrap(a2 - a1) > 0 else "cw"
+            rot = "ccw" if wrap_angle(a2 - a1) > 0 else "cw"
     sign = 1.0 if rot == "ccw" else -1.0
     sweep = ((a2 - a1) if sign > 0 else (a1 - a2)) % TWO_PI
     if sweep == 0.0:
@@ -398,70 +384,6 @@ def _element_findings(index: int, el: HElement, g: ElementGeom, tol: float) -> l
                 )
             )
     return out
-
-
-def _stated_directions(horizontal: HorizontalAlignment, geoms: list[ElementGeom]):
-    """(stated value in file unit, computed math heading) pairs."""
-    by_index: dict[int, list[ElementGeom]] = {}
-    for g in geoms:
-        by_index.setdefault(g.index, []).append(g)
-    pairs = []
-    for index, el in enumerate(horizontal.elements):
-        parts = by_index.get(index)
-        if not parts:
-            continue
-        for name, heading in (
-            ("dir", parts[0].heading0),
-            ("dirStart", parts[0].heading0),
-            ("dirEnd", parts[-1].heading1),
-        ):
-            value = el.get(name)
-            if value is not None and not (isinstance(el, HIrregular) and len(parts) > 1):
-                pairs.append((name, value, heading, index))
-    return pairs
-
-
-def direction_value(heading: ArrayLike, convention: str, unit: str) -> NDArray[np.float64]:
-    """Math headings (radians) as directions in a file's convention and unit.
-
-    Examples
-    --------
-    >>> float(direction_value(0.0, "ccw-north", "decimal degrees"))  # due east
-    270.0
-    >>> float(direction_value(0.0, "cw-north", "grads"))
-    100.0
-    """
-    h = np.asarray(heading, dtype=np.float64)
-    if convention == "ccw-north":
-        d = h - np.pi / 2
-    elif convention == "cw-north":
-        d = np.pi / 2 - h
-    elif convention == "ccw-east":
-        d = h
-    else:
-        raise ModelError(f"unknown direction convention {convention!r}")
-    d = np.mod(d, TWO_PI)
-    d = np.where(np.isclose(d, TWO_PI, rtol=0, atol=1e-12), 0.0, d)
-    if unit == "radians":
-        return d
-    return np.vectorize(lambda v: angle_to_unit(float(v), unit), otypes=[float])(d)
-
-
-def _detect_convention(horizontal, geoms, unit) -> tuple[str, tuple[int, int]]:
-    pairs = _stated_directions(horizontal, geoms)
-    if not pairs:
-        return "ccw-north", (0, 0)
-    best, best_count = "ccw-north", -1
-    for conv in CONVENTIONS:
-        count = 0
-        for _, value, heading, _ in pairs:
-            computed = float(direction_value(heading, conv, "radians"))
-            stated = angle_from_unit(value, unit)
-            if abs(_wrap(stated - computed)) < 1e-4:
-                count += 1
-        if count > best_count:
-            best, best_count = conv, count
-    return best, (best_count, len(pairs))
 
 
 def _assemble(horizontal, geoms, findings, convention, matches) -> HorizontalGeometry:

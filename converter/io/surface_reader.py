@@ -61,9 +61,10 @@ def read_surface(path: str | os.PathLike[str], name: str | None = None):
         )
     if name is None and len(names) > 1:
         raise InputError(
-            f"the file has {len(names)} surfaces; choose one with --surface: " + ", ".join(names),
+            f"the file has {len(names)} surfaces; choose one: " + ", ".join(names),
             src,
             "Surfaces",
+            choice="surface",
         )
     if name is not None and name not in names:
         raise InputError(

@@ -90,9 +90,10 @@ class Alignment:
             if len(self.profiles) > 1:
                 raise InputError(
                     f"alignment {self.name!r} has {len(self.profiles)} profiles; choose "
-                    "one with --profile: " + ", ".join(p.name for p in self.profiles),
+                    "one: " + ", ".join(p.name for p in self.profiles),
                     self.source,
                     "Alignment",
+                    choice="profile",
                 )
             return self.profiles[0]
         for prof in self.profiles:
@@ -130,10 +131,11 @@ class Document:
         if name is None:
             if len(self.alignments) > 1:
                 raise InputError(
-                    f"the file has {len(self.alignments)} alignments; choose one with "
-                    "--alignment: " + ", ".join(a.name for a in self.alignments),
+                    f"the file has {len(self.alignments)} alignments; choose one: "
+                    + ", ".join(a.name for a in self.alignments),
                     src,
                     "Alignments",
+                    choice="alignment",
                 )
             return self.alignments[0]
         for al in self.alignments:

@@ -1,0 +1,176 @@
+"""The plan drawing: alignment linework, station ticks, key points and curve-data notes.
+
+Mapping: ``x = easting``, ``y = northing`` (true coordinates).
+"""
+
+from __future__ import annotations
+
+import math
+from typing import Any
+
+import numpy as np
+
+from gradeline.present import labels
+from gradeline.present.items import (
+    ArcItem,
+    Circle,
+    Drawing,
+    Path,
+    Text,
+)
+from gradeline.present.layout import DraftingLayout, guard_count
+from gradeline.solved import SolvedAlignment
+
+__all__ = ["plan_drawing"]
+
+
+# --------------------------------------------------------------------------- plan
+def _readable_flag(angle_deg: float) -> tuple[float, bool]:
+    """Text rotation that never reads upside down, and whether it was turned 180 degrees."""
+    a = (angle_deg + 180.0) % 360.0 - 180.0
+    if a > 90.0:
+        return a - 180.0, True
+    if a <= -90.0:
+        return a + 180.0, True
+    return a, False
+
+
+def plan_drawing(ctx: SolvedAlignment, layout: DraftingLayout) -> Drawing:
+    """The plan drawing of ``ctx`` at true coordinates (needs horizontal geometry)."""
+    hz = ctx.horizontal
+    if hz is None:
+        raise ValueError("plan drawing needs horizontal geometry")
+    h = layout.text_height
+    tol = layout.chord_tolerance
+    st = ctx.stationing
+    units = ctx.document.units
+    items: list[Any] = []
+    for el in hz.elements:
+        s = np.array([el.start_station, el.end_station])
+        if el.kind == "line":
+            items.append(Path("plan", ((el.x0, el.y0), (el.x1, el.y1))))
+            continue
+        kmax = max(abs(el.k0), abs(el.k1))
+        step = math.sqrt(8.0 * tol / kmax) if kmax > 0 else el.length
+        guard_count(el.length / step, "plan polyline vertices")
+        n = max(2, math.ceil(el.length / step) + 1)
+        s = np.linspace(el.start_station, el.end_station, n)
+        north, east, _ = ctx.plan_at(s)
+        pts = tuple(zip(east.tolist(), north.tolist(), strict=True))
+        if el.kind == "arc":
+            assert el.center is not None
+            cx, cy = el.center
+            a0 = math.degrees(math.atan2(el.y0 - cy, el.x0 - cx))
+            a1 = math.degrees(math.atan2(el.y1 - cy, el.x1 - cx))
+            start, end = (a0, a1) if el.k0 > 0 else (a1, a0)
+            items.append(ArcItem("plan", (cx, cy), 1.0 / abs(el.k0), start, end, pts))
+        else:
+            items.append(Path("plan", pts))
+    taken: list[np.ndarray] = []
+
+    def put(item: Text) -> None:
+        items.append(item)
+        taken.append(item.corners())
+
+    guard_count((hz.end - hz.start) / layout.plan_tick, "plan station ticks")
+    ticks = st.round_stations(layout.plan_tick, hz.start, hz.end)
+    north, east, head = ctx.plan_at(ticks)
+    for s, n_, e_, hd in zip(
+        ticks.tolist(), north.tolist(), east.tolist(), head.tolist(), strict=True
+    ):
+        nx, ny = -math.sin(hd), math.cos(hd)  # left normal
+        items.append(
+            Path(
+                "plan_ticks",
+                ((e_ - 0.6 * h * nx, n_ - 0.6 * h * ny), (e_ + 0.6 * h * nx, n_ + 0.6 * h * ny)),
+            )
+        )
+        rot, flipped = _readable_flag(math.degrees(hd) + 90.0)
+        text = labels.grid_station_text(float(st.label_value(s)), units)
+        put(
+            Text(
+                "plan_labels",
+                text,
+                e_ + 1.0 * h * nx,
+                n_ + 1.0 * h * ny,
+                h,
+                rot,
+                "right" if flipped else "left",
+                "middle",
+            )
+        )
+    keys = ctx.plan_key_points
+    merged: dict[float, list[str]] = {}
+    for key_s, tag in keys:
+        near = next((k for k in merged if abs(k - key_s) < 1e-6), None)
+        merged.setdefault(near if near is not None else key_s, []).append(tag)
+    for key_s, tags in sorted(merged.items()):
+        n_, e_, hd = (float(v) for v in ctx.plan_at(key_s))
+        items.append(Circle("plan_points", (e_, n_), 0.4 * h))
+        rx, ry = math.sin(hd), -math.cos(hd)  # right normal
+        rot, flipped = _readable_flag(math.degrees(hd) - 90.0)
+        text = labels.plan_point_label("/".join(tags), st.label(key_s))
+        put(
+            Text(
+                "plan_labels",
+                text,
+                e_ + 1.0 * h * rx,
+                n_ + 1.0 * h * ry,
+                h,
+                rot,
+                "right" if flipped else "left",
+                "middle",
+            )
+        )
+    for c in ctx.curves:
+        if c.pi_northing is None or c.pi_easting is None:
+            continue
+        lines = [labels.plan_point_label("PI", st.label(c.pi_station))] + labels.plan_curve_note(
+            c.number,
+            c.delta,
+            c.radius,
+            c.tangent_in,
+            c.arc_length,
+            c.external,
+            c.spiral_in,
+            c.spiral_out,
+            units,
+        )
+        mid = (c.start_station + c.end_station) / 2
+        mn, me, _ = (float(v) for v in ctx.plan_at(mid))
+        ox, oy = c.pi_easting - me, c.pi_northing - mn
+        dist = math.hypot(ox, oy) or 1.0
+        ux, uy = ox / dist, oy / dist
+        items.append(Circle("plan_points", (c.pi_easting, c.pi_northing), 0.3 * h))
+        block_w = max(labels.text_width(t, h) for t in lines)
+        block_h = len(lines) * 1.5 * h
+        # corner of the block nearest the curve sits 2h beyond the PI, outward
+        bx = c.pi_easting + ux * 2 * h + (0 if ux >= 0 else -block_w)
+        by = c.pi_northing + uy * 2 * h + (block_h if uy >= 0 else 0)
+        for j, t in enumerate(lines):
+            put(
+                Text(
+                    "plan_notes", t, bx, by - (j + 1) * 1.5 * h + 0.5 * h, h, 0.0, "left", "bottom"
+                )
+            )
+    xs = [
+        p[0]
+        for i in items
+        if isinstance(i, (Path, ArcItem))
+        for p in (i.points if isinstance(i, Path) else i.polyline)
+    ]
+    ys = [
+        p[1]
+        for i in items
+        if isinstance(i, (Path, ArcItem))
+        for p in (i.points if isinstance(i, Path) else i.polyline)
+    ]
+    boxes = np.concatenate(taken) if taken else np.zeros((0, 2))
+    ext = (
+        min(xs + boxes[:, 0].tolist()),
+        min(ys + boxes[:, 1].tolist()),
+        max(xs + boxes[:, 0].tolist()),
+        max(ys + boxes[:, 1].tolist()),
+    )
+    meta = {"kind": "plan", "alignment": ctx.alignment.name, "linear_unit": units.linear}
+    return Drawing(tuple(items), ext, meta)
