@@ -291,3 +291,57 @@ def text_width(text: str, height: float) -> float:
     """
     units = sum(_WIDTHS.get(ch, _OTHER_WIDTH) for ch in text)
     return units / 1000.0 * height * _MARGIN
+
+
+# -- report headlines: one place for the verdict wording ---------------------
+#: How speed units are written in reports and on sheets.
+SPEED_UNIT_TEXT = {"mph": "mph", "kmh": "km/h"}
+
+
+def speed_unit_text(unit: str) -> str:
+    """``km/h`` for ``kmh``; other units as given."""
+    return SPEED_UNIT_TEXT.get(unit, unit)
+
+
+def _plural(n: int, word: str, many: str | None = None) -> str:
+    return f"{n} {word if n == 1 else (many or word + 's')}"
+
+
+def review_headline(
+    *,
+    failed: bool,
+    checks: int,
+    vertical_curves: int,
+    failed_curves: int,
+    horizontal_curves: int,
+    short_radii: int,
+    short_ranges: int,
+) -> str:
+    """First line of a review report.
+
+    Examples
+    --------
+    >>> review_headline(failed=False, checks=12, vertical_curves=3, failed_curves=0,
+    ...                 horizontal_curves=0, short_radii=0, short_ranges=0)
+    'PASS: all 12 checks on 3 vertical curves pass and sight distance is available everywhere'
+    """
+    if not failed:
+        return (
+            f"PASS: all {checks} checks on {vertical_curves} vertical curves"
+            + (f" and {horizontal_curves} horizontal curves" if horizontal_curves else "")
+            + " pass and sight distance is available everywhere"
+        )
+    return (
+        f"FAIL: {failed_curves} of {vertical_curves} vertical curves fail a check; "
+        f"{_plural(short_ranges, 'station range')} lack sight distance"
+        + (
+            f"; {_plural(short_radii, 'horizontal curve')} below the minimum radius"
+            if short_radii
+            else ""
+        )
+    )
+
+
+def check_headline(over: int, total: int) -> str:
+    """First line of a cross-check report, e.g. ``0 findings over tolerance in 42 checks``."""
+    return f"{_plural(over, 'finding')} over tolerance in {total} checks"

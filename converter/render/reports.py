@@ -16,9 +16,6 @@ from gradeline.solved import SolvedAlignment
 __all__ = ["review_payload", "review_text"]
 
 
-_SPEED = {"mph": "mph", "kmh": "km/h"}
-
-
 def _num(value: float, decimals: int = 2) -> str:
     if value is None or (isinstance(value, float) and math.isinf(value)):
         return "-"
@@ -27,24 +24,14 @@ def _num(value: float, decimals: int = 2) -> str:
 
 def review_summary(rev: Review) -> str:
     """The first line: what failed, out of how much."""
-    failed_curves = sum(c.failed for c in rev.curves)
-    ranges = len(rev.deficiencies)
-    checks = sum(len(c.checks) for c in rev.curves) + len(rev.radius_checks)
-    tight = sum(ch.verdict == "fail" for _, ch in rev.radius_checks)
-    if not rev.failed:
-        return (
-            f"PASS: all {checks} checks on {len(rev.curves)} vertical curves"
-            + (f" and {len(rev.radius_checks)} horizontal curves" if rev.radius_checks else "")
-            + " pass and sight distance is available everywhere"
-        )
-    return (
-        f"FAIL: {failed_curves} of {len(rev.curves)} vertical curves fail a check; "
-        f"{ranges} station range{'s' if ranges != 1 else ''} lack sight distance"
-        + (
-            f"; {tight} horizontal curve{'s' if tight != 1 else ''} below the minimum radius"
-            if tight
-            else ""
-        )
+    return labels.review_headline(
+        failed=rev.failed,
+        checks=sum(len(c.checks) for c in rev.curves) + len(rev.radius_checks),
+        vertical_curves=len(rev.curves),
+        failed_curves=sum(c.failed for c in rev.curves),
+        horizontal_curves=len(rev.radius_checks),
+        short_radii=sum(ch.verdict == "fail" for _, ch in rev.radius_checks),
+        short_ranges=len(rev.deficiencies),
     )
 
 
@@ -57,7 +44,7 @@ def review_text(ctx: SolvedAlignment, rev: Review) -> str:
         review_summary(rev),
         f"file {ctx.document.path}, alignment {ctx.alignment.name!r}, profile "
         f"{ctx.profile.name if ctx.profile else '-'!r}",
-        f"design speed {rev.speed:g} {_SPEED.get(rev.speed_unit, rev.speed_unit)}; "
+        f"design speed {rev.speed:g} {labels.speed_unit_text(rev.speed_unit)}; "
         f"controls: {rev.criteria.name}; "
         f"stopping sight distance {rev.ssd:g} {lu} on level grade "
         f"(eye {rev.criteria.eye_height:g} {lu}, object {rev.criteria.object_height:g} {lu})",
@@ -196,7 +183,7 @@ def check_summary(findings, drawing) -> str:
     if drawing is not None:
         total += 2
         over += (1 if drawing.over else 0) + (1 if drawing.uncovered else 0)
-    return f"{over} finding{'s' if over != 1 else ''} over tolerance in {total} checks"
+    return labels.check_headline(over, total)
 
 
 def check_text(
