@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import shutil
+import sys
 from pathlib import Path
 
 import pytest
@@ -12,6 +14,11 @@ ROOT = Path(__file__).resolve().parent.parent
 SAMPLES = ROOT / "samples"
 US_SAMPLE = SAMPLES / "orrin-vale-bypass.xml"
 METRIC_SAMPLE = SAMPLES / "tarnholm-link.xml"
+
+#: The installed console command: beside this interpreter (a virtual environment
+#: need not be on PATH), else wherever PATH finds it.
+_BESIDE = Path(sys.executable).with_name("gradeline")
+GRADELINE = str(_BESIDE) if _BESIDE.exists() else (shutil.which("gradeline") or "gradeline")
 
 
 def profile_of(*entries: tuple) -> Profile:

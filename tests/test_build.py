@@ -10,7 +10,7 @@ import sys
 import pytest
 
 from gradeline.cli import main
-from tests.conftest import METRIC_SAMPLE, SAMPLES, US_SAMPLE
+from tests.conftest import GRADELINE, METRIC_SAMPLE, SAMPLES, US_SAMPLE
 
 
 def _tree(root):
@@ -100,7 +100,7 @@ def test_review_findings_give_exit_1(tmp_path, capsys):
 @pytest.mark.cli
 def test_demo_from_console(tmp_path):
     done = subprocess.run(
-        ["gradeline", "demo", "-o", str(tmp_path / "d")],
+        [GRADELINE, "demo", "-o", str(tmp_path / "d")],
         capture_output=True,
         text=True,
         timeout=300,

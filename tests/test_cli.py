@@ -12,7 +12,7 @@ import sys
 import pytest
 
 from gradeline.cli import main
-from tests.conftest import METRIC_SAMPLE, ROOT, US_SAMPLE
+from tests.conftest import GRADELINE, METRIC_SAMPLE, ROOT, US_SAMPLE
 
 BYPASS = ["--alignment", "Orrin Vale Bypass"]
 
@@ -187,7 +187,7 @@ def test_bad_interval(capsys):
 
 @pytest.mark.cli
 @pytest.mark.parametrize(
-    "launcher", [["gradeline"], [sys.executable, "-m", "gradeline"]], ids=["console", "module"]
+    "launcher", [[GRADELINE], [sys.executable, "-m", "gradeline"]], ids=["console", "module"]
 )
 def test_installed_command(launcher):
     env = dict(os.environ, PYTHONHASHSEED="7")
@@ -212,7 +212,7 @@ def test_outputs_are_deterministic_across_processes(tmp_path):
         dest = tmp_path / f"t{seed}.csv"
         env = dict(os.environ, PYTHONHASHSEED=seed)
         subprocess.run(
-            ["gradeline", "table", str(US_SAMPLE), *BYPASS, "--interval", "25", "-o", str(dest)],
+            [GRADELINE, "table", str(US_SAMPLE), *BYPASS, "--interval", "25", "-o", str(dest)],
             check=True,
             env=env,
             timeout=60,

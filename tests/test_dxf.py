@@ -22,7 +22,7 @@ from gradeline.present import drafting, items
 from gradeline.present.layout import default_layout
 from gradeline.present.plan_drawing import plan_drawing
 from gradeline.render.dxf import write_dxf
-from tests.conftest import METRIC_SAMPLE, US_SAMPLE
+from tests.conftest import GRADELINE, METRIC_SAMPLE, US_SAMPLE
 
 SAMPLES = [(US_SAMPLE, "Orrin Vale Bypass"), (METRIC_SAMPLE, None), (US_SAMPLE, "Kettle Lane")]
 IDS = ["bypass-ft", "tarnholm-m", "lane-ft"]
@@ -187,7 +187,7 @@ def test_same_input_same_bytes_across_processes(tmp_path):
         env = dict(os.environ, PYTHONHASHSEED=seed)
         subprocess.run(
             [
-                "gradeline",
+                GRADELINE,
                 "dxf",
                 str(US_SAMPLE),
                 "--alignment",

@@ -20,7 +20,7 @@ from gradeline.present import drafting, items, labels
 from gradeline.present.layout import default_layout
 from gradeline.sheets.layout import PAPER_SIZES, pack_tables, sheet_frames, sheet_geometry
 from gradeline.sheets.pdf import SheetOptions, page_plan, render_sheets
-from tests.conftest import METRIC_SAMPLE, SAMPLES, US_SAMPLE
+from tests.conftest import GRADELINE, METRIC_SAMPLE, SAMPLES, US_SAMPLE
 
 pypdf = pytest.importorskip("pypdf", reason="pypdf extracts the PDF text")
 
@@ -302,7 +302,7 @@ def test_sheets_deterministic_across_processes(tmp_path):
     for seed in ("5", "77"):
         out = tmp_path / f"s{seed}.pdf"
         subprocess.run(
-            ["gradeline", "sheets", str(METRIC_SAMPLE), "-o", str(out)],
+            [GRADELINE, "sheets", str(METRIC_SAMPLE), "-o", str(out)],
             check=True,
             env=dict(os.environ, PYTHONHASHSEED=seed),
             timeout=120,
