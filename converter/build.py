@@ -13,7 +13,7 @@ import os
 import re
 from collections.abc import Callable, Sequence
 from concurrent.futures import ProcessPoolExecutor
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from pathlib import Path
 from typing import Any
 
@@ -34,6 +34,8 @@ class BuildOptions:
     surface: str | None = None
     sheet: dict[str, Any] = field(default_factory=dict)
     layers: dict[str, str] = field(default_factory=dict)
+    alignment: str | None = None  # build only this alignment of each file
+    profile: str | None = None  # build only this profile (default: every one)
 
 
 @dataclass(frozen=True)
@@ -55,6 +57,8 @@ class ItemResult:
     check_over: int = 0
     review_failed: bool | None = None
     notes: tuple[str, ...] = ()
+    profile: str | None = None  # set when an alignment has several profiles
+    terrain: bool = False  # a file of surfaces or points only: listed, not built
 
     @property
     def failed(self) -> bool:
@@ -91,15 +95,21 @@ def _write(path: Path, data: str | bytes, inputs: Sequence[str], written: list[s
     written.append(str(path))
 
 
-def _build_alignment(doc, al, outdir: Path, opts: BuildOptions, inputs: list[str]) -> ItemResult:
+def _build_alignment(
+    doc: Any, al: Any, prof: Any, outdir: Path, opts: BuildOptions, inputs: list[str]
+) -> ItemResult:
     from gradeline import deliverables as dl
     from gradeline.solved import solve_alignment
 
     written: list[str] = []
     notes: list[str] = []
-    solved = solve_alignment(doc, al, al.profile(None) if al.profiles else None, need_profile=False)
+    solved = solve_alignment(doc, al, prof, need_profile=False)
     if (opts.ground or opts.surface) and solved.horizontal is not None:
         solved, _ = dl.attach_ground(solved, opts.ground, opts.surface)
+        source = Path(opts.ground).name if opts.ground else "this file"
+        notes.append(
+            f"ground sampled from surface {solved.alignment.grounds[0].name!r} of {source}"
+        )
     outdir.mkdir(parents=True, exist_ok=True)
     sheet = opts.sheet
     drawing = dl.DrawingOptions(
@@ -136,30 +146,67 @@ def _build_alignment(doc, al, outdir: Path, opts: BuildOptions, inputs: list[str
     return ItemResult(doc.path, al.name, tuple(written), None, over, review_failed, tuple(notes))
 
 
+def _profiles(al: Any, opts: BuildOptions) -> list[Any]:
+    """The profiles to build of one alignment: the asked one, else every one (or None)."""
+    if opts.profile is not None:
+        return [al.profile(opts.profile)]
+    return list(al.profiles) or [None]
+
+
 def build_file(job: BuildJob, outroot: str) -> list[ItemResult]:
-    """Build every alignment of one file; failures are recorded, never raised."""
+    """Build every alignment (and profile) of one file; failures are recorded, never raised."""
     path = job.path
-    inputs = [path] + [p for p in (job.options.ground,) if p]
+    opts = job.options
+    inputs = [path] + [p for p in (opts.ground,) if p]
     try:
         doc = landxml.read(path)
-        if not doc.alignments:
+        if not doc.names and not doc.has_surfaces:
             doc.alignment(None)  # raises "no alignments"
     except GradelineError as err:
         return [ItemResult(path, None, error=str(err))]
+    if not doc.names:
+        return [
+            ItemResult(
+                path,
+                None,
+                terrain=True,
+                notes=(
+                    "terrain only (surfaces or points, no alignment); offered "
+                    "to the alignments of its folder by --ground auto",
+                ),
+            )
+        ]
     base = Path(outroot) / slug(Path(path).stem)
     out: list[ItemResult] = []
     used: set[str] = set()
-    for al in doc.alignments:
-        name = slug(al.name)
+    wanted = [opts.alignment] if opts.alignment is not None else doc.names
+    for al_name in wanted:
+        name = slug(al_name)
         while name in used:
             name += "-x"
         used.add(name)
         try:
-            out.append(_build_alignment(doc, al, base / name, job.options, inputs))
+            al = doc.alignment(al_name)
+            profiles = _profiles(al, opts)
         except GradelineError as err:
-            out.append(ItemResult(path, al.name, error=str(err)))
-        except OSError as err:
-            out.append(ItemResult(path, al.name, error=f"cannot write: {err.strerror or err}"))
+            out.append(ItemResult(path, al_name, error=str(err)))
+            continue
+        for prof in profiles:
+            folder = base / name
+            if len(profiles) > 1:
+                folder = folder / slug(prof.name)
+            label = prof.name if len(profiles) > 1 else None
+            try:
+                item = _build_alignment(doc, al, prof, folder, opts, inputs)
+                out.append(replace(item, profile=label))
+            except GradelineError as err:
+                out.append(ItemResult(path, al.name, error=str(err), profile=label))
+            except OSError as err:
+                out.append(
+                    ItemResult(
+                        path, al.name, error=f"cannot write: {err.strerror or err}", profile=label
+                    )
+                )
     return out
 
 
@@ -200,6 +247,8 @@ def write_index(results: Sequence[ItemResult], outroot: str) -> tuple[str, str]:
         {
             "file": r.file,
             "alignment": r.alignment,
+            "profile": r.profile,
+            "terrain": r.terrain,
             "failed": r.failed,
             "error": r.error,
             "outputs": [rel(o) for o in r.outputs],
@@ -210,14 +259,24 @@ def write_index(results: Sequence[ItemResult], outroot: str) -> tuple[str, str]:
         for r in results
     ]
     failed = sum(r.failed for r in results)
-    built = len(results) - failed
+    terrain = sum(r.terrain for r in results)
+    built = len(results) - failed - terrain
     head = (
         f"{built} alignment{'s' if built != 1 else ''} built, {failed} failed; "
         f"{sum(len(r.outputs) for r in results)} files written"
+        + (f"; {terrain} terrain file{'s' if terrain != 1 else ''}" if terrain else "")
     )
     lines = [head, ""]
     for r in results:
-        who = f"{r.file}" + (f" / {r.alignment}" if r.alignment else "")
+        who = (
+            f"{r.file}"
+            + (f" / {r.alignment}" if r.alignment else "")
+            + (f" / {r.profile}" if r.profile else "")
+        )
+        if r.terrain:
+            lines.append(f"terrain {who}")
+            lines += [f"          note: {n}" for n in r.notes]
+            continue
         if r.failed:
             lines.append(f"FAILED  {who}: {r.error}")
             continue

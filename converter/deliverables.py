@@ -35,6 +35,7 @@ __all__ = [
     "check_findings",
     "check_report",
     "curve_table",
+    "document_warnings",
     "open_alignment",
     "plan_dxf",
     "plan_warnings",
@@ -85,11 +86,19 @@ def attach_ground(
     return with_surface(solved, surf), warnings
 
 
+def document_warnings(doc: Document) -> list[GradelineError]:
+    """What the reader tolerated, defaulted or merged, as one-line warnings."""
+    return [GradelineError(n.message, n.source, n.element) for n in doc.notices]
+
+
 def plan_warnings(solved: SolvedAlignment) -> list[GradelineError]:
-    """Plan-geometry findings (gaps, kinks) as warnings: they do not stop a deliverable."""
+    """Warnings of one alignment: the reader's notices, profiles that could not be read,
+    and plan-geometry findings (gaps, kinks). None of them stops a deliverable."""
+    out = document_warnings(solved.document)
+    for bad in solved.alignment.broken_profiles:
+        out.append(GradelineError(f"profile {bad.name!r} left out: {bad.error}"))
     if solved.horizontal is None:
-        return []
-    out = []
+        return out
     for f in solved.horizontal.findings:
         element = next((g.element for g in solved.horizontal.elements if g.index == f.index), "")
         out.append(GradelineError(f.message, f.source, element))
@@ -359,13 +368,11 @@ def check_report(
 ) -> tuple[str, bool]:
     """The cross-check report (text or JSON) and whether anything is over tolerance."""
     from gradeline.render.outputs import json_text
-    from gradeline.render.reports import check_payload, check_text
+    from gradeline.render.reports import check_counts, check_payload, check_text
 
     if opts.json:
         text = json_text(check_payload(doc, findings, drawing, tol, drawing_name, layer))
     else:
         text = check_text(doc, findings, drawing, tol, drawing_name, layer, stationing)
-    over = any(f.verdict == "over" for f in findings) or (
-        drawing is not None and bool(drawing.over or drawing.uncovered)
-    )
-    return text, over
+    over, total = check_counts(findings, drawing)
+    return text, bool(over) or total == 0  # nothing compared is never a pass

@@ -46,6 +46,10 @@ def _check_profile(
     hz: HorizontalGeometry | None,
     known: dict[int, VerticalGeometry | None],
 ) -> None:
+    for bad in al.broken_profiles:  # a profile that could not be read is a finding
+        c.items.append(
+            _unreadable(al.name, "ProfAlign", f"profile {bad.name!r} readable", bad.error)
+        )
     units = doc.units
     st = Stationing(units, al.equations)
     lo = hz.start if hz is not None else al.sta_start
@@ -140,6 +144,14 @@ def _check_profile(
                 )
 
 
+def _unreadable(alignment: str, element: str, quantity: str, error: Exception) -> Finding:
+    source = getattr(error, "source", None)
+    message = str(error)  # names file, line and element
+    return Finding(
+        alignment, element, None, None, quantity, None, None, None, "over", message, "", source
+    )
+
+
 def check_alignment(solved: SolvedAlignment, tol: Tolerances = DEFAULT_TOLERANCES) -> list[Finding]:
     """Every self-consistency finding of one solved alignment.
 
@@ -160,17 +172,25 @@ def check_document(
     doc: Document, alignment: str | None = None, tol: Tolerances = DEFAULT_TOLERANCES
 ) -> list[Finding]:
     """Every self-consistency finding of the chosen alignment (or all of them)."""
-    chosen = (
-        [doc.alignment(alignment)]
-        if alignment is not None or len(doc.alignments) == 1
-        else list(doc.alignments)
-    )
-    if not chosen:
-        doc.alignment(None)
+    broken = {b.name: b for b in doc.broken}
+    if alignment is not None:
+        chosen = [] if alignment in broken else [doc.alignment(alignment)]
+    else:
+        if not doc.names:
+            doc.alignment(None)  # raises "no alignments"
+        chosen = list(doc.alignments)
     out: list[Finding] = []
+    for bad in doc.broken:  # an alignment that could not be read is a finding, not a stop
+        if alignment is None or alignment == bad.name:
+            out.append(_unreadable(bad.name, "Alignment", "alignment readable", bad.error))
     for al in chosen:
         if al.horizontal is not None:
-            out.extend(check_alignment(solve_alignment(doc, al, None, need_profile=False), tol))
+            try:
+                solved = solve_alignment(doc, al, None, need_profile=False)
+            except GradelineError as err:  # a plan that does not solve is reported
+                out.append(_unreadable(al.name, "CoordGeom", "plan geometry solves", err))
+                continue
+            out.extend(check_alignment(solved, tol))
         else:
             c = Collector(al.name, tol)
             _check_profile(c, al, doc, None, {})

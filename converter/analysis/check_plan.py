@@ -94,7 +94,7 @@ def check_plan(c: Collector, al: Alignment, hz: HorizontalGeometry, doc: Documen
         None,
         None,
         "joins checked for gaps and tangency",
-        "ok",
+        "ok" if joins else "info",
         f"{joins} joins between {len(hz.alignment.elements)} elements",
         hz.alignment.source,
     )

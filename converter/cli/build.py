@@ -6,7 +6,6 @@ import argparse
 import sys
 from typing import Any
 
-from gradeline.cli._common import add_ground
 from gradeline.errors import UsageError
 
 NAME = "build"
@@ -29,7 +28,24 @@ def add_parser(sub: Any) -> None:
     p.add_argument("-o", "--output", required=True, metavar="OUTDIR", help="output folder")
     p.add_argument("--speed", type=float, metavar="V", help="design speed for the review")
     p.add_argument("--units", choices=("mph", "kmh"), help="unit of --speed (default: the file's)")
-    add_ground(p)
+    p.add_argument(
+        "--ground",
+        metavar="FILE|auto",
+        help="LandXML file with the existing-ground TIN; 'auto': a terrain file "
+        "(surfaces, no alignments) in the same folder with the same units",
+    )
+    p.add_argument(
+        "--surface",
+        metavar="NAME",
+        help="TIN surface to sample along each alignment (default: the only one)",
+    )
+    p.add_argument("--alignment", metavar="NAME", help="build only this alignment of each file")
+    p.add_argument(
+        "--profile",
+        metavar="NAME",
+        help="build only this profile (default: every finished-grade profile, "
+        "each in its own sub-folder when there are several)",
+    )
     p.add_argument("--jobs", type=int, metavar="N", help="parallel processes (default: one a core)")
     p.add_argument("--config", metavar="FILE", help="TOML with [sheet] and [layers] tables")
     p.set_defaults(func=run)
@@ -72,13 +88,57 @@ def run(args: argparse.Namespace) -> int:
     files = collect_inputs(args.inputs)
     if not files:
         raise UsageError("no LandXML files found in " + ", ".join(args.inputs))
+    auto = args.ground == "auto"
     opts = BuildOptions(
         speed=args.speed,
         speed_unit=args.units,
-        ground=args.ground,
+        ground=None if auto else args.ground,
         surface=args.surface,
         sheet=dict(cfg.get("sheet", {})),
         layers=dict(cfg.get("layers", {})),
+        alignment=args.alignment,
+        profile=args.profile,
     )
+    jobs = [BuildJob(f, opts) for f in files]
+    if auto:
+        jobs = auto_ground(jobs)
     workers = args.jobs or min(len(files), os.cpu_count() or 1)
-    return run_jobs([BuildJob(f, opts) for f in files], args.output, workers)
+    return run_jobs(jobs, args.output, workers)
+
+
+def auto_ground(jobs: list[Any]) -> list[Any]:
+    """Give each alignment file the terrain file of its folder that shares its units.
+
+    A terrain file holds surfaces (or points) and no alignment. With several
+    candidates the first by name is taken; a file with none builds without ground.
+    """
+    from dataclasses import replace
+    from pathlib import Path
+
+    from gradeline.errors import GradelineError
+    from gradeline.io import landxml
+
+    docs = {}
+    for j in jobs:
+        try:
+            docs[j.path] = landxml.read(j.path)
+        except GradelineError:
+            continue  # build reports it
+    terrain = sorted(p for p, d in docs.items() if d.has_surfaces and not d.names)
+    out = []
+    for j in jobs:
+        doc = docs.get(j.path)
+        if doc is None or not doc.names:
+            out.append(j)
+            continue
+        match = next(
+            (
+                t
+                for t in terrain
+                if Path(t).parent == Path(j.path).parent
+                and docs[t].units.linear == doc.units.linear
+            ),
+            None,
+        )
+        out.append(replace(j, options=replace(j.options, ground=match)) if match else j)
+    return out

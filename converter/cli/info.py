@@ -19,6 +19,8 @@ def add_parser(sub: Any) -> None:
 
 def describe(path: str) -> dict[str, Any]:
     """What ``info`` reports about a file, as plain data."""
+    from gradeline.deliverables import document_warnings
+    from gradeline.errors import GradelineError
     from gradeline.geometry.directions import CONVENTIONS
     from gradeline.geometry.spirals import SPIRAL_TYPES
     from gradeline.io import landxml
@@ -36,6 +38,8 @@ def describe(path: str) -> dict[str, Any]:
             "angular": u.angular,
             "direction": u.direction,
         },
+        "terrain_only": doc.has_surfaces and not doc.names,
+        "notes": [str(w) for w in document_warnings(doc)],
         "alignments": [],
     }
     for al in doc.alignments:
@@ -48,7 +52,11 @@ def describe(path: str) -> dict[str, Any]:
             "profiles": [],
             "grounds": [],
         }
-        plan = solve_alignment(doc, al, None, need_profile=False) if al.horizontal else None
+        try:
+            plan = solve_alignment(doc, al, None, need_profile=False) if al.horizontal else None
+        except GradelineError as err:  # one broken plan never hides the rest
+            plan = None
+            entry["error"] = str(err)
         if plan is not None and plan.horizontal is not None:
             h = plan.horizontal
             kinds = [g.kind for g in h.elements]
@@ -66,8 +74,14 @@ def describe(path: str) -> dict[str, Any]:
                 "stated_directions_matched": list(h.convention_matches),
                 "findings": len(h.findings),
             }
+        for bad in al.broken_profiles:
+            entry["profiles"].append({"name": bad.name, "error": str(bad.error)})
         for prof in al.profiles:
-            solved = solve_alignment(doc, al, prof)
+            try:
+                solved = solve_alignment(doc, al, prof)
+            except GradelineError as err:
+                entry["profiles"].append({"name": prof.name, "error": str(err)})
+                continue
             assert solved.geometry is not None
             kinds = [c.curve_type for c in solved.geometry.curves]
             entry["profiles"].append(
@@ -95,6 +109,8 @@ def describe(path: str) -> dict[str, Any]:
                 }
             )
         out["alignments"].append(entry)
+    for bad in doc.broken:
+        out["alignments"].append({"name": bad.name, "error": str(bad.error)})
     return out
 
 
@@ -112,15 +128,25 @@ def describe_text(info: dict[str, Any]) -> str:
         f"units: {u['linear']} ({u['symbol']}), stations of {u['station_length']:g} "
         f"{u['symbol']}; angles in {u['angular']}, directions in {u['direction']}"
     )
+    for note in info["notes"]:
+        lines.append(f"note: {note}")
     if not info["alignments"]:
-        lines.append("no alignments")
+        lines.append(
+            "no alignments"
+            + (" (terrain: surfaces or points only)" if info["terrain_only"] else "")
+        )
     for al in info["alignments"]:
+        if "sta_start" not in al:
+            lines.append(f"alignment {al['name']!r}: cannot be read: {al['error']}")
+            continue
         length = "" if al["length"] is None else f", length {al['length']:.3f} {u['symbol']}"
         eqs = al["station_equations"]
         lines.append(
             f"alignment {al['name']!r}: staStart {al['sta_start']:.3f}{length}"
             + (f", {eqs} station equation{'s' if eqs != 1 else ''}" if eqs else "")
         )
+        if al.get("error"):
+            lines.append(f"  plan: cannot be solved: {al['error']}")
         hz = al.get("horizontal")
         if hz:
             matched, stated = hz["stated_directions_matched"]
@@ -138,6 +164,9 @@ def describe_text(info: dict[str, Any]) -> str:
                 + (f"; {hz['findings']} geometry findings" if hz["findings"] else "")
             )
         for p in al["profiles"]:
+            if "error" in p:
+                lines.append(f"  profile {p['name']!r}: cannot be read: {p['error']}")
+                continue
             lines.append(
                 f"  profile {p['name']!r}: {p['start_label']} to {p['end_label']}, "
                 f"{p['pvis']} PVIs, {_count(p['curves'], 'vertical curve')} "

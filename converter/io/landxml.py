@@ -15,9 +15,10 @@ from collections.abc import Iterator
 
 from lxml import etree
 
-from gradeline.errors import InputError, ModelError
+from gradeline.errors import GradelineError, InputError, ModelError
 from gradeline.model import (
     Alignment,
+    Broken,
     Document,
     GroundPiece,
     GroundProfile,
@@ -27,6 +28,7 @@ from gradeline.model import (
     HLine,
     HorizontalAlignment,
     HSpiral,
+    Notice,
     Profile,
     PVISpec,
     SourceRef,
@@ -72,9 +74,34 @@ def _child(el: etree._Element, name: str) -> etree._Element | None:
     return next(_children(el, name), None)
 
 
+def _unit_key(name: str) -> str:
+    """A unit name compared without case or inner spacing ("Decimal  Degrees")."""
+    return " ".join(name.split()).lower()
+
+
+#: Spelling-tolerant lookup of the unit names LandXML lists.
+_LINEAR_BY_KEY = {_unit_key(u): u for u in LINEAR_UNITS}
+_ANGLE_BY_KEY = {_unit_key(u): u for u in ANGLE_UNITS}
+
+#: The LandXML schema default of ``angularUnit`` and ``directionUnit``
+#: (LandXML-1.2.xsd: ``default="radians"``; its Units documentation: "All angular
+#: and direction values default to radians unless otherwise noted").
+SCHEMA_ANGLE_DEFAULT = "radians"
+
+
 class _Reader:
     def __init__(self, path: str) -> None:
         self.path = path
+        self.notices: list[Notice] = []
+
+    def notice(self, kind: str, el: etree._Element, message: str) -> None:
+        self.notices.append(Notice(kind, message, self.src(el), _local(el)))
+
+    def located(self, err: GradelineError, el: etree._Element) -> InputError:
+        """An error of one part of the file as an input error that names where it is."""
+        if isinstance(err, InputError):
+            return err
+        return InputError(err.message, err.source or self.src(el), err.element or _local(el))
 
     def src(self, el: etree._Element) -> SourceRef:
         return SourceRef(self.path, el.sourceline)
@@ -117,21 +144,37 @@ class _Reader:
         project_el = _child(root, "Project")
         project = project_el.get("name", "") if project_el is not None else ""
         alignments: list[Alignment] = []
+        broken: list[Broken] = []
         seen: dict[str, int] = {}
         for group in _children(root, "Alignments"):
             for al_el in _children(group, "Alignment"):
-                al = self.alignment(al_el)
-                if al.name in seen:
+                name = al_el.get("name") or f"(unnamed, line {al_el.sourceline})"
+                if name in seen:
                     raise self.fail(
                         al_el,
-                        f"alignment name {al.name!r} is used twice (first at line "
-                        f"{seen[al.name]}); names must be unique",
+                        f"alignment name {name!r} is used twice (first at line "
+                        f"{seen[name]}); names must be unique",
                     )
-                seen[al.name] = al_el.sourceline or 0
-                alignments.append(al)
+                seen[name] = al_el.sourceline or 0
+                try:  # one broken alignment never blocks the others
+                    alignments.append(self.alignment(al_el))
+                except (InputError, ModelError) as err:
+                    broken.append(Broken(name, self.located(err, al_el)))
         groups = list(_children(root, "Alignments"))
         where = SourceRef(self.path, (groups[0] if groups else root).sourceline)
-        return Document(self.path, units, tuple(alignments), project, where)
+        terrain = any(True for _ in _children(root, "Surfaces")) or any(
+            True for _ in _children(root, "CgPoints")
+        )
+        return Document(
+            self.path,
+            units,
+            tuple(alignments),
+            project,
+            where,
+            tuple(broken),
+            tuple(self.notices),
+            terrain,
+        )
 
     def units(self, root: etree._Element) -> Units:
         units_el = _child(root, "Units")
@@ -144,23 +187,39 @@ class _Reader:
             system = _child(units_el, "Metric")
         if system is None:
             raise self.fail(units_el, "Units needs an Imperial or a Metric child")
-        linear = system.get("linearUnit")
-        if linear is None:
+        raw_linear = system.get("linearUnit")
+        if raw_linear is None:
             raise self.fail(system, "missing required attribute 'linearUnit'")
-        if linear not in LINEAR_UNITS:
+        linear = _LINEAR_BY_KEY.get(_unit_key(raw_linear))
+        if linear is None:
             raise self.fail(
                 system,
-                f"linearUnit {linear!r} is not supported; use one of " + ", ".join(LINEAR_UNITS),
+                f"linearUnit {raw_linear!r} is not supported; use one of "
+                + ", ".join(LINEAR_UNITS),
             )
-        angular = system.get("angularUnit", "decimal degrees")
-        direction = system.get("directionUnit", "decimal degrees")
-        for name, value in (("angularUnit", angular), ("directionUnit", direction)):
-            if value not in ANGLE_UNITS:
+        if linear != raw_linear:
+            self.notice("spelling", system, f"linearUnit {raw_linear!r} read as {linear!r}")
+        angles = []
+        for name in ("angularUnit", "directionUnit"):
+            raw = system.get(name)
+            if raw is None:
+                self.notice(
+                    "default",
+                    system,
+                    f"no {name}: the LandXML schema default {SCHEMA_ANGLE_DEFAULT!r} applies",
+                )
+                angles.append(SCHEMA_ANGLE_DEFAULT)
+                continue
+            value = _ANGLE_BY_KEY.get(_unit_key(raw))
+            if value is None:
                 raise self.fail(
                     system,
-                    f"{name} {value!r} is not supported; use one of " + ", ".join(ANGLE_UNITS),
+                    f"{name} {raw!r} is not supported; use one of " + ", ".join(ANGLE_UNITS),
                 )
-        return Units(linear, angular, direction)
+            if value != raw:
+                self.notice("spelling", system, f"{name} {raw!r} read as {value!r}")
+            angles.append(value)
+        return Units(linear, angles[0], angles[1])
 
     def alignment(self, el: etree._Element) -> Alignment:
         name = el.get("name")
@@ -186,12 +245,20 @@ class _Reader:
         horizontal = self.coord_geom(coord) if coord is not None else None
         profiles: list[Profile] = []
         grounds: list[GroundProfile] = []
+        broken: list[Broken] = []
         for prof_el in _children(el, "Profile"):
             prof_name = prof_el.get("name") or name
             for pa in _children(prof_el, "ProfAlign"):
-                profiles.append(self.prof_align(pa, pa.get("name") or prof_name))
+                pa_name = pa.get("name") or prof_name
+                try:  # one broken profile never blocks the plan or the others
+                    profiles.append(self.prof_align(pa, pa_name))
+                except (InputError, ModelError) as err:
+                    broken.append(Broken(pa_name, self.located(err, pa)))
             for ps in _children(prof_el, "ProfSurf"):
-                grounds.append(self.prof_surf(ps, ps.get("name") or prof_name))
+                try:
+                    grounds.append(self.prof_surf(ps, ps.get("name") or prof_name))
+                except (InputError, ModelError) as err:
+                    self.notice("broken", ps, f"ground profile left out: {self.located(err, ps)}")
         names = [p.name for p in profiles]
         for i, p in enumerate(profiles):
             if p.name in names[:i]:
@@ -206,6 +273,7 @@ class _Reader:
             equations=equations,
             horizontal=horizontal,
             source=self.src(el),
+            broken_profiles=tuple(broken),
         )
 
     # -- horizontal geometry ------------------------------------------------
@@ -371,6 +439,26 @@ class _Reader:
                 if radius is None and arc is None:
                     raise self.fail(child, "a CircCurve needs a 'radius' or a 'length' attribute")
                 spec = PVISpec(station, elev, "circular", radius=radius, arc_length=arc, source=src)
+            prev = specs[-1] if specs else None
+            if prev is not None and (prev.station, prev.elevation) == (station, elev):
+                # the same point written twice (seen in exported files): keep one
+                if spec.kind == "none" or spec == prev:
+                    self.notice(
+                        "merged",
+                        child,
+                        f"{kind_name} at station {station:g} "
+                        f"elevation {elev:g} repeats the entry before it; merged",
+                    )
+                    continue
+                if prev.kind == "none":
+                    self.notice(
+                        "merged",
+                        child,
+                        f"PVI at station {station:g} elevation "
+                        f"{elev:g} given twice, the second with a curve; merged",
+                    )
+                    specs[-1] = spec
+                    continue
             specs.append(spec)
         return Profile(name, tuple(specs), self.src(el))
 
@@ -380,7 +468,19 @@ class _Reader:
             values = self.numbers(pl, "ground value")
             if len(values) % 2:
                 raise self.fail(pl, "expected station/elevation pairs, found an odd count")
-            pieces.append(GroundPiece(tuple(values[0::2]), tuple(values[1::2]), self.src(pl)))
+            pairs: list[tuple[float, float]] = []
+            for pair in zip(values[0::2], values[1::2], strict=True):
+                if pairs and pairs[-1] == pair:  # a point written twice: keep one
+                    self.notice(
+                        "merged",
+                        pl,
+                        f"ground point {pair[0]:g} {pair[1]:g} repeats the one before it; merged",
+                    )
+                    continue
+                pairs.append(pair)
+            pieces.append(
+                GroundPiece(tuple(a for a, _ in pairs), tuple(b for _, b in pairs), self.src(pl))
+            )
         return GroundProfile(name, tuple(p for p in pieces if p.stations), self.src(el))
 
 

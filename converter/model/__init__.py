@@ -5,7 +5,7 @@ are radians. Every object may carry a :class:`SourceRef` so that errors found
 later can still name the file and line. Nothing here reads files.
 """
 
-from gradeline.model.base import MAX_MAGNITUDE, SourceRef
+from gradeline.model.base import MAX_MAGNITUDE, Broken, Notice, SourceRef
 from gradeline.model.document import Alignment, Document, StationEquation
 from gradeline.model.plan import (
     HCurve,
@@ -23,7 +23,9 @@ from gradeline.model.units import Units
 
 __all__ = [
     "MAX_MAGNITUDE",
+    "Notice",
     "Alignment",
+    "Broken",
     "CurveKind",
     "Document",
     "GroundPiece",

@@ -7,7 +7,7 @@ from dataclasses import dataclass
 
 from gradeline.errors import ModelError
 
-__all__ = ["MAX_MAGNITUDE", "SourceRef"]
+__all__ = ["MAX_MAGNITUDE", "Broken", "Notice", "SourceRef"]
 
 
 @dataclass(frozen=True, slots=True)
@@ -16,6 +16,32 @@ class SourceRef:
 
     path: str
     line: int | None = None
+
+
+@dataclass(frozen=True, slots=True)
+class Notice:
+    """Something the reader tolerated, defaulted or merged: shown as a warning.
+
+    ``kind`` groups notices for reports: ``default`` (a schema default was
+    applied), ``merged`` (an exact duplicate was dropped), ``spelling`` (a unit
+    name written another way), ``units`` (stated values fit another unit).
+    """
+
+    kind: str
+    message: str
+    source: SourceRef | None = None
+    element: str = ""
+
+
+@dataclass(frozen=True, slots=True)
+class Broken:
+    """A part of the file (an alignment or a profile) that could not be read.
+
+    The rest of the file reads on; asking for this part raises ``error``.
+    """
+
+    name: str
+    error: Exception
 
 
 #: Largest magnitude accepted for any coordinate, station or elevation: far

@@ -5,7 +5,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 from gradeline.errors import InputError, ModelError
-from gradeline.model.base import SourceRef, _finite
+from gradeline.model.base import Broken, Notice, SourceRef, _finite
 from gradeline.model.plan import HorizontalAlignment
 from gradeline.model.profile import Profile
 from gradeline.model.surface import GroundProfile
@@ -56,6 +56,8 @@ class Alignment:
     equations: tuple[StationEquation, ...] = ()
     horizontal: HorizontalAlignment | None = None
     source: SourceRef | None = field(default=None, compare=False)
+    #: ProfAlign elements that could not be read (the others read on).
+    broken_profiles: tuple[Broken, ...] = field(default=(), compare=False)
 
     def __post_init__(self) -> None:
         _finite(self.sta_start, "staStart", self.source, "Alignment")
@@ -80,6 +82,11 @@ class Alignment:
         InputError
             No profile, several without a name given, or no such name.
         """
+        for bad in self.broken_profiles:
+            if name == bad.name or (
+                name is None and not self.profiles and len(self.broken_profiles) == 1
+            ):
+                raise bad.error
         if not self.profiles:
             raise InputError(
                 f"alignment {self.name!r} has no finished-grade profile (ProfAlign)",
@@ -116,6 +123,17 @@ class Document:
     alignments: tuple[Alignment, ...]
     project: str = ""
     source: SourceRef | None = field(default=None, compare=False)
+    #: Alignments that could not be read, each with its error (the others read on).
+    broken: tuple[Broken, ...] = field(default=(), compare=False)
+    #: What the reader tolerated, defaulted or merged (shown as warnings).
+    notices: tuple[Notice, ...] = field(default=(), compare=False)
+    #: True when the file holds TIN surfaces (or points) but no alignment at all.
+    has_surfaces: bool = field(default=False, compare=False)
+
+    @property
+    def names(self) -> list[str]:
+        """Names of every alignment in file order, readable or not."""
+        return [a.name for a in self.alignments] + [b.name for b in self.broken]
 
     def alignment(self, name: str | None = None) -> Alignment:
         """Return the alignment called ``name``, or the only one when ``name`` is None.
@@ -126,24 +144,27 @@ class Document:
             No alignment, several without a name given, or no such name.
         """
         src = self.source or SourceRef(self.path, 1)
-        if not self.alignments:
-            raise InputError("the file has no alignments", src, "Alignments")
+        names = self.names
+        if not names:
+            what = " (it holds terrain only)" if self.has_surfaces else ""
+            raise InputError(f"the file has no alignments{what}", src, "Alignments")
         if name is None:
-            if len(self.alignments) > 1:
+            if len(names) > 1:
                 raise InputError(
-                    f"the file has {len(self.alignments)} alignments; choose one: "
-                    + ", ".join(a.name for a in self.alignments),
+                    f"the file has {len(names)} alignments; choose one: " + ", ".join(names),
                     src,
                     "Alignments",
                     choice="alignment",
                 )
-            return self.alignments[0]
+            name = names[0]
         for al in self.alignments:
             if al.name == name:
                 return al
+        for bad in self.broken:
+            if bad.name == name:
+                raise bad.error
         raise InputError(
-            f"no alignment named {name!r}; alignments: "
-            + ", ".join(a.name for a in self.alignments),
+            f"no alignment named {name!r}; alignments: " + ", ".join(names),
             src,
             "Alignments",
         )

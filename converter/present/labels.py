@@ -343,5 +343,20 @@ def review_headline(
 
 
 def check_headline(over: int, total: int) -> str:
-    """First line of a cross-check report, e.g. ``0 findings over tolerance in 42 checks``."""
+    """First line of a cross-check report, e.g. ``0 findings over tolerance in 42 checks``.
+
+    A report that compared nothing says so instead of reading like a pass.
+
+    Examples
+    --------
+    >>> check_headline(0, 42)
+    '0 findings over tolerance in 42 checks'
+    >>> check_headline(0, 0)
+    'NOTHING CHECKED: the file states no value or join that could be compared; this is not a pass'
+    """
+    if total == 0:
+        return (
+            "NOTHING CHECKED: the file states no value or join that could be compared; "
+            "this is not a pass"
+        )
     return f"{_plural(over, 'finding')} over tolerance in {total} checks"

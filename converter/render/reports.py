@@ -178,12 +178,18 @@ def _val(v: float | None, unit: str = "") -> str:
 
 def check_summary(findings, drawing) -> str:
     """The first line: findings over tolerance out of all checks."""
+    over, total = check_counts(findings, drawing)
+    return labels.check_headline(over, total)
+
+
+def check_counts(findings, drawing) -> tuple[int, int]:
+    """(over tolerance, comparisons made): notes that compare nothing are not checks."""
     over = sum(f.verdict == "over" for f in findings)
-    total = len(findings)
+    total = sum(f.verdict in ("ok", "over") for f in findings)
     if drawing is not None:
         total += 2
         over += (1 if drawing.over else 0) + (1 if drawing.uncovered else 0)
-    return labels.check_headline(over, total)
+    return over, total
 
 
 def check_text(
