@@ -151,8 +151,6 @@ def review(solved: SolvedAlignment, speed: float, **options: Any):  # noqa: ANN2
     """
     from gradeline.analysis import review as rv
 
-    if solved.geometry is None:
-        raise UsageError(f"alignment {solved.alignment.name!r} has no profile to review")
     crit = rv.load_criteria(options.pop("criteria", None), solved.document.units.metric)
     return rv.review_profile(
         solved.geometry,

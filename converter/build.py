@@ -117,13 +117,17 @@ def _build_alignment(
     )
     if solved.geometry is not None:
         _write(outdir / "profile.dxf", dl.profile_dxf(solved, drawing), inputs, written)
+    else:
+        notes.append(
+            "no profile in the file: profile.dxf, the vertical curve table and the "
+            "vertical review left out; sheets show the plan only"
+        )
     if solved.horizontal is not None:
         _write(outdir / "plan.dxf", dl.plan_dxf(solved, drawing), inputs, written)
-    if solved.geometry is not None:
-        sheet_opts = dl.sheet_options(
-            solved, {k: v for k, v in sheet.items() if k in dl.SHEET_KEYS}
-        )
-        _write(outdir / "sheets.pdf", dl.sheets_pdf(solved, sheet_opts), inputs, written)
+    else:
+        notes.append("no CoordGeom in the file: plan.dxf and the plan views left out")
+    sheet_opts = dl.sheet_options(solved, {k: v for k, v in sheet.items() if k in dl.SHEET_KEYS})
+    _write(outdir / "sheets.pdf", dl.sheets_pdf(solved, sheet_opts), inputs, written)
     _write(outdir / "curves.csv", dl.curve_table(solved), inputs, written)
     interval = float(sheet.get("interval") or doc.units.defaults.table_interval)
     _write(
@@ -136,7 +140,7 @@ def _build_alignment(
     text, _ = dl.check_report(doc, findings, tol, check_opts)
     _write(outdir / "check.txt", text, inputs, written)
     review_failed = None
-    if opts.speed is not None and solved.geometry is not None:
+    if opts.speed is not None:
         text, review_failed = dl.review_report(
             solved, dl.ReviewOptions(opts.speed, opts.speed_unit)
         )

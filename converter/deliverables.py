@@ -142,8 +142,15 @@ def _render(
     return csv_text(rows, columns)
 
 
-def station_table(solved: SolvedAlignment, opts: TableOptions) -> str:
-    """The station/elevation table (with ground columns when a surface is attached)."""
+def station_table(
+    solved: SolvedAlignment, opts: TableOptions, warnings: list[GradelineError] | None = None
+) -> str:
+    """The station/elevation table (with ground columns when a surface is attached).
+
+    Rows cover the plan and the profile together; where only one of them
+    reaches, the other's columns are blank. Asked-for stations off the profile
+    (or the plan) are listed in ``warnings``.
+    """
     from gradeline.present import tables
 
     if opts.at is not None:
@@ -152,6 +159,8 @@ def station_table(solved: SolvedAlignment, opts: TableOptions) -> str:
             raise UsageError("give at least one station", choice="at")
         at = [solved.stationing.internal_of(t, solved.start, solved.end) for t in texts]
         stations, tags = tables.table_stations(solved, at=at)
+        if warnings is not None:
+            warnings.extend(_off_parts(solved, texts, at))
     else:
         interval = opts.interval or solved.document.units.defaults.table_interval
         stations, tags = tables.table_stations(solved, interval=interval)
@@ -160,6 +169,37 @@ def station_table(solved: SolvedAlignment, opts: TableOptions) -> str:
     if solved.surface is not None:
         columns = tables.add_ground_columns(solved, stations, rows)
     return _render(solved, opts.format, columns, rows)
+
+
+def _off_parts(
+    solved: SolvedAlignment, texts: Sequence[str], stations: Sequence[float]
+) -> list[GradelineError]:
+    out = []
+    covered = solved.on_profile(stations) if solved.geometry is not None else None
+    for text, on in zip(texts, covered if covered is not None else [], strict=False):
+        if not on:
+            out.append(
+                GradelineError(
+                    f"station {text.strip()} lies off the profile "
+                    f"({solved.stationing.label(solved.geometry.start)} to "
+                    f"{solved.stationing.label(solved.geometry.end)}); its "
+                    "elevation and grade are blank"
+                )
+            )
+    if solved.horizontal is not None:
+        hz = solved.horizontal
+        tol = solved.stationing.end_tolerance(solved.start, solved.end)
+        for text, s in zip(texts, stations, strict=True):
+            if not (hz.start - tol <= s <= hz.end + tol):
+                out.append(
+                    GradelineError(
+                        f"station {text.strip()} lies off the plan "
+                        f"({solved.stationing.label(hz.start)} to "
+                        f"{solved.stationing.label(hz.end)}); its "
+                        "coordinates are blank"
+                    )
+                )
+    return out
 
 
 def curve_table(solved: SolvedAlignment, fmt: str = "csv") -> str:
@@ -303,7 +343,6 @@ def review_report(solved: SolvedAlignment, opts: ReviewOptions) -> tuple[str, bo
     from gradeline.render.outputs import json_text
     from gradeline.render.reports import review_payload, review_text
 
-    assert solved.geometry is not None
     units = solved.document.units
     crit = review.load_criteria(opts.criteria, units.metric)
     speed = opts.speed

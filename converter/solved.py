@@ -70,19 +70,49 @@ class SolvedAlignment:
     # -- extent --------------------------------------------------------------
     @property
     def start(self) -> float:
-        """First station covered (profile if present, else plan)."""
-        if self.geometry is not None:
-            return self.geometry.start
-        assert self.horizontal is not None
-        return self.horizontal.start
+        """First station covered by the plan or the profile, whichever starts first.
+
+        Ends that agree within rounding (see :meth:`Stationing.end_tolerance`)
+        are one end, at the profile's station (the one its elevations belong to).
+        """
+        return self._span[0]
 
     @property
     def end(self) -> float:
-        """Last station covered (profile if present, else plan)."""
-        if self.geometry is not None:
-            return self.geometry.end
-        assert self.horizontal is not None
-        return self.horizontal.end
+        """Last station covered by the plan or the profile, whichever ends last."""
+        return self._span[1]
+
+    @cached_property
+    def _span(self) -> tuple[float, float]:
+        g, h = self.geometry, self.horizontal
+        if g is None or h is None:
+            geom = g if g is not None else h
+            assert geom is not None, "a solved alignment has a plan or a profile"
+            return geom.start, geom.end
+        tol = self.stationing.end_tolerance(min(g.start, h.start), max(g.end, h.end))
+        lo = g.start if abs(g.start - h.start) <= tol else min(g.start, h.start)
+        hi = g.end if abs(g.end - h.end) <= tol else max(g.end, h.end)
+        return lo, hi
+
+    @property
+    def extents_differ(self) -> bool:
+        """True when plan and profile both exist and their ends differ beyond rounding."""
+        if self.geometry is None or self.horizontal is None:
+            return False
+        g, h = self.geometry, self.horizontal
+        tol = self.stationing.end_tolerance(min(g.start, h.start), max(g.end, h.end))
+        return (
+            abs(self.geometry.start - self.horizontal.start) > tol
+            or abs(self.geometry.end - self.horizontal.end) > tol
+        )
+
+    def on_profile(self, stations: ArrayLike) -> NDArray[np.bool_]:
+        """Which internal stations the profile covers (within the end tolerance)."""
+        s = np.asarray(stations, dtype=np.float64)
+        if self.geometry is None:
+            return np.zeros(s.shape, dtype=bool)
+        tol = self.stationing.end_tolerance(self.start, self.end)
+        return (s >= self.geometry.start - tol) & (s <= self.geometry.end + tol)
 
     @property
     def units(self):  # noqa: ANN201 - Units; kept short for the many callers
@@ -117,8 +147,14 @@ class SolvedAlignment:
         found: list[tuple[float, str]] = []
         for k in self.vertical_key_points:
             found += [(k.station, tag) for tag in k.tags]
-        found += list(self.plan_key_points)
         lo, hi = self.start, self.end
+        tol = self.stationing.end_tolerance(lo, hi)
+        for station, tag in self.plan_key_points:  # plan ends within rounding of the span's
+            if abs(station - lo) <= tol:
+                station = lo
+            elif abs(station - hi) <= tol:
+                station = hi
+            found.append((station, tag))
         found += [
             (e.internal, "EQUATION") for e in self.stationing.equations if lo <= e.internal <= hi
         ]
@@ -139,29 +175,45 @@ class SolvedAlignment:
         return tuple(merged)
 
     # -- evaluation at stations ---------------------------------------------
+    def _snap(self, stations: ArrayLike, lo: float, hi: float) -> ArrayLike:
+        """Stations within the end tolerance of [lo, hi] moved onto the end."""
+        s = np.asarray(stations, dtype=np.float64)
+        tol = self.stationing.end_tolerance(self.start, self.end)
+        near_lo = (s < lo) & (s >= lo - tol)
+        near_hi = (s > hi) & (s <= hi + tol)
+        if not (near_lo.any() or near_hi.any()):
+            return stations
+        return np.where(near_lo, lo, np.where(near_hi, hi, s))
+
     def plan_at(self, stations: ArrayLike) -> tuple[NDArray[np.float64], ...]:
-        """(northing, easting, heading) at internal stations (needs plan geometry)."""
+        """(northing, easting, heading) at internal stations; NaN beyond the plan."""
         if self.horizontal is None:
             raise ValueError("the alignment has no plan geometry")
-        return horizontal.evaluate(self.horizontal, stations)
+        hz = self.horizontal
+        return horizontal.evaluate(hz, self._snap(stations, hz.start, hz.end))
 
-    def profile_at(self, stations: ArrayLike) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
-        """(elevation, grade as a ratio) at internal stations (needs a profile)."""
+    def _profile_stations(self, stations: ArrayLike) -> ArrayLike:
         if self.geometry is None:
             raise ValueError("the alignment has no profile")
-        return vertical.evaluate(self.geometry, stations)
+        return self._snap(stations, self.geometry.start, self.geometry.end)
+
+    def profile_at(self, stations: ArrayLike) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
+        """(elevation, grade as a ratio) at internal stations; NaN beyond the profile."""
+        s = self._profile_stations(stations)
+        assert self.geometry is not None
+        return vertical.evaluate(self.geometry, s)
 
     def elevation(self, stations: ArrayLike) -> NDArray[np.float64]:
         """Finished-grade elevation at internal stations (NaN outside the profile)."""
-        if self.geometry is None:
-            raise ValueError("the alignment has no profile")
-        return vertical.elevation(self.geometry, stations)
+        s = self._profile_stations(stations)
+        assert self.geometry is not None
+        return vertical.elevation(self.geometry, s)
 
     def tangent_elevation(self, stations: ArrayLike) -> NDArray[np.float64]:
         """Elevation on the grade lines through the PVIs (curves left out)."""
-        if self.geometry is None:
-            raise ValueError("the alignment has no profile")
-        return vertical.tangent_elevation(self.geometry, stations)
+        s = self._profile_stations(stations)
+        assert self.geometry is not None
+        return vertical.tangent_elevation(self.geometry, s)
 
     def direction(self, heading: ArrayLike) -> NDArray[np.float64]:
         """Headings as directions in the file's convention and direction unit."""
@@ -277,7 +329,9 @@ def with_surface(solved: SolvedAlignment, surface: Surface) -> SolvedAlignment:
             "Alignment",
         )
     index = gr.TriangleIndex(surface)
-    stations, z = gr.sample_alignment(solved.horizontal, index, lo=solved.start, hi=solved.end)
+    hz = solved.horizontal  # the ground lies along the plan: sample where the plan is
+    lo, hi = max(solved.start, hz.start), min(solved.end, hz.end)
+    stations, z = gr.sample_alignment(hz, index, lo=lo, hi=hi)
     ground = gr.ground_profile(surface.name, stations, z, surface.source)
     alignment = replace(solved.alignment, grounds=(ground,))
     return replace(solved, alignment=alignment, surface=index)

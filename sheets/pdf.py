@@ -246,7 +246,7 @@ def page_plan(ctx: SolvedAlignment, opts: SheetOptions) -> PagePlan:
     lay = _layout(ctx, opts)
     start = min(ctx.start, ctx.horizontal.start if ctx.horizontal else ctx.start)
     end = max(ctx.end, ctx.horizontal.end if ctx.horizontal else ctx.end)
-    frames = sheet_frames(start, end, geo, lay) if ctx.geometry is not None else []
+    frames = sheet_frames(start, end, geo, lay)
     interval = opts.interval or ctx.document.units.defaults.table_interval
     tabs = []
     if ctx.horizontal is not None:
@@ -254,6 +254,8 @@ def page_plan(ctx: SolvedAlignment, opts: SheetOptions) -> PagePlan:
     if ctx.geometry is not None:
         tabs.append(tables.vertical_curve_table(ctx))
         tabs.append(tables.station_table(ctx, interval))
+    else:  # plan only: the sheets show the plan, the tables its coordinates
+        tabs.append(tables.plan_station_table(ctx, interval))
     pages = pack_tables([len(tab.rows) for tab in tabs], table_capacity(geo, TABLE_ROW * geo.text))
     return PagePlan(frames, tabs, pages)
 
@@ -326,6 +328,8 @@ def _scale_bars(c, geo: SheetGeometry, ctx: SolvedAlignment, lay: DraftingLayout
     c.setFont(FONT, 0.75 * ts)
     c.drawString(x, y + 0.6 * ts, "0")
     c.drawRightString(x + w, y + 0.6 * ts, f"{length:g} {unit} HORIZONTAL")
+    if ctx.geometry is None:  # plan only: no vertical scale to show
+        return
     zmaj, _ = lay.elevation_steps()
     hv = zmaj * lay.exaggeration / per_pt
     vx = x + w + 2 * ts
@@ -378,10 +382,15 @@ def _sheet(
     h = used.text_height
     st = ctx.stationing
     # -- profile: its own datum and the exaggeration the view chose -----------
-    _, y0, _, _ = prof.extents
+    y0 = prof.extents[1] if prof is not None else 0.0
     vp = geo.profile
     xf = _Xform(per_pt, (frame.view_start - 9 * h, y0), (vp.x, vp.y))
-    _draw_items(c, prof.items, xf, vp, f)
+    if prof is not None:
+        _draw_items(c, prof.items, xf, vp, f)
+    else:
+        c.setFillColorRGB(0, 0, 0)
+        c.setFont(FONT_BOLD, 1.4 * ts)
+        c.drawCentredString(vp.cx, vp.cy, labels.NO_PROFILE_NOTE)
     for m, other in ((frame.match_start, frame.number - 1), (frame.match_end, frame.number + 1)):
         if other < 1 or other > total_frames:
             continue

@@ -187,6 +187,31 @@ def station_table(ctx: SolvedAlignment, interval: float) -> TextTable:
     )
 
 
+def plan_station_table(ctx: SolvedAlignment, interval: float) -> TextTable:
+    """Coordinates and direction at ``interval`` plus key points (a plan-only alignment)."""
+    stations, tags = rows.table_stations(ctx, interval=interval)
+    data = rows.station_rows(ctx, stations, tags)
+    out = [
+        (
+            r["station_label"],
+            _len(r["northing"], ctx),
+            _len(r["easting"], ctx),
+            f"{r['direction']:.4f}" if math.isfinite(r["direction"]) else "",
+            r["point"],
+        )
+        for r in data
+        if math.isfinite(r["northing"])
+    ]
+    unit = ctx.document.units
+    return TextTable(
+        f"ALIGNMENT COORDINATES AT {labels.length_text(interval, unit)} {unit.symbol} STATIONS"
+        f" - {ctx.alignment.name} (NO PROFILE IN THE FILE)",
+        ("STATION", "NORTHING", "EASTING", f"DIRECTION ({unit.direction.upper()})", "POINT"),
+        tuple(out),
+        (1.3, 1.6, 1.6, 1.4, 1.6),
+    )
+
+
 def _ground_at(ctx: SolvedAlignment, stations: np.ndarray) -> np.ndarray:
     out = np.full(len(stations), np.nan)
     for gr in ctx.alignment.grounds[:1]:

@@ -48,7 +48,7 @@ class SheetView:
     """Everything one plan-and-profile sheet shows."""
 
     frame: Frame
-    profile: Drawing
+    profile: Drawing | None  # None for a plan-only alignment
     layout: DraftingLayout  # with the exaggeration used on this sheet
     plan: PlanView | None
 
@@ -98,5 +98,7 @@ def sheet_view(
     ctx: SolvedAlignment, lay: DraftingLayout, geo: SheetGeometry, frame: Frame, total_frames: int
 ) -> SheetView:
     """The profile drawing and plan view of one sheet."""
+    if ctx.geometry is None:
+        return SheetView(frame, None, lay, _plan(ctx, frame, total_frames))
     prof, used = _profile(ctx, lay, geo, frame)
     return SheetView(frame, prof, used, _plan(ctx, frame, total_frames))

@@ -171,7 +171,7 @@ def test_alignment_not_found_exit_2(capsys):
 def test_station_outside_profile_exit_2(capsys):
     code, _, err = run(capsys, "table", US_SAMPLE, *BYPASS, "--at", "99+00")
     assert code == 2
-    assert err == "gradeline: station 99+00 is not on the profile (10+00.00 to 62+00.00)\n"
+    assert err == "gradeline: station 99+00 is not on the alignment (10+00.00 to 62+00.00)\n"
 
 
 def test_interval_and_at_are_exclusive(capsys):

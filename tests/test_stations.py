@@ -120,5 +120,5 @@ def test_round_stations_follow_labels_across_equation():
 
 def test_outside_range_message():
     sta = Stationing(FT)
-    with pytest.raises(UsageError, match=r"not on the profile \(10\+00.00 to 20\+00.00\)"):
+    with pytest.raises(UsageError, match=r"not on the alignment \(10\+00.00 to 20\+00.00\)"):
         sta.internal_of("25+00", 1000.0, 2000.0)

@@ -8,6 +8,8 @@ value disagrees. Nothing here prints; :mod:`gradeline.render.reports` renders.
 
 from __future__ import annotations
 
+from dataclasses import replace
+
 import numpy as np
 
 from gradeline.analysis.check_plan import check_plan
@@ -152,6 +154,41 @@ def _unreadable(alignment: str, element: str, quantity: str, error: Exception) -
     )
 
 
+def _check_extents(c: Collector, solved: SolvedAlignment) -> None:
+    """The profile's ends against the plan's: a profile that stops short leaves road
+    without elevations; one that runs on has no coordinates there."""
+    g, hz, st = solved.geometry, solved.horizontal, solved.stationing
+    assert g is not None and hz is not None
+    both = (
+        f"profile {st.label(g.start)} to {st.label(g.end)}, plan {st.label(hz.start)} "
+        f"to {st.label(hz.end)}"
+    )
+    unit = solved.document.units.symbol
+    src = solved.profile.source if solved.profile is not None else None
+    c.distance(
+        "ProfAlign",
+        None,
+        g.start,
+        "profile start against plan start (POB)",
+        g.start,
+        hz.start,
+        src,
+        unit,
+        both,
+    )
+    c.distance(
+        "ProfAlign",
+        None,
+        g.end,
+        "profile end against plan end (POE)",
+        g.end,
+        hz.end,
+        src,
+        unit,
+        both,
+    )
+
+
 def check_alignment(solved: SolvedAlignment, tol: Tolerances = DEFAULT_TOLERANCES) -> list[Finding]:
     """Every self-consistency finding of one solved alignment.
 
@@ -163,6 +200,8 @@ def check_alignment(solved: SolvedAlignment, tol: Tolerances = DEFAULT_TOLERANCE
     hz = solved.horizontal
     if hz is not None:
         check_plan(c, al, hz, doc)
+    if solved.geometry is not None and hz is not None:
+        _check_extents(c, solved)
     known = {id(solved.profile): solved.geometry} if solved.profile is not None else {}
     _check_profile(c, al, doc, hz, known)
     return c.items
@@ -190,6 +229,12 @@ def check_document(
             except GradelineError as err:  # a plan that does not solve is reported
                 out.append(_unreadable(al.name, "CoordGeom", "plan geometry solves", err))
                 continue
+            if al.profiles:  # the first profile, for its ends against the plan's
+                try:
+                    geom = vertical.solve(al.profiles[0], label=solved.stationing.label)
+                    solved = replace(solved, profile=al.profiles[0], geometry=geom)
+                except GradelineError:
+                    pass  # the profile checks report it
             out.extend(check_alignment(solved, tol))
         else:
             c = Collector(al.name, tol)

@@ -86,6 +86,8 @@ class Criteria:
     passing_sight_distance: tuple[tuple[float, float], ...] = ()
     side_friction: tuple[tuple[float, float], ...] = ()
 
+    pass_tolerance: float = 0.001  # relative: provided >= required * (1 - tol) passes
+
     def min_radius(self, speed: float, e_max: float | None = None) -> float | None:
         """Minimum horizontal radius V^2 / (c (e + f)) for a design speed (None off the table)."""
         if not self.side_friction:
@@ -147,7 +149,7 @@ def load_criteria(path: str | None, metric: bool) -> Criteria:
     if not isinstance(table, dict):
         raise InputError(f"no [{key}] table of design controls", SourceRef(where), "criteria")
     values: dict[str, Any] = {"name": str(data.get("name", where))}
-    optional = ("radius_coefficient", "e_max")
+    optional = ("radius_coefficient", "e_max", "pass_tolerance")
     for f in Criteria.__dataclass_fields__:
         if f in ("name", "passing_sight_distance", "side_friction"):
             continue
@@ -177,12 +179,22 @@ def stopping_distance(crit: Criteria, speed: float, downgrade: float = 0.0) -> f
     """
     reaction = crit.brake_reaction_coefficient * speed * crit.reaction_time
     if downgrade >= crit.grade_correction_from:
-        braking = speed**2 / (
-            crit.grade_coefficient * (crit.deceleration / crit.gravity - downgrade)
-        )
+        grade = min(downgrade, steepest_corrected_grade(crit))
+        braking = speed**2 / (crit.grade_coefficient * (crit.deceleration / crit.gravity - grade))
     else:
         braking = crit.braking_coefficient * speed**2 / crit.deceleration
     return reaction + braking
+
+
+#: The grade correction V^2 / (c (a/g - G)) grows without bound as G nears a/g
+#: (about 35 %); steeper downgrades are taken at this share of a/g (gradeline's
+#: choice), and the review notes where that happened.
+_STEEPEST_SHARE = 0.9
+
+
+def steepest_corrected_grade(crit: Criteria) -> float:
+    """The steepest downgrade the grade-corrected stopping distance is computed for."""
+    return _STEEPEST_SHARE * crit.deceleration / crit.gravity
 
 
 def design_ssd(crit: Criteria, speed: float, downgrade: float = 0.0) -> float:
@@ -256,6 +268,15 @@ class CurveReview:
         return any(c.verdict == "fail" for c in self.checks)
 
 
+def _meets(provided: float, required: float, crit: Criteria) -> bool:
+    """Provided meets required, within the criteria's relative pass tolerance.
+
+    A value that prints equal to the requirement must not fail (a sag of
+    R = 3000 m showed K required 30.00, provided 30.00 as a failure).
+    """
+    return provided >= required * (1.0 - crit.pass_tolerance) - 1e-9
+
+
 def _verdict(ok: bool) -> str:
     return "pass" if ok else "fail"
 
@@ -292,12 +313,12 @@ def check_curve(
                 need,
                 length,
                 lu,
-                _verdict(length >= need - 1e-9),
+                _verdict(_meets(length, need, crit)),
                 note,
             )
         )
         kd = design_k_crest(crit, ssd)
-        out.append(Check("design K, crest", kd, k, f"{lu}/%", _verdict(k >= kd - 1e-9)))
+        out.append(Check("design K, crest", kd, k, f"{lu}/%", _verdict(_meets(k, kd, crit))))
         if passing:
             psd = crit.psd(speed)
             if psd is not None:
@@ -312,7 +333,7 @@ def check_curve(
                         need,
                         length,
                         lu,
-                        _verdict(length >= need - 1e-9),
+                        _verdict(_meets(length, need, crit)),
                     )
                 )
     elif curve.curve_type == "sag":
@@ -324,12 +345,12 @@ def check_curve(
                 need,
                 length,
                 lu,
-                _verdict(length >= need - 1e-9),
+                _verdict(_meets(length, need, crit)),
                 note,
             )
         )
         kd = design_k_sag(crit, ssd)
-        out.append(Check("design K, sag", kd, k, f"{lu}/%", _verdict(k >= kd - 1e-9)))
+        out.append(Check("design K, sag", kd, k, f"{lu}/%", _verdict(_meets(k, kd, crit))))
         need = a * speed**2 / crit.comfort_divisor
         out.append(
             Check(
@@ -337,7 +358,7 @@ def check_curve(
                 need,
                 length,
                 lu,
-                _verdict(length >= need - 1e-9),
+                _verdict(_meets(length, need, crit)),
             )
         )
     need = crit.appearance_per_speed * speed
@@ -347,7 +368,7 @@ def check_curve(
             need,
             length,
             lu,
-            _verdict(length >= need - 1e-9),
+            _verdict(_meets(length, need, crit)),
         )
     )
     if curbed and curve.curve_type != "flat":
@@ -402,7 +423,7 @@ class Review:
     speed_unit: str
     ssd: float
     curves: tuple[CurveReview, ...]
-    sight: SightDistance
+    sight: SightDistance | None  # None without a profile
     deficiencies: tuple[Deficiency, ...]
     notes: tuple[str, ...] = field(default=())
     radius_checks: tuple[tuple[float, Check], ...] = ()  # (PC/TS station, check)
@@ -433,7 +454,7 @@ def radius_checks(
                 need,
                 c.radius,
                 lu,
-                _verdict(c.radius >= need - 1e-9),
+                _verdict(_meets(c.radius, need, crit)),
             ),
         )
         for c in curves
@@ -441,7 +462,7 @@ def radius_checks(
 
 
 def review_profile(
-    geom: VerticalGeometry,
+    geom: VerticalGeometry | None,
     crit: Criteria,
     speed: float,
     *,
@@ -452,10 +473,28 @@ def review_profile(
     horizontal_curves=(),
     e_max: float | None = None,
 ) -> Review:
-    """Review ``geom`` for a design ``speed`` in the criteria's speed unit."""
+    """Review ``geom`` for a design ``speed`` in the criteria's speed unit.
+
+    Without a profile (``geom`` None, a plan-only alignment) only the
+    horizontal curves are reviewed, and the notes say what was left out.
+    """
     if not (math.isfinite(speed) and speed > 0):
         raise UsageError(f"design speed must be a positive number, got {speed:g}")
     ssd = design_ssd(crit, speed)
+    notes = [
+        "Sight distance is measured on the finished grade alone: cuts, barriers, "
+        "structures and horizontal curvature can shorten it further.",
+        "Checks do not replace the governing agency's standards or the responsible "
+        "engineer's judgment.",
+    ]
+    radii = radius_checks(horizontal_curves, crit, speed, e_max, length_unit)
+    if geom is None:
+        notes.insert(
+            0,
+            "The alignment has no profile: vertical curves and sight distance "
+            "were not reviewed; only the horizontal curves were.",
+        )
+        return Review(crit, speed, crit.speed_unit, ssd, (), None, (), tuple(notes), radii)
     curves = tuple(
         CurveReview(
             i + 1, c, check_curve(c, crit, speed, curbed=curbed, passing=passing, lu=length_unit)
@@ -464,6 +503,13 @@ def review_profile(
     )
     st = step or UNIT_DEFAULTS[length_unit == "m"].sight_step
     steepest = float(np.max(np.abs(geom.grades))) if len(geom.grades) else 0.0
+    if steepest > steepest_corrected_grade(crit):
+        notes.insert(
+            0,
+            f"Downgrades of up to {100 * steepest:.1f} % lie beyond the range of "
+            "the grade-corrected stopping distance formula; they were taken as "
+            f"{100 * steepest_corrected_grade(crit):.1f} %.",
+        )
     reach = 1.25 * design_ssd(crit, speed, steepest)
     sd = sight_distance(geom, crit, step=st, reach=reach)
     _, g = vertical.evaluate(geom, sd.stations)
@@ -475,11 +521,5 @@ def review_profile(
         + _runs(sd.stations, sd.headlight_ahead, req_ahead, "headlight", "ahead")
         + _runs(sd.stations, sd.headlight_behind, req_behind, "headlight", "behind")
     )
-    notes = (
-        "Sight distance is measured on the finished grade alone: cuts, barriers, "
-        "structures and horizontal curvature can shorten it further.",
-        "Checks do not replace the governing agency's standards or the responsible "
-        "engineer's judgment.",
-    )
-    radii = radius_checks(horizontal_curves, crit, speed, e_max, length_unit)
-    return Review(crit, speed, crit.speed_unit, ssd, curves, sd, tuple(defs), notes, radii)
+    notes_t = tuple(notes)
+    return Review(crit, speed, crit.speed_unit, ssd, curves, sd, tuple(defs), notes_t, radii)

@@ -6,7 +6,7 @@ import argparse
 from typing import Any
 
 from gradeline.cli._common import add_common, add_ground, layer_names, warn, with_ground, write_file
-from gradeline.errors import UsageError
+from gradeline.errors import GradelineError, UsageError
 from gradeline.present.roles import LAYER_ROLES
 
 NAME = "dxf"
@@ -64,20 +64,39 @@ def add_parser(sub: Any) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
-    """Write the profile (and plan) DXF."""
+    """Write the profile (and plan) DXF; a plan-only alignment gets its plan drawing."""
     from gradeline import deliverables as dl
 
-    solved = dl.open_alignment(args.file, args.alignment, args.profile, need_profile=True)
+    if args.plan and args.plan == args.output:
+        raise UsageError("--plan and -o name the same file")
+    solved = dl.open_alignment(args.file, args.alignment, args.profile)
     solved = with_ground(solved, args)
     opts = dl.DrawingOptions(
         args.scale, args.exaggeration, args.curves, args.dxf_version, layer_names(args)
     )
-    outputs = [(args.output, dl.profile_dxf(solved, opts))]
-    if args.plan:
-        outputs.append((args.plan, dl.plan_dxf(solved, opts)))
-    if args.plan and args.plan == args.output:
-        raise UsageError("--plan and -o name the same file")
-    warn(dl.plan_warnings(solved))
+    name = solved.alignment.name
+    notes: list[GradelineError] = []
+    outputs = []
+    if solved.geometry is not None:
+        outputs.append((args.output, dl.profile_dxf(solved, opts)))
+        if args.plan and solved.horizontal is None:
+            notes.append(
+                GradelineError(
+                    f"alignment {name!r} has no CoordGeom: no plan drawing, {args.plan} not written"
+                )
+            )
+        elif args.plan:
+            outputs.append((args.plan, dl.plan_dxf(solved, opts)))
+    else:  # plan only: the plan drawing is what there is
+        target = args.plan or args.output
+        outputs.append((target, dl.plan_dxf(solved, opts)))
+        notes.append(
+            GradelineError(
+                f"alignment {name!r} has no profile: wrote its plan drawing to {target}"
+                + (f"; {args.output} not written" if args.plan else "")
+            )
+        )
+    warn(dl.plan_warnings(solved) + notes)
     for path, blob in outputs:
         write_file(path, blob, [args.file])
     return 0

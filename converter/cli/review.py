@@ -62,7 +62,7 @@ def run(args: argparse.Namespace) -> int:
     """Write the review; exit 1 when something fails."""
     from gradeline import deliverables as dl
 
-    solved = dl.open_alignment(args.file, args.alignment, args.profile, need_profile=True)
+    solved = dl.open_alignment(args.file, args.alignment, args.profile)
     opts = dl.ReviewOptions(
         args.speed,
         args.units,

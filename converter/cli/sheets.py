@@ -60,7 +60,7 @@ def run(args: argparse.Namespace) -> int:
     cfg = read_config(args.config) if args.config else {}
     sheet_cfg = dict(cfg.get("sheet", {}))
     dl.check_sheet_config(sheet_cfg, args.config or "config")
-    solved = dl.open_alignment(args.file, args.alignment, args.profile, need_profile=True)
+    solved = dl.open_alignment(args.file, args.alignment, args.profile)
     solved = with_ground(solved, args)
     overrides = {
         "size": args.size,

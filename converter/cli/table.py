@@ -43,7 +43,8 @@ def run(args: argparse.Namespace) -> int:
 
     solved = with_ground(dl.open_alignment(args.file, args.alignment, args.profile), args)
     at = tuple(args.at.split(",")) if args.at is not None else None
-    text = dl.station_table(solved, dl.TableOptions(args.interval, at, args.format))
-    warn(dl.plan_warnings(solved))
+    off: list = []
+    text = dl.station_table(solved, dl.TableOptions(args.interval, at, args.format), off)
+    warn(dl.plan_warnings(solved) + off)
     emit(text, args.output, [args.file] + ([args.ground] if args.ground else []))
     return 0

@@ -141,6 +141,23 @@ class Stationing:
         """Decimals of station labels: 2 in feet, 3 in metres (common practice)."""
         return 3 if self.units.metric else 2
 
+    def end_tolerance(self, lo: float, hi: float) -> float:
+        """How close to an end a station counts as on it.
+
+        Half a unit of the last printed decimal (0.005 ft, 0.0005 m), or 1e-6 of
+        the largest station, whichever is larger: a label printed for an end
+        always lands on that end, and exported coordinates rounded by another
+        program do not leave a sliver of alignment uncovered.
+
+        Examples
+        --------
+        >>> Stationing(Units("meter")).end_tolerance(0.0, 37.3)
+        0.0005
+        >>> round(Stationing(Units("meter")).end_tolerance(0.0, 1266.2), 7)
+        0.0012662
+        """
+        return max(0.5 * 10.0**-self.decimals, 1e-6 * max(abs(lo), abs(hi), 1.0))
+
     def _tables(self) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
         starts = np.array([-np.inf] + [e.internal for e in self.equations])
         offsets = np.array([0.0] + [e.ahead - e.internal for e in self.equations])
@@ -203,7 +220,12 @@ class Stationing:
         """
         body, _, region_text = text.partition("@")
         labelled = parse_station(body, self.station_length)
-        found = self.regions_of_label(labelled, lo, hi)
+        tol = self.end_tolerance(lo, hi)
+        # a label within the end tolerance of an end is that end (ends print rounded)
+        found = [
+            (r, lo if abs(s - lo) <= tol else hi if abs(s - hi) <= tol else s)
+            for r, s in self.regions_of_label(labelled, lo - tol, hi + tol)
+        ]
         if region_text:
             try:
                 want = int(region_text)
@@ -220,7 +242,7 @@ class Stationing:
                         f"station {body.strip()} falls in the gap of the station equation "
                         f"back {self._fmt(eq.back)} = ahead {self._fmt(eq.ahead)}"
                     )
-            raise UsageError(f"station {body.strip()} is not on the profile ({rng})")
+            raise UsageError(f"station {body.strip()} is not on the alignment ({rng})")
         if len(found) > 1:
             options = ", ".join(f"{body.strip()}@{r}" for r, _ in found)
             raise UsageError(

@@ -25,6 +25,11 @@ CAUTION = (
     "design decisions rest with the responsible licensed engineer."
 )
 
+#: Printed in the profile view of a sheet whose alignment has no profile.
+NO_PROFILE_NOTE = (
+    "NO PROFILE: THE FILE HAS NO FINISHED-GRADE PROFILE (ProfAlign) FOR THIS ALIGNMENT"
+)
+
 #: Decimals of numbers in CSV/JSON: far below any survey precision, and enough
 #: to make float noise (1e-12) disappear so outputs are stable.
 DATA_DECIMALS = 6
@@ -316,8 +321,9 @@ def review_headline(
     horizontal_curves: int,
     short_radii: int,
     short_ranges: int,
+    profile: bool = True,
 ) -> str:
-    """First line of a review report.
+    """First line of a review report (``profile`` False: a plan-only review).
 
     Examples
     --------
@@ -325,6 +331,12 @@ def review_headline(
     ...                 horizontal_curves=0, short_radii=0, short_ranges=0)
     'PASS: all 12 checks on 3 vertical curves pass and sight distance is available everywhere'
     """
+    if not profile:
+        return (
+            f"{'FAIL' if failed else 'PASS'}: {_plural(short_radii, 'horizontal curve')} of "
+            f"{horizontal_curves} below the minimum radius; no profile, so vertical curves "
+            "and sight distance were not reviewed"
+        )
     if not failed:
         return (
             f"PASS: all {checks} checks on {vertical_curves} vertical curves"

@@ -32,6 +32,7 @@ def review_summary(rev: Review) -> str:
         horizontal_curves=len(rev.radius_checks),
         short_radii=sum(ch.verdict == "fail" for _, ch in rev.radius_checks),
         short_ranges=len(rev.deficiencies),
+        profile=rev.sight is not None,
     )
 
 
@@ -79,10 +80,16 @@ def review_text(ctx: SolvedAlignment, rev: Review) -> str:
                 f"{'pass' if ch.verdict == 'pass' else ch.verdict.upper()}"
             )
         lines.append("")
-    step = rev.sight.stations[1] - rev.sight.stations[0] if len(rev.sight.stations) > 1 else 0
-    lines.append(f"sight distance along the finished grade (every {step:g} {lu}, both directions):")
-    if not rev.deficiencies:
-        lines.append("  available everywhere")
+    if rev.sight is None:
+        lines.append("sight distance: not reviewed (no profile)")
+    else:
+        sd = rev.sight.stations
+        step = sd[1] - sd[0] if len(sd) > 1 else 0
+        lines.append(
+            f"sight distance along the finished grade (every {step:g} {lu}, both directions):"
+        )
+        if not rev.deficiencies:
+            lines.append("  available everywhere")
     for d in rev.deficiencies:
         what = "stopping" if d.kind == "stopping" else "headlight"
         lines.append(
