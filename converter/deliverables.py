@@ -36,6 +36,7 @@ __all__ = [
     "check_report",
     "curve_table",
     "document_warnings",
+    "unit_hints",
     "open_alignment",
     "plan_dxf",
     "plan_warnings",
@@ -91,6 +92,28 @@ def document_warnings(doc: Document) -> list[GradelineError]:
     return [GradelineError(n.message, n.source, n.element) for n in doc.notices]
 
 
+def unit_hints(solved: SolvedAlignment) -> list[GradelineError]:
+    """A warning when the stated directions fit another angular unit clearly better."""
+    from gradeline.geometry.directions import better_direction_unit
+
+    hz = solved.horizontal
+    assert hz is not None
+    unit = solved.document.units.direction
+    hint = better_direction_unit(hz.alignment, list(hz.elements), unit)
+    if hint is None:
+        return []
+    other, count, total = hint
+    own = hz.convention_matches[0]
+    return [
+        GradelineError(
+            f"directions are read in {unit}, which fits {own} of {total} stated directions; "
+            f"{other} fits {count}: is the file's directionUnit wrong or missing?",
+            hz.alignment.source,
+            "CoordGeom",
+        )
+    ]
+
+
 def plan_warnings(solved: SolvedAlignment) -> list[GradelineError]:
     """Warnings of one alignment: the reader's notices, profiles that could not be read,
     and plan-geometry findings (gaps, kinks). None of them stops a deliverable."""
@@ -99,6 +122,7 @@ def plan_warnings(solved: SolvedAlignment) -> list[GradelineError]:
         out.append(GradelineError(f"profile {bad.name!r} left out: {bad.error}"))
     if solved.horizontal is None:
         return out
+    out += unit_hints(solved)
     for f in solved.horizontal.findings:
         element = next((g.element for g in solved.horizontal.elements if g.index == f.index), "")
         out.append(GradelineError(f.message, f.source, element))

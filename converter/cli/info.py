@@ -19,7 +19,7 @@ def add_parser(sub: Any) -> None:
 
 def describe(path: str) -> dict[str, Any]:
     """What ``info`` reports about a file, as plain data."""
-    from gradeline.deliverables import document_warnings
+    from gradeline.deliverables import document_warnings, unit_hints
     from gradeline.errors import GradelineError
     from gradeline.geometry.directions import CONVENTIONS
     from gradeline.geometry.spirals import SPIRAL_TYPES
@@ -58,6 +58,7 @@ def describe(path: str) -> dict[str, Any]:
             plan = None
             entry["error"] = str(err)
         if plan is not None and plan.horizontal is not None:
+            out["notes"] += [str(w) for w in unit_hints(plan)]
             h = plan.horizontal
             kinds = [g.kind for g in h.elements]
             entry["horizontal"] = {

@@ -25,7 +25,7 @@ from gradeline.model.units import angle_from_unit, angle_to_unit
 if TYPE_CHECKING:
     from gradeline.geometry.horizontal import ElementGeom
 
-__all__ = ["CONVENTIONS", "direction_value", "wrap_angle"]
+__all__ = ["CONVENTIONS", "better_direction_unit", "direction_value", "wrap_angle"]
 
 
 def wrap_angle(a: float) -> float:
@@ -103,3 +103,28 @@ def _detect_convention(horizontal, geoms, unit) -> tuple[str, tuple[int, int]]:
         if count > best_count:
             best, best_count = conv, count
     return best, (best_count, len(pairs))
+
+
+def better_direction_unit(horizontal, geoms, unit: str) -> tuple[str, int, int] | None:
+    """Another angular unit that the stated directions fit clearly better, if any.
+
+    Returns (unit, matches, stated) when some unit other than ``unit`` matches
+    at least half of the stated directions and at least two more than ``unit``
+    does (in its best convention); None otherwise. A file whose units element
+    lacks ``directionUnit`` defaults to radians by the schema, and files in
+    degrees or grads then show up here.
+    """
+    from gradeline.model.units import ANGLE_UNITS
+
+    pairs = _stated_directions(horizontal, geoms)
+    if not pairs:
+        return None
+    _, (own, total) = _detect_convention(horizontal, geoms, unit)
+    best: tuple[str, int, int] | None = None
+    for other in ANGLE_UNITS:
+        if other == unit:
+            continue
+        _, (count, _) = _detect_convention(horizontal, geoms, other)
+        if count >= max(own + 2, (total + 1) // 2) and (best is None or count > best[1]):
+            best = (other, count, total)
+    return best
