@@ -200,13 +200,14 @@ def _off_parts(
 ) -> list[GradelineError]:
     out = []
     covered = solved.on_profile(stations) if solved.geometry is not None else None
+    g = solved.geometry
     for text, on in zip(texts, covered if covered is not None else [], strict=False):
-        if not on:
+        if not on and g is not None:
             out.append(
                 GradelineError(
                     f"station {text.strip()} lies off the profile "
-                    f"({solved.stationing.label(solved.geometry.start)} to "
-                    f"{solved.stationing.label(solved.geometry.end)}); its "
+                    f"({solved.stationing.label(g.start)} to "
+                    f"{solved.stationing.label(g.end)}); its "
                     "elevation and grade are blank"
                 )
             )

@@ -8,6 +8,7 @@ when the geometry is truly broken, with one line naming file, line, element).
 from __future__ import annotations
 
 import json
+import math
 import re
 
 import pytest
@@ -231,3 +232,47 @@ def test_equal_after_rounding_passes(shortfall):
     crit = load_criteria(None, metric=False)
     assert _meets(151.0 * (1 - shortfall), 151.0, crit)
     assert not _meets(151.0 * (1 - 0.002), 151.0, crit)
+
+
+# -- 6. alignments given as a PI list -----------------------------------------------------
+PI_LIST = """    <Alignment name="Old" staStart="0">
+      <AlignPIs>
+        <AlignPI><PI>5000 1000</PI></AlignPI>
+        <AlignPI><PI>5000 3000</PI><Curve1><Curve radius="1000"/></Curve1></AlignPI>
+        <AlignPI><PI>6500 4500</PI><InSpiral><Spiral length="200" spiType="clothoid"/></InSpiral>
+          <Curve1><Curve radius="800"/></Curve1>
+          <OutSpiral><Spiral length="150"/></OutSpiral></AlignPI>
+        <AlignPI>6500 7000</AlignPI>
+      </AlignPIs>
+    </Alignment>
+"""
+
+
+def test_a_pi_list_is_laid_out_into_lines_arcs_and_spirals(tmp_path, capsys):
+    """The laid-out elements join without gap or kink, and the PI recomputed from each
+    curve's own tangents is the PI the file gives (independent of the layout formulas:
+    T = R tan(Δ/2) for a simple curve, common practice; the unequal-spiral tangents)."""
+    from gradeline import read, solve
+
+    path = write(tmp_path, PI_LIST)
+    road = solve(read(path))
+    assert road.horizontal.findings == ()  # continuous and tangent at every join
+    c1, c2 = road.curves
+    assert c1.radius == pytest.approx(1000.0) and c1.tangent_in == pytest.approx(
+        1000.0 * math.tan(math.radians(22.5)), abs=1e-6
+    )
+    assert (c1.pi_northing, c1.pi_easting) == pytest.approx((5000.0, 3000.0), abs=1e-6)
+    assert (c2.pi_northing, c2.pi_easting) == pytest.approx((6500.0, 4500.0), abs=1e-6)
+    assert (c2.spiral_in, c2.spiral_out, c2.radius) == pytest.approx((200.0, 150.0, 800.0))
+    assert math.degrees(c2.delta) == pytest.approx(-45.0, abs=1e-9)  # turning right
+    # the alignment ends on the last PI
+    n, e, _ = road.plan_at([road.horizontal.end])
+    assert (float(n[0]), float(e[0])) == pytest.approx((6500.0, 7000.0), abs=1e-6)
+    code, out, err = run(capsys, "check", path)
+    assert code == 0 and "computed from the AlignPIs list" in err
+
+
+def test_a_curve_that_does_not_fit_its_tangents_is_named(tmp_path, capsys):
+    path = write(tmp_path, PI_LIST.replace('radius="1000"', 'radius="9000"'))
+    code, out, _ = run(capsys, "info", path)
+    assert code == 0 and "AlignPI: the tangents are too short for the curve of radius 9000" in out

@@ -5,7 +5,7 @@ from __future__ import annotations
 import argparse
 from typing import Any
 
-from gradeline.cli._common import add_common, add_ground, add_report, drawing_mapping, emit
+from gradeline.cli._common import add_common, add_ground, add_report, drawing_mapping, emit, warn
 from gradeline.errors import UsageError
 
 NAME = "check"
@@ -102,6 +102,7 @@ def run(args: argparse.Namespace) -> int:
     from gradeline.io import landxml
 
     doc = landxml.read(args.file)
+    warn(dl.document_warnings(doc))
     opts = dl.CheckOptions(args.tolerance, args.angle_tolerance, args.json)
     tol = opts.tolerances()
     findings = dl.check_findings(doc, tol, args.alignment)

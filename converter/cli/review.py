@@ -5,7 +5,7 @@ from __future__ import annotations
 import argparse
 from typing import Any
 
-from gradeline.cli._common import add_common, add_report, emit
+from gradeline.cli._common import add_common, add_report, emit, warn
 
 NAME = "review"
 
@@ -74,5 +74,6 @@ def run(args: argparse.Namespace) -> int:
         args.json,
     )
     text, failed = dl.review_report(solved, opts)
+    warn(dl.plan_warnings(solved))
     emit(text, args.output, [args.file])
     return 1 if failed else 0

@@ -179,6 +179,14 @@ def solve(
     >>> h.end, [round(float(v), 6) for v in evaluate(h, 1250.0)[:2]]
     (1500.0, [150.0, 200.0])
     """
+    if not horizontal.elements:  # a PI list: lay its lines, arcs and spirals out first
+        from dataclasses import replace
+
+        from gradeline.geometry.pi_list import elements_from_pis
+
+        horizontal = replace(
+            horizontal, elements=elements_from_pis(list(horizontal.pis), horizontal.source)
+        )
     geoms: list[ElementGeom] = []
     findings: list[GeometryNote] = []
     station = float(sta_start)

@@ -29,6 +29,7 @@ from gradeline.model import (
     HorizontalAlignment,
     HSpiral,
     Notice,
+    PIEntry,
     Profile,
     PVISpec,
     SourceRef,
@@ -243,6 +244,16 @@ class _Reader:
         )
         coord = _child(el, "CoordGeom")
         horizontal = self.coord_geom(coord) if coord is not None else None
+        pis_el = _child(el, "AlignPIs")
+        if horizontal is None and pis_el is not None:
+            horizontal = self.align_pis(pis_el)
+            if horizontal is not None:
+                self.notice(
+                    "computed",
+                    pis_el,
+                    f"alignment {name!r}: no CoordGeom; lines, "
+                    "arcs and spirals computed from the AlignPIs list",
+                )
         profiles: list[Profile] = []
         grounds: list[GroundProfile] = []
         broken: list[Broken] = []
@@ -343,6 +354,57 @@ class _Reader:
         if value <= 0:
             raise self.fail(el, f"{name} must be positive or INF, got {raw.strip()!r}")
         return value
+
+    def _pi_point(self, el: etree._Element) -> tuple[float, float]:
+        if el.get("pntRef"):
+            raise self.fail(
+                el,
+                "a PI given by pntRef (a CgPoints reference) is not read; "
+                "write its northing and easting",
+            )
+        values = self.numbers(el, "PI coordinate")
+        if len(values) < 2:
+            raise self.fail(el, "expected 'northing easting' for the PI")
+        return values[0], values[1]
+
+    def _pi_part(
+        self, el: etree._Element, wrappers: tuple[str, ...], inner: str
+    ) -> etree._Element | None:
+        """The Curve or Spiral of an AlignPI, written bare or inside its wrapper."""
+        for name in wrappers:
+            w = _child(el, name)
+            if w is not None:
+                return _child(w, inner) if _child(w, inner) is not None else w
+        return None
+
+    def align_pis(self, el: etree._Element) -> HorizontalAlignment | None:
+        """``AlignPIs``: a PI list with curve and spiral data, laid out into elements."""
+        entries = []
+        for api in _children(el, "AlignPI"):
+            pi_el = _child(api, "PI")
+            point = self._pi_point(pi_el if pi_el is not None else api)
+            curve = self._pi_part(api, ("Curve1", "Curve"), "Curve")
+            radius = self.radius_attr(curve, "radius") if curve is not None else None
+            spirals = []
+            for wrappers in (("InSpiral",), ("OutSpiral",)):
+                sp = self._pi_part(api, wrappers, "Spiral")
+                if sp is None:
+                    spirals.append(0.0)
+                    continue
+                kind = sp.get("spiType", "clothoid")
+                if kind != "clothoid":
+                    raise self.fail(
+                        sp,
+                        f"spiral type {kind!r} in an AlignPI is not laid out; only clothoids are",
+                    )
+                spirals.append(self.required(sp, "length"))
+            if any(spirals) and radius is None:
+                raise self.fail(api, "spirals need the curve's radius (Curve1 radius)")
+            stated = self.stated(curve, "Curve") if curve is not None else ()
+            entries.append(PIEntry(point, radius, spirals[0], spirals[1], stated, self.src(api)))
+        if not entries:
+            return None
+        return HorizontalAlignment((), self.src(el), tuple(entries))
 
     def coord_geom(self, el: etree._Element) -> HorizontalAlignment | None:
         elements: list[HElement] = []

@@ -14,6 +14,7 @@ from gradeline.model.plan import (
     HLine,
     HorizontalAlignment,
     HSpiral,
+    PIEntry,
     Point,
     Stated,
 )
@@ -36,6 +37,7 @@ __all__ = [
     "HLine",
     "HSpiral",
     "HorizontalAlignment",
+    "PIEntry",
     "PVISpec",
     "Point",
     "Profile",

@@ -15,6 +15,7 @@ __all__ = [
     "HLine",
     "HSpiral",
     "HorizontalAlignment",
+    "PIEntry",
     "Point",
     "Stated",
 ]
@@ -161,14 +162,35 @@ HElement = HLine | HCurve | HSpiral | HIrregular
 
 
 @dataclass(frozen=True, slots=True)
+class PIEntry:
+    """One ``AlignPI``: the PI (northing, easting) and the curve on it, if any.
+
+    ``radius`` None is an angle point; ``spiral_in``/``spiral_out`` are clothoid
+    lengths (0 for none).
+    """
+
+    point: Point
+    radius: float | None = None
+    spiral_in: float = 0.0
+    spiral_out: float = 0.0
+    curve_stated: Stated = ()
+    source: SourceRef | None = field(default=None, compare=False)
+
+
+@dataclass(frozen=True, slots=True)
 class HorizontalAlignment:
-    """The ``CoordGeom`` of an alignment: its elements in order."""
+    """The ``CoordGeom`` of an alignment: its elements in order.
+
+    An alignment given as a PI list (``AlignPIs``) has ``pis`` and no elements;
+    the solver lays the elements out (:mod:`gradeline.geometry.pi_list`).
+    """
 
     elements: tuple[HElement, ...]
     source: SourceRef | None = field(default=None, compare=False)
+    pis: tuple[PIEntry, ...] = ()
 
     def __post_init__(self) -> None:
-        if not self.elements:
+        if not self.elements and not self.pis:
             raise ModelError(
                 "CoordGeom has no Line, Curve, Spiral or IrregularLine", self.source, "CoordGeom"
             )
