@@ -12,7 +12,6 @@ import math
 from dataclasses import dataclass
 
 import numpy as np
-from reportlab.pdfbase.pdfmetrics import stringWidth
 from reportlab.pdfgen import canvas as rl_canvas
 
 from gradeline.present import labels
@@ -20,7 +19,7 @@ from gradeline.present.items import ArcItem, Circle, Drawing, Path, QuadCurve, T
 from gradeline.present.layout import DraftingLayout, default_layout
 from gradeline.present.plan_drawing import plan_drawing
 from gradeline.present.roles import ROLE_STYLE, Role
-from gradeline.sheets import tables
+from gradeline.sheets import fonts, tables
 from gradeline.sheets.layout import (
     TABLE_ROW,
     Frame,
@@ -123,11 +122,8 @@ def _text(c, item: Text, xf: _Xform, vp: Viewport | None) -> None:
     c.saveState()
     c.translate(x, y)
     c.rotate(rot)
-    c.setFont(FONT, size)
     base = {"bottom": 0.0, "middle": -0.36 * size, "top": -0.72 * size}[valign]
-    w = stringWidth(item.text, FONT, size)
-    dx = {"left": 0.0, "center": -w / 2, "right": -w}[halign]
-    c.drawString(dx, base, item.text)
+    fonts.draw(c, 0.0, base, item.text, size, align=halign)
     c.restoreState()
 
 
@@ -290,20 +286,20 @@ def _title_block(
         c.setFont(FONT, 0.75 * ts)
         c.drawString(x + 0.4 * ts, t.y + t.h - 1.1 * ts, name)
         size = 1.25 * ts if name in ("SHEET", "ALIGNMENT") else ts
-        lines = _wrap(value, FONT, size, w - 0.8 * ts)
+        bold = name in ("SHEET", "ALIGNMENT")
+        lines = _wrap(value, bold, size, w - 0.8 * ts)
         y = t.y + t.h - 2.6 * ts
         for line in lines[: max(1, int((t.h - 2.2 * ts) // (1.25 * size)))]:
-            c.setFont(FONT_BOLD if name in ("SHEET", "ALIGNMENT") else FONT, size)
-            c.drawString(x + 0.4 * ts, y, line)
+            fonts.draw(c, x + 0.4 * ts, y, line, size, bold)
             y -= 1.25 * size
         x += w
 
 
-def _wrap(text: str, font: str, size: float, width: float) -> list[str]:
+def _wrap(text: str, bold: bool, size: float, width: float) -> list[str]:
     words, lines, line = text.split(), [], ""
     for w in words:
         trial = f"{line} {w}".strip()
-        if stringWidth(trial, font, size) <= width or not line:
+        if fonts.text_width(trial, size, bold) <= width or not line:
             line = trial
         else:
             lines.append(line)
@@ -468,8 +464,8 @@ def _table_page(c, geo: SheetGeometry, chunks) -> None:
     for tab, first, last in chunks:
         top -= rh
         c.setFillColorRGB(0, 0, 0)
-        c.setFont(FONT_BOLD, 1.2 * ts)
-        c.drawString(x0, top + 0.45 * ts, tab.title + (" (CONTINUED)" if first else ""))
+        title = tab.title + (" (CONTINUED)" if first else "")
+        fonts.draw(c, x0, top + 0.45 * ts, title, 1.2 * ts, bold=True)
         total_w = sum(tab.widths)
         xs = [x0]
         for w in tab.widths:
@@ -484,14 +480,14 @@ def _table_page(c, geo: SheetGeometry, chunks) -> None:
                 c.rect(x0, y, width, rh, stroke=0, fill=1)
                 c.setFillColorRGB(0, 0, 0)
             c.line(x0, y, x0 + width, y)
-            font = FONT_BOLD if r == 0 else FONT
             for j, cell in enumerate(row):
                 size = 0.9 * ts
                 avail = xs[j + 1] - xs[j] - 0.6 * ts
-                while stringWidth(cell, font, size) > avail and size > 0.5 * ts:
+                while fonts.text_width(cell, size, r == 0) > avail and size > 0.5 * ts:
                     size *= 0.92
-                c.setFont(font, size)
-                c.drawCentredString((xs[j] + xs[j + 1]) / 2, y + 0.55 * ts, cell)
+                fonts.draw(
+                    c, (xs[j] + xs[j + 1]) / 2, y + 0.55 * ts, cell, size, r == 0, align="center"
+                )
         y_end = top - len(rows) * rh
         c.line(x0, top, x0 + width, top)
         for x in xs:

@@ -276,3 +276,39 @@ def test_a_curve_that_does_not_fit_its_tangents_is_named(tmp_path, capsys):
     path = write(tmp_path, PI_LIST.replace('radius="1000"', 'radius="9000"'))
     code, out, _ = run(capsys, "info", path)
     assert code == 0 and "AlignPI: the tangents are too short for the curve of radius 9000" in out
+
+
+# -- 10. names in any script --------------------------------------------------------------
+NAMES = ["Кольцевая дорога", "東京環状道路 Øresund", "Ærøskøbing Å"]
+
+
+@pytest.mark.parametrize("name", NAMES)
+def test_names_in_any_script_survive_every_output(tmp_path, capsys, name):
+    import ezdxf
+    import pypdf
+
+    from gradeline.sheets.fonts import runs, wide_font_path
+    from tests.conftest import METRIC_SAMPLE
+
+    text = METRIC_SAMPLE.read_text(encoding="utf-8").replace('Tarnholm Link Road"', f'{name}"', 1)
+    path = tmp_path / "u.xml"
+    path.write_text(text, encoding="utf-8")
+    assert main(["sheets", str(path), "-o", str(tmp_path / "u.pdf"), "--size", "iso-a3"]) == 0
+    pdf = (tmp_path / "u.pdf").read_bytes()
+    first = pypdf.PdfReader(tmp_path / "u.pdf").pages[0].extract_text()
+    assert all(word in first for word in name.split())
+    needs_own_font = any(font not in ("Helvetica", "Helvetica-Bold") for font, _ in runs(name))
+    if needs_own_font and wide_font_path() is not None:
+        assert b"/FontFile2" in pdf  # the TrueType font travels inside the PDF
+    for version in ("R2010", "R12"):
+        out = tmp_path / f"u-{version}.dxf"
+        assert main(["dxf", str(path), "-o", str(out), "--dxf-version", version]) == 0
+        texts = [t.dxf.text for t in ezdxf.readfile(out).modelspace().query("TEXT")]
+        note = next(t for t in texts if t.startswith("PROFILE "))
+        if version == "R2010":
+            assert name in note  # UTF-8 in R2007 and later
+        else:
+            assert name in note or "\\U+" in note  # escaped for older versions
+    assert main(["curves", str(path), "--format", "json", "-o", str(tmp_path / "c.json")]) == 0
+    assert json.loads((tmp_path / "c.json").read_text(encoding="utf-8"))["alignment"] == name
+    capsys.readouterr()
