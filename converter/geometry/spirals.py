@@ -16,8 +16,14 @@ TWO_PI = 2.0 * math.pi
 
 #: Curvature laws k(t) = k0 + (k1 - k0) * f(t), t = s / L, of the spiral types
 #: gradeline computes (laws as commonly published for these transitions; from
-#: memory). Other LandXML ``spiType`` values are refused by name.
-SPIRAL_TYPES = ("clothoid", "bloss", "cosine", "sinusoid", "biquadratic")
+#: memory). ``weinerBogen`` (Viennese bend) is the seventh-degree law
+#: f = 35t^4 - 84t^5 + 70t^6 - 20t^7, whose curvature and its first three
+#: derivatives are continuous with the line and the arc (the pure-curvature
+#: form, without the cant-dependent term). Other LandXML ``spiType`` values --
+#: those defined along the tangent rather than the arc (cubic parabola,
+#: Japanese cubic, sine half-wave, biquadratic parabola) and the ``rev*``,
+#: ``cubic`` and ``radioid`` forms -- are refused by name.
+SPIRAL_TYPES = ("clothoid", "bloss", "cosine", "sinusoid", "biquadratic", "weinerBogen")
 _LAW = {
     "line": 0,
     "arc": 0,
@@ -26,6 +32,7 @@ _LAW = {
     "cosine": 3,
     "sinusoid": 4,
     "biquadratic": 5,
+    "weinerBogen": 6,
 }
 
 _GL_T, _GL_W = np.polynomial.legendre.leggauss(8)
@@ -50,6 +57,10 @@ def _shape(law: NDArray[np.intp], t: NDArray[np.float64]) -> NDArray[np.float64]
     if m.any():
         tt = t[m]
         out[m] = np.where(tt <= 0.5, 2.0 * tt * tt, 1.0 - 2.0 * (1.0 - tt) ** 2)
+    m = law == 6
+    if m.any():
+        tt = t[m]
+        out[m] = tt**4 * (35.0 - 84.0 * tt + 70.0 * tt * tt - 20.0 * tt**3)
     return out
 
 
@@ -72,6 +83,10 @@ def _shape_integral(law: NDArray[np.intp], t: NDArray[np.float64]) -> NDArray[np
     if m.any():
         tt = t[m]
         out[m] = np.where(tt <= 0.5, 2.0 * tt**3 / 3.0, tt + 2.0 * (1.0 - tt) ** 3 / 3.0 - 0.5)
+    m = law == 6
+    if m.any():
+        tt = t[m]
+        out[m] = tt**5 * (7.0 - 14.0 * tt + 10.0 * tt * tt - 2.5 * tt**3)
     return out
 
 
