@@ -159,7 +159,7 @@ def runs(text: str, bold: bool = False) -> list[tuple[str, str]]:
     >>> runs("Main St")
     [('Helvetica', 'Main St')]
     >>> [piece for _, piece in runs("東京 Øresund")]
-    ['東京', ' Øresund']
+    ['東京 ', 'Øresund']
     """
     try:
         text.encode("cp1252")
