@@ -168,8 +168,12 @@ def test_duplicate_alignment_names():
     start = data.index(b"<Alignment ")
     end = data.index(b"</Alignment>") + len(b"</Alignment>")
     data = data[:end] + data[start:end] + data[end:]
-    with pytest.raises(InputError, match="alignment name 'Main' is used twice"):
-        landxml.parse_bytes(data, "dup.xml")
+    doc = landxml.parse_bytes(data, "dup.xml")  # issue 14: the first reads, the second not
+    assert [a.name for a in doc.alignments] == ["Main"]
+    (bad,) = doc.broken
+    assert bad.name.startswith("Main (line ")
+    with pytest.raises(InputError, match=r"^dup.xml:\d+: Alignment: alignment name 'Main' is used"):
+        doc.alignment(bad.name)
 
 
 def test_unsupported_unit():

@@ -150,12 +150,14 @@ class _Reader:
         for group in _children(root, "Alignments"):
             for al_el in _children(group, "Alignment"):
                 name = al_el.get("name") or f"(unnamed, line {al_el.sourceline})"
-                if name in seen:
-                    raise self.fail(
+                if name in seen:  # the first keeps the name; this one is reported
+                    err = self.fail(
                         al_el,
                         f"alignment name {name!r} is used twice (first at line "
-                        f"{seen[name]}); names must be unique",
+                        f"{seen[name]}); names must be unique, so this one is not read",
                     )
+                    broken.append(Broken(f"{name} (line {al_el.sourceline})", err))
+                    continue
                 seen[name] = al_el.sourceline or 0
                 try:  # one broken alignment never blocks the others
                     alignments.append(self.alignment(al_el))
