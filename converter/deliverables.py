@@ -213,9 +213,8 @@ def _off_parts(
             )
     if solved.horizontal is not None:
         hz = solved.horizontal
-        tol = solved.stationing.end_tolerance(solved.start, solved.end)
-        for text, s in zip(texts, stations, strict=True):
-            if not (hz.start - tol <= s <= hz.end + tol):
+        for text, on in zip(texts, solved.on_plan(stations), strict=True):
+            if not on:
                 out.append(
                     GradelineError(
                         f"station {text.strip()} lies off the plan "

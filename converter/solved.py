@@ -25,7 +25,7 @@ from gradeline.geometry.curve_data import key_points as plan_key_points
 from gradeline.geometry.horizontal import HorizontalGeometry
 from gradeline.geometry.stations import Stationing
 from gradeline.geometry.vertical import JOIN_TOLERANCE, KeyPoint, VerticalGeometry
-from gradeline.model import Alignment, Document, Profile, SourceRef, Surface
+from gradeline.model import Alignment, Document, Profile, SourceRef, Surface, Units
 
 if TYPE_CHECKING:
     from gradeline.geometry.ground import TriangleIndex
@@ -83,13 +83,21 @@ class SolvedAlignment:
         return self._span[1]
 
     @cached_property
+    def tolerance(self) -> float:
+        """How close to an end a station counts as on it (:meth:`Stationing.end_tolerance`)."""
+        parts = [p for p in (self.geometry, self.horizontal) if p is not None]
+        assert parts, "a solved alignment has a plan or a profile"
+        lo, hi = min(p.start for p in parts), max(p.end for p in parts)
+        return self.stationing.end_tolerance(lo, hi)
+
+    @cached_property
     def _span(self) -> tuple[float, float]:
         g, h = self.geometry, self.horizontal
         if g is None or h is None:
             geom = g if g is not None else h
             assert geom is not None, "a solved alignment has a plan or a profile"
             return geom.start, geom.end
-        tol = self.stationing.end_tolerance(min(g.start, h.start), max(g.end, h.end))
+        tol = self.tolerance
         lo = g.start if abs(g.start - h.start) <= tol else min(g.start, h.start)
         hi = g.end if abs(g.end - h.end) <= tol else max(g.end, h.end)
         return lo, hi
@@ -108,14 +116,22 @@ class SolvedAlignment:
 
     def on_profile(self, stations: ArrayLike) -> NDArray[np.bool_]:
         """Which internal stations the profile covers (within the end tolerance)."""
+        return self._covers(self.geometry, stations)
+
+    def on_plan(self, stations: ArrayLike) -> NDArray[np.bool_]:
+        """Which internal stations the plan covers (within the end tolerance)."""
+        return self._covers(self.horizontal, stations)
+
+    def _covers(
+        self, part: VerticalGeometry | HorizontalGeometry | None, stations: ArrayLike
+    ) -> NDArray[np.bool_]:
         s = np.asarray(stations, dtype=np.float64)
-        if self.geometry is None:
+        if part is None:
             return np.zeros(s.shape, dtype=bool)
-        tol = self.stationing.end_tolerance(self.start, self.end)
-        return (s >= self.geometry.start - tol) & (s <= self.geometry.end + tol)
+        return (s >= part.start - self.tolerance) & (s <= part.end + self.tolerance)
 
     @property
-    def units(self):  # noqa: ANN201 - Units; kept short for the many callers
+    def units(self) -> Units:
         """The document's units."""
         return self.document.units
 
@@ -148,7 +164,7 @@ class SolvedAlignment:
         for k in self.vertical_key_points:
             found += [(k.station, tag) for tag in k.tags]
         lo, hi = self.start, self.end
-        tol = self.stationing.end_tolerance(lo, hi)
+        tol = self.tolerance
         for station, tag in self.plan_key_points:  # plan ends within rounding of the span's
             if abs(station - lo) <= tol:
                 station = lo
@@ -178,7 +194,7 @@ class SolvedAlignment:
     def _snap(self, stations: ArrayLike, lo: float, hi: float) -> ArrayLike:
         """Stations within the end tolerance of [lo, hi] moved onto the end."""
         s = np.asarray(stations, dtype=np.float64)
-        tol = self.stationing.end_tolerance(self.start, self.end)
+        tol = self.tolerance
         near_lo = (s < lo) & (s >= lo - tol)
         near_hi = (s > hi) & (s <= hi + tol)
         if not (near_lo.any() or near_hi.any()):

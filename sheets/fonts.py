@@ -23,7 +23,7 @@ from reportlab.pdfbase import pdfmetrics
 from reportlab.pdfbase.cidfonts import UnicodeCIDFont
 from reportlab.pdfbase.ttfonts import TTFont
 
-__all__ = ["BASE", "BASE_BOLD", "draw", "font_for", "runs", "text_width", "wide_font_path"]
+__all__ = ["BASE", "BASE_BOLD", "draw", "runs", "text_width", "wide_font_path"]
 
 BASE = "Helvetica"
 BASE_BOLD = "Helvetica-Bold"
@@ -113,29 +113,6 @@ def _register_wide(bold: bool) -> str | None:
     return name
 
 
-@cache
-def font_for(text: str, bold: bool = False) -> str:
-    """The font to draw ``text`` with.
-
-    Examples
-    --------
-    >>> font_for("Orrin Vale Bypass"), font_for("Tarnholm Ø", bold=True)
-    ('Helvetica', 'Helvetica-Bold')
-    >>> font_for("東京環状") in (_CJK_TTF, _CID_JAPANESE)
-    True
-    """
-    try:
-        text.encode("cp1252")
-        return BASE_BOLD if bold else BASE
-    except UnicodeEncodeError:
-        pass
-    for ch in text:
-        cid = _cjk(ch)
-        if cid is not None:
-            return _register_cjk_ttf() or _register_cid(cid)
-    return _register_wide(bold) or (BASE_BOLD if bold else BASE)
-
-
 def _char_font(ch: str, bold: bool) -> str:
     try:
         ch.encode("cp1252")
@@ -156,8 +133,10 @@ def runs(text: str, bold: bool = False) -> list[tuple[str, str]]:
 
     Examples
     --------
-    >>> runs("Main St")
-    [('Helvetica', 'Main St')]
+    >>> runs("Main St"), runs("Tarnholm Ø", bold=True)
+    ([('Helvetica', 'Main St')], [('Helvetica-Bold', 'Tarnholm Ø')])
+    >>> runs("東京環状")[0][0] in (_CJK_TTF, _CID_JAPANESE)
+    True
     >>> [piece for _, piece in runs("東京 Øresund")]
     ['東京 ', 'Øresund']
     """
