@@ -198,12 +198,138 @@ def test_viennese_bend_joins_line_and_arc_smoothly():
         assert abs(first) < 1e-8  # flat within the finite-difference noise
 
 
-@pytest.mark.parametrize(
-    "kind", ["cubicParabola", "japaneseCubic", "radioid", "revBloss", "sineHalfWave"]
-)
-def test_unsupported_spiral_refused_by_name(kind):
-    sp = HSpiral((0.0, 0.0), (0.0, 100.0), 100.0, math.inf, 300.0, "cw", kind, pi=(0.0, 10.0))
-    with pytest.raises(ModelError, match=f"spiral type '{kind}' is not supported"):
+@pytest.mark.parametrize("kind", sorted(LAWS))
+def test_arc_laws_are_point_symmetric_so_reversed_types_are_the_same_law(kind):
+    """f(t) + f(1 - t) = 1 for every law above: travelled from the arc to the tangent,
+    the curvature follows the same law, so revBloss etc. are computed as Bloss etc."""
+    f = LAWS[kind]
+    for t in np.linspace(0, 1, 11):
+        assert f(t) + f(1 - t) == pytest.approx(1.0, abs=1e-12)
+
+
+@pytest.mark.parametrize("base", ["biquadratic", "bloss", "cosine", "sinusoid"])
+def test_reversed_spiral_types_from_arc_to_tangent(base):
+    """A rev* spiral from R = 300 to a tangent, against scipy quad of the law run from
+    k0 = 1/R down to 0: k(s) = (1 - f(s / L)) / R."""
+    L, R = 150.0, 300.0
+    rev = "rev" + base[0].upper() + base[1:]
+    sp = HSpiral((0.0, 0.0), (0.0, 0.0), L, R, math.inf, "ccw", rev, pi=(10.0, 0.0))
+    h = H.solve(HorizontalAlignment((sp,)))
+    f = LAWS[base]
+    th = lambda s: math.pi / 2 + integrate.quad(lambda u: (1 - f(u / L)) / R, 0, s)[0]  # noqa: E731
+    for s in (40.0, 150.0):
+        x = integrate.quad(lambda u: math.cos(th(u)), 0, s, epsabs=1e-12)[0]
+        y = integrate.quad(lambda u: math.sin(th(u)), 0, s, epsabs=1e-12)[0]
+        n, e, hd = H.evaluate(h, s)
+        assert (float(e), float(n), float(hd)) == pytest.approx((x, y, th(s)), abs=1e-8)
+
+
+# Forms given by an equation from the tangent (from memory, as commonly published):
+# the cubic parabola y = x^3/(6RX) (also the Japanese cubic); the biquadratic parabola
+# and the sine half-wave, whose y'' follows the biquadratic and half-wave laws in x; the
+# radioid on the abscissa, curvature proportional to x, sin(theta) = x^2/(2RX); the
+# cubic spiral, y = s^3/(6RL) along the arc. The reference below uses only scipy quad
+# and brentq on these equations: X from the arc length, then x from the station.
+SLOPE_LAWS = {
+    "cubicParabola": lambda xi: xi,
+    "japaneseCubic": lambda xi: xi,
+    "biquadraticParabola": lambda xi: 2 * xi * xi if xi <= 0.5 else 1 - 2 * (1 - xi) ** 2,
+    "sineHalfWave": lambda xi: (1 - math.cos(math.pi * xi)) / 2,
+}
+
+
+def _reference_tangent_form(kind, R, L, s):
+    """(x along the tangent, y towards the curve, theta) at arc length s."""
+    from scipy.optimize import brentq
+
+    if kind == "cubic":
+        sin_t = lambda u: u * u / (2 * R * L)  # noqa: E731
+        x = integrate.quad(lambda u: math.sqrt(1 - sin_t(u) ** 2), 0, s, epsabs=1e-13)[0]
+        return x, s**3 / (6 * R * L), math.asin(sin_t(s))
+    if kind == "radioid":
+
+        def slope(t, X):
+            st = t * t / (2 * R * X)
+            return st / math.sqrt(1 - st * st)
+    else:
+        g = SLOPE_LAWS[kind]
+
+        def slope(t, X):
+            return integrate.quad(lambda u: g(u / X) / R, 0, t, epsabs=1e-14, points=[X / 2])[0]
+
+    def arc(x, X):
+        return integrate.quad(lambda t: math.sqrt(1 + slope(t, X) ** 2), 0, x, epsabs=1e-13)[0]
+
+    X = brentq(lambda X: arc(X, X) - L, 0.5 * L, L, xtol=1e-13)
+    x = brentq(lambda x: arc(x, X) - s, 0.0, X, xtol=1e-13)
+    y = integrate.quad(lambda t: slope(t, X), 0, x, epsabs=1e-13)[0]
+    return x, y, math.atan(slope(x, X))
+
+
+@pytest.mark.parametrize("kind", H.TANGENT_FORMS)
+@pytest.mark.parametrize("rot", ["ccw", "cw"])
+def test_tangent_forms_match_their_equations(kind, rot):
+    L, R = 120.0, 250.0
+    sp = HSpiral((0.0, 0.0), (0.0, 0.0), L, math.inf, R, rot, kind, pi=(10.0, 0.0))
+    h = H.solve(HorizontalAlignment((sp,)))
+    side = 1.0 if rot == "ccw" else -1.0  # heading north: left is west (-easting)
+    for s in (30.0, 77.0, 120.0):
+        x, y, theta = _reference_tangent_form(kind, R, L, s)
+        n, e, hd = H.evaluate(h, s)
+        assert float(n) == pytest.approx(x, abs=1e-7)
+        assert float(e) == pytest.approx(-side * y, abs=1e-7)
+        assert float(hd) == pytest.approx(math.pi / 2 + side * theta, abs=1e-9)
+
+
+def test_cubic_parabola_closed_form_and_end_curvature():
+    """y = x^3 / (6 R X) exactly, and the exact curvature at the end is
+    (1/R) / (1 + y'^2)^(3/2) with y' = X / (2R): slightly below 1/R."""
+    L, R = 100.0, 300.0
+    sp = HSpiral((0.0, 0.0), (0.0, 0.0), L, math.inf, R, "ccw", "cubicParabola", pi=(0.0, 10.0))
+    h = H.solve(HorizontalAlignment((sp,)))
+    g = h.elements[0]
+    X = g.x1
+    assert g.y1 == pytest.approx(X**3 / (6 * R * X), rel=1e-13)
+    arc = integrate.quad(lambda t: math.sqrt(1 + (t * t / (2 * R * X)) ** 2), 0, X)[0]
+    assert arc == pytest.approx(L, rel=1e-13)
+    assert g.k1 == pytest.approx(1 / R / (1 + (X / (2 * R)) ** 2) ** 1.5, rel=1e-12)
+
+
+@pytest.mark.parametrize("kind", H.TANGENT_FORMS)
+def test_tangent_form_from_arc_to_tangent_is_the_same_curve_backwards(kind):
+    L, R = 90.0, 200.0
+    fwd = H.solve(
+        HorizontalAlignment(
+            (HSpiral((0.0, 0.0), (0.0, 0.0), L, math.inf, R, "cw", kind, pi=(10.0, 0.0)),)
+        )
+    )
+    g = fwd.elements[0]
+    pi = (g.y1 + math.sin(g.heading1 + math.pi), g.x1 + math.cos(g.heading1 + math.pi))
+    back = H.solve(
+        HorizontalAlignment(
+            (HSpiral((g.y1, g.x1), (0.0, 0.0), L, R, math.inf, "ccw", kind, pi=pi),)
+        )
+    )
+    s = np.linspace(0, L, 7)
+    n1, e1, h1 = H.evaluate(fwd, L - s)
+    n2, e2, h2 = H.evaluate(back, s)
+    assert_allclose(n2, n1, atol=1e-9)
+    assert_allclose(e2, e1, atol=1e-9)
+    assert_allclose(np.cos(h2 - h1), -1.0, atol=1e-12)
+    assert_allclose(H.curvature(back, s), -H.curvature(fwd, L - s), atol=1e-15)
+
+
+def test_tangent_form_between_two_radii_is_refused():
+    sp = HSpiral(
+        (0.0, 0.0), (0.0, 100.0), 100.0, 900.0, 300.0, "cw", "cubicParabola", pi=(0.0, 10.0)
+    )
+    with pytest.raises(ModelError, match="runs between a tangent and an arc"):
+        H.solve(HorizontalAlignment((sp,)))
+
+
+def test_unknown_spiral_type_refused_by_name():
+    sp = HSpiral((0.0, 0.0), (0.0, 100.0), 100.0, math.inf, 300.0, "cw", "helix", pi=(0.0, 10.0))
+    with pytest.raises(ModelError, match="spiral type 'helix' is not a LandXML 1.2 spiType"):
         H.solve(HorizontalAlignment((sp,)))
 
 

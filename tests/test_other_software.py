@@ -272,10 +272,152 @@ def test_a_pi_list_is_laid_out_into_lines_arcs_and_spirals(tmp_path, capsys):
     assert code == 0 and "computed from the AlignPIs list" in err
 
 
+@pytest.mark.parametrize(
+    ("kind_in", "kind_out"), [("bloss", "cubicParabola"), ("radioid", "revCosine")]
+)
+def test_a_pi_list_lays_out_spirals_of_any_type(tmp_path, capsys, kind_in, kind_out):
+    """The same PI list with other spiral types: still continuous and tangent at every
+    join, and each curve's own tangents still meet at the file's PI."""
+    from gradeline import read, solve
+
+    body = PI_LIST.replace('spiType="clothoid"', f'spiType="{kind_in}"').replace(
+        '<Spiral length="150"/>', f'<Spiral length="150" spiType="{kind_out}"/>'
+    )
+    road = solve(read(write(tmp_path, body)))
+    assert road.horizontal.findings == ()
+    c2 = road.curves[1]
+    assert (c2.pi_northing, c2.pi_easting) == pytest.approx((6500.0, 4500.0), abs=1e-6)
+    assert [g.kind for g in road.horizontal.elements[3:6]] == [kind_in, "arc", kind_out]
+    assert (c2.spiral_in, c2.spiral_out) == pytest.approx((200.0, 150.0))
+
+
+POINTS = """  <CgPoints>
+    <CgPoint name="P1">5000 1000</CgPoint><CgPoint name="P2">5000 3000</CgPoint>
+    <CgPoint name="P3">6500 4500 12.5</CgPoint><CgPoint name="P4">6500 7000</CgPoint>
+  </CgPoints>
+"""
+
+
+def test_points_given_by_reference_to_cgpoints(tmp_path, capsys):
+    """LandXML points may name a CgPoint (pntRef) instead of giving coordinates."""
+    from gradeline import read, solve
+
+    body = PI_LIST.replace("<PI>5000 1000</PI>", '<PI pntRef="P1"/>')
+    body = body.replace("<PI>6500 4500</PI>", '<PI pntRef="P3"></PI>')
+    plain = solve(read(write(tmp_path, PI_LIST, name="plain.xml")))
+    path = tmp_path / "ref.xml"
+    path.write_text(
+        HEAD.format(units=DEG).replace("  <Alignments>", POINTS + "  <Alignments>") + body + TAIL
+    )
+    road = solve(read(path))
+    assert road.horizontal.elements == plain.horizontal.elements
+    line = PLAN.replace("<Start>5000 1000</Start>", '<Start pntRef="P1"/>')
+    path.write_text(
+        HEAD.format(units=DEG).replace("  <Alignments>", POINTS + "  <Alignments>")
+        + '    <Alignment name="L" staStart="0">\n'
+        + line
+        + "    </Alignment>\n"
+        + TAIL
+    )
+    (g,) = solve(read(path)).horizontal.elements
+    assert (g.x0, g.y0, g.length) == (1000.0, 5000.0, 1000.0)
+    path.write_text(path.read_text().replace('pntRef="P1"', 'pntRef="P9"'))
+    code, out, err = run(capsys, "info", path)
+    assert code == 0 and "pntRef 'P9' names no CgPoint in this file" in out
+
+
 def test_a_curve_that_does_not_fit_its_tangents_is_named(tmp_path, capsys):
     path = write(tmp_path, PI_LIST.replace('radius="1000"', 'radius="9000"'))
     code, out, _ = run(capsys, "info", path)
     assert code == 0 and "AlignPI: the tangents are too short for the curve of radius 9000" in out
+
+
+# -- 9. every LandXML 1.2 spiral type -----------------------------------------------------
+def _meet(g):
+    """(x, y) where the tangents at the two ends of element ``g`` intersect."""
+    c0, s0, c1, s1 = (
+        math.cos(g.heading0),
+        math.sin(g.heading0),
+        math.cos(g.heading1),
+        math.sin(g.heading1),
+    )
+    t = ((g.x1 - g.x0) * s1 - (g.y1 - g.y0) * c1) / (c0 * s1 - s0 * c1)
+    return g.x0 + t * c0, g.y0 + t * s0
+
+
+def _spiral_road(kind):
+    """Line - spiral in - arc - spiral out - line, the spirals of ``kind``; every Start,
+    End, Center and PI written from the geometry, so a check must find nothing."""
+    from gradeline.geometry import horizontal as H
+    from gradeline.model import HorizontalAlignment, HSpiral
+
+    R, Ls, sweep = 800.0, 200.0, math.radians(12.0)
+    x0, y0 = 1500.0, 5000.0  # spiral start (easting, northing), heading east
+    sp = HSpiral((y0, x0), (0.0, 0.0), Ls, math.inf, R, "ccw", kind, pi=(y0, x0 + 10.0))
+    g = H.solve(HorizontalAlignment((sp,))).elements[0]
+    xc, yc = g.x1 - R * math.sin(g.heading1), g.y1 + R * math.cos(g.heading1)
+    a1 = math.atan2(g.y1 - yc, g.x1 - xc)
+    xa, ya = xc + R * math.cos(a1 + sweep), yc + R * math.sin(a1 + sweep)
+    h2 = g.heading1 + sweep
+    pi2 = (ya + math.sin(h2), xa + math.cos(h2))
+    out = H.solve(
+        HorizontalAlignment((HSpiral((ya, xa), (0, 0), Ls, R, math.inf, "ccw", kind, pi=pi2),))
+    ).elements[0]
+    xe, ye = out.x1 + 500.0 * math.cos(out.heading1), out.y1 + 500.0 * math.sin(out.heading1)
+    pi1, pi2 = _meet(g), _meet(out)  # the PI is where the two tangents meet
+    end = 500.0 + 2 * Ls + R * sweep + 500.0
+    return f"""    <Alignment name="{kind}" staStart="0">
+      <CoordGeom>
+        <Line><Start>{y0} 1000</Start><End>{y0} {x0}</End></Line>
+        <Spiral length="{Ls}" radiusStart="INF" radiusEnd="{R}" rot="ccw" spiType="{kind}">
+          <Start>{y0} {x0}</Start><PI>{pi1[1]!r} {pi1[0]!r}</PI>
+          <End>{g.y1!r} {g.x1!r}</End></Spiral>
+        <Curve rot="ccw" radius="{R}"><Start>{g.y1!r} {g.x1!r}</Start>
+          <Center>{yc!r} {xc!r}</Center><End>{ya!r} {xa!r}</End></Curve>
+        <Spiral length="{Ls}" radiusStart="{R}" radiusEnd="INF" rot="ccw" spiType="{kind}">
+          <Start>{ya!r} {xa!r}</Start><PI>{pi2[1]!r} {pi2[0]!r}</PI>
+          <End>{out.y1!r} {out.x1!r}</End></Spiral>
+        <Line><Start>{out.y1!r} {out.x1!r}</Start><End>{ye!r} {xe!r}</End></Line>
+      </CoordGeom>
+      <Profile name="{kind}"><ProfAlign name="FG"><PVI>0 100</PVI>
+        <ParaCurve length="400">700 110</ParaCurve><PVI>{end!r} 105</PVI></ProfAlign></Profile>
+    </Alignment>
+"""
+
+
+def test_every_landxml_spiral_type_gets_every_deliverable(tmp_path, capsys):
+    from gradeline import read, solve
+    from gradeline.geometry.spirals import SPIRAL_TYPES
+
+    path = write(tmp_path, "".join(_spiral_road(k) for k in SPIRAL_TYPES))
+    for kind in SPIRAL_TYPES:
+        road = solve(read(path), kind)
+        assert road.horizontal.findings == (), kind  # no gap, kink or missed End
+        (c,) = road.curves
+        assert (c.spiral_in, c.spiral_out, c.radius) == pytest.approx((200.0, 200.0, 800.0))
+        assert c.spiral_type == kind
+    assert run(capsys, "info", path)[0] == 0
+    for kind in ("cubicParabola", "radioid", "revBloss", "weinerBogen"):
+        for argv in (
+            ("table", path, "--alignment", kind, "--interval", "100"),
+            ("curves", path, "--alignment", kind),
+            ("check", path, "--alignment", kind),
+            (
+                "dxf",
+                path,
+                "--alignment",
+                kind,
+                "--plan",
+                tmp_path / f"{kind}-plan.dxf",
+                "-o",
+                tmp_path / f"{kind}.dxf",
+            ),
+            ("sheets", path, "--alignment", kind, "-o", tmp_path / f"{kind}.pdf"),
+        ):
+            code, out, err = run(capsys, *argv)
+            assert code == 0, (argv, out, err)
+        code, _, err = run(capsys, "review", path, "--alignment", kind, "--speed", "50")
+        assert code in (0, 1) and "Traceback" not in err
 
 
 # -- 10. names in any script --------------------------------------------------------------

@@ -33,12 +33,14 @@ from gradeline.geometry.spirals import (
     _GL_W,
     _LAW,
     SPIRAL_TYPES,
+    TANGENT_LAW,
     TWO_PI,
     _integrate_spiral,
     _panels,
     _shape,
     _shape_integral,
 )
+from gradeline.geometry.tangent_forms import TANGENT_FORMS, TangentForm, place
 from gradeline.model import (
     HCurve,
     HElement,
@@ -51,6 +53,7 @@ from gradeline.model import (
 
 __all__ = [
     "SPIRAL_TYPES",
+    "TANGENT_FORMS",
     "ElementGeom",
     "GeometryNote",
     "HorizontalGeometry",
@@ -96,6 +99,7 @@ class ElementGeom:
     heading1: float
     center: tuple[float, float] | None = None
     source: SourceRef | None = field(default=None, compare=False)
+    form: TangentForm | None = field(default=None, compare=False, repr=False)
 
     @property
     def end_station(self) -> float:
@@ -297,9 +301,8 @@ def _arc(index: int, el: HCurve, station: float, prev: ElementGeom | None) -> El
 def _spiral(index: int, el: HSpiral, station: float, prev: ElementGeom | None) -> ElementGeom:
     if el.spi_type not in SPIRAL_TYPES:
         raise ModelError(
-            f"spiral type {el.spi_type!r} is not supported; gradeline computes "
-            + ", ".join(SPIRAL_TYPES)
-            + " spirals from their curvature laws",
+            f"spiral type {el.spi_type!r} is not a LandXML 1.2 spiType; gradeline computes "
+            + ", ".join(SPIRAL_TYPES),
             el.source,
             "Spiral",
         )
@@ -318,6 +321,8 @@ def _spiral(index: int, el: HSpiral, station: float, prev: ElementGeom | None) -
             el.source,
             "Spiral",
         )
+    if el.spi_type in TANGENT_FORMS:
+        return _tangent_form(index, el, station, xs, ys, h0, sign)
     law = _LAW[el.spi_type]
     dk = k1 - k0
     L = el.length
@@ -338,6 +343,44 @@ def _spiral(index: int, el: HSpiral, station: float, prev: ElementGeom | None) -
     h1 = h0 + k0 * L + dk * L * float(_shape_integral(np.array([law]), np.array([1.0]))[0])
     return ElementGeom(
         index, el.spi_type, station, L, xs, ys, h0, k0, k1, x, y, h1, None, el.source
+    )
+
+
+def _tangent_form(
+    index: int, el: HSpiral, station: float, xs: float, ys: float, h0: float, sign: float
+) -> ElementGeom:
+    """A transition given by its equation from the tangent: it must touch one."""
+    start_inf, end_inf = math.isinf(el.radius_start), math.isinf(el.radius_end)
+    if start_inf == end_inf:
+        raise ModelError(
+            f"a {el.spi_type} transition runs between a tangent and an arc; this one has "
+            f"radii {el.radius_start:g} and {el.radius_end:g}",
+            el.source,
+            "Spiral",
+        )
+    radius = el.radius_start if end_inf else el.radius_end
+    try:
+        form = place(el.spi_type, radius, el.length, end_inf, sign, (xs, ys), h0)
+    except ValueError as exc:
+        raise ModelError(str(exc), el.source, "Spiral") from None
+    d = np.array([0.0, el.length])
+    x, y, h, k = form.state(d)
+    return ElementGeom(
+        index,
+        el.spi_type,
+        station,
+        el.length,
+        xs,
+        ys,
+        h0,
+        float(k[0]),
+        float(k[1]),
+        float(x[1]),
+        float(y[1]),
+        float(h[1]),
+        None,
+        el.source,
+        form,
     )
 
 
@@ -403,6 +446,8 @@ def _assemble(horizontal, geoms, findings, convention, matches) -> HorizontalGeo
     panel_s, panel_x, panel_y = [], [], []
     for g in geoms:
         law = _LAW[g.kind]
+        if law == TANGENT_LAW:
+            law = 0  # evaluated by its TangentForm, not by panels
         n = _panels(law, g.length, g.k0, g.k1 - g.k0) if law else 1
         x, y = g.x0, g.y0
         for i in range(n):
@@ -456,7 +501,12 @@ def _state(geom: HorizontalGeometry, s: NDArray[np.float64]):
     chord = d * np.sinc(half / np.pi)
     x = geom.x0[idx] + chord * np.cos(h0 + half)
     y = geom.y0[idx] + chord * np.sin(h0 + half)
-    sp = np.flatnonzero(law > 0)
+    for e in np.unique(idx[law == TANGENT_LAW]):
+        m = idx == e
+        form = geom.elements[e].form
+        assert form is not None
+        x[m], y[m], heading[m], kappa[m] = form.state(d[m])
+    sp = np.flatnonzero((law > 0) & (law != TANGENT_LAW))
     if sp.size:
         e = idx[sp]
         lw = law[sp]

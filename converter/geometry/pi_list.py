@@ -1,7 +1,7 @@
 """Plan geometry from a list of PIs (``AlignPIs``), as older exporters write it.
 
-Each interior PI may carry a circular curve of radius R and clothoid spirals
-of lengths Ls1 (in) and Ls2 (out). From the tangents between PIs this module
+Each interior PI may carry a circular curve of radius R and spirals of lengths
+Ls1 (in) and Ls2 (out), of any LandXML spiral type. From the tangents between PIs this module
 lays out the lines, arcs and spirals as ``CoordGeom`` would state them, so the
 ordinary solver computes (and checks) the rest.
 
@@ -9,8 +9,9 @@ Layout (common practice; the unequal-spiral tangents from memory):
 
 * deflection Δ between the back and the ahead tangent, positive turning left;
 * a simple curve: T = R tan(Δ/2), PC = PI - T·d_in, PT = PI + T·d_out;
-* with spirals: θs = Ls / (2R); the spiral end (Xs, Ys) in its tangent's frame
-  (integrated exactly, see :mod:`gradeline.geometry.spirals`); shift
+* with spirals: θs the spiral's turning (Ls / (2R) for every law along the arc,
+  whose mean is 1/2) and the spiral end (Xs, Ys) in its tangent's frame (both
+  computed exactly, see :mod:`gradeline.geometry.spirals`); shift
   p = Ys - R (1 - cos θs) and k = Xs - R sin θs; then
   T1 = k1 + (R + p1) tan(Δ/2) - (p1 - p2) / sin Δ and
   T2 = k2 + (R + p2) tan(Δ/2) + (p1 - p2) / sin Δ;
@@ -21,8 +22,11 @@ from __future__ import annotations
 
 import math
 
+import numpy as np
+
 from gradeline.errors import ModelError
-from gradeline.geometry.spirals import _integrate_spiral
+from gradeline.geometry.spirals import _LAW, SPIRAL_TYPES, TANGENT_LAW, _integrate_spiral
+from gradeline.geometry.tangent_forms import place
 from gradeline.model import HCurve, HElement, HLine, HSpiral, PIEntry, Point, SourceRef
 
 __all__ = ["elements_from_pis"]
@@ -45,10 +49,31 @@ def _at(p: Point, u: tuple[float, float], t: float) -> Point:
     return p[0] + t * u[0], p[1] + t * u[1]
 
 
-def _spiral_xy(length: float, radius: float) -> tuple[float, float]:
-    """End of a clothoid from a tangent (curvature 0 to 1/R) in the tangent's frame."""
-    x, y = _integrate_spiral(1, length, 0.0, 0.0, 1.0 / radius, 0.0, length)
-    return x, y
+def _spiral_end(kind: str, length: float, radius: float, src) -> tuple[float, float, float]:
+    """End (x, y) and turning of a spiral from a tangent to radius R, in the tangent's frame."""
+    if kind not in SPIRAL_TYPES:
+        raise ModelError(
+            f"spiral type {kind!r} is not a LandXML 1.2 spiType; gradeline computes "
+            + ", ".join(SPIRAL_TYPES),
+            src,
+            "AlignPI",
+        )
+    law = _LAW[kind]
+    if law == TANGENT_LAW:
+        try:
+            form = place(kind, radius, length, False, 1.0, (0.0, 0.0), 0.0)
+        except ValueError as exc:
+            raise ModelError(str(exc), src, "AlignPI") from None
+        x, y, h, _ = form.state(np.array([length]))
+        return float(x[0]), float(y[0]), float(h[0])
+    x, y = 0.0, 0.0
+    n = max(1, math.ceil(length / (2 * radius) / 0.25))
+    for i in range(n):
+        dx, dy = _integrate_spiral(
+            law, length, 0.0, 0.0, 1.0 / radius, length * i / n, length * (i + 1) / n
+        )
+        x, y = x + dx, y + dy
+    return x, y, length / (2 * radius)
 
 
 def _local(p: Point, u: tuple[float, float], along: float, left: float) -> Point:
@@ -89,12 +114,12 @@ def elements_from_pis(pis: list[PIEntry], source: SourceRef | None = None) -> tu
         rot = "ccw" if delta > 0 else "cw"
         ad = abs(delta)
         ls1, ls2 = pi.spiral_in, pi.spiral_out
-        x1 = y1 = x2 = y2 = 0.0
-        th1, th2 = ls1 / (2 * r), ls2 / (2 * r)
+        x1 = y1 = x2 = y2 = th1 = th2 = 0.0
+        kind_in, kind_out = pi.spiral_types
         if ls1:
-            x1, y1 = _spiral_xy(ls1, r)
+            x1, y1, th1 = _spiral_end(kind_in, ls1, r, pi.source)
         if ls2:
-            x2, y2 = _spiral_xy(ls2, r)
+            x2, y2, th2 = _spiral_end(kind_out, ls2, r, pi.source)
         p1, k1 = y1 - r * (1 - math.cos(th1)), x1 - r * math.sin(th1)
         p2, k2 = y2 - r * (1 - math.cos(th2)), x2 - r * math.sin(th2)
         t1 = k1 + (r + p1) * math.tan(ad / 2) - (p1 - p2) / math.sin(ad)
@@ -122,11 +147,11 @@ def elements_from_pis(pis: list[PIEntry], source: SourceRef | None = None) -> tu
         left = (math.sin(h_sc + math.pi / 2), math.cos(h_sc + math.pi / 2))
         center = (sc[0] + side * r * left[0], sc[1] + side * r * left[1])
         if ls1:
-            out.append(HSpiral(ts, sc, ls1, math.inf, r, rot, "clothoid", None, (), pi.source))
+            out.append(HSpiral(ts, sc, ls1, math.inf, r, rot, kind_in, None, (), pi.source))
         arc_pi = None if (ls1 or ls2) else pi.point  # the arc's own PI only without spirals
         out.append(HCurve(sc, center, cs, rot, arc_pi, pi.curve_stated, pi.source))
         if ls2:
-            out.append(HSpiral(cs, st, ls2, r, math.inf, rot, "clothoid", None, (), pi.source))
+            out.append(HSpiral(cs, st, ls2, r, math.inf, rot, kind_out, None, (), pi.source))
         cursor = st
     last = pis[-1].point
     if math.dist(cursor, last) > 1e-9:

@@ -9,21 +9,35 @@ import math
 import numpy as np
 from numpy.typing import NDArray
 
-__all__ = ["SPIRAL_TYPES", "TWO_PI"]
+from gradeline.geometry.tangent_forms import TANGENT_FORMS
+
+__all__ = ["ARC_LAWS", "REVERSED", "SPIRAL_TYPES", "TANGENT_LAW", "TWO_PI"]
 
 TWO_PI = 2.0 * math.pi
 
 
 #: Curvature laws k(t) = k0 + (k1 - k0) * f(t), t = s / L, of the spiral types
-#: gradeline computes (laws as commonly published for these transitions; from
+#: defined along the arc (laws as commonly published for these transitions; from
 #: memory). ``weinerBogen`` (Viennese bend) is the seventh-degree law
 #: f = 35t^4 - 84t^5 + 70t^6 - 20t^7, whose curvature and its first three
 #: derivatives are continuous with the line and the arc (the pure-curvature
-#: form, without the cant-dependent term). Other LandXML ``spiType`` values --
-#: those defined along the tangent rather than the arc (cubic parabola,
-#: Japanese cubic, sine half-wave, biquadratic parabola) and the ``rev*``,
-#: ``cubic`` and ``radioid`` forms -- are refused by name.
-SPIRAL_TYPES = ("clothoid", "bloss", "cosine", "sinusoid", "biquadratic", "weinerBogen")
+#: form, without the cant-dependent term). The ``rev*`` types name the same
+#: transition travelled from the arc to the tangent: every one of these laws is
+#: point-symmetric about mid-length, f(t) + f(1 - t) = 1, so the curvature
+#: running from k0 to k1 is the same law either way. The forms defined from the
+#: tangent (cubic parabola and its relatives) are in
+#: :mod:`gradeline.geometry.tangent_forms`.
+ARC_LAWS = ("clothoid", "bloss", "cosine", "sinusoid", "biquadratic", "weinerBogen")
+REVERSED = {
+    "revBiquadratic": "biquadratic",
+    "revBloss": "bloss",
+    "revCosine": "cosine",
+    "revSinusoid": "sinusoid",
+}
+#: Every LandXML 1.2 spiType gradeline computes.
+SPIRAL_TYPES = ARC_LAWS + tuple(REVERSED) + TANGENT_FORMS
+#: Law code of the tangent forms, which :mod:`tangent_forms` evaluates.
+TANGENT_LAW = 7
 _LAW = {
     "line": 0,
     "arc": 0,
@@ -33,6 +47,8 @@ _LAW = {
     "sinusoid": 4,
     "biquadratic": 5,
     "weinerBogen": 6,
+    **{rev: ARC_LAWS.index(base) + 1 for rev, base in REVERSED.items()},
+    **dict.fromkeys(TANGENT_FORMS, TANGENT_LAW),
 }
 
 _GL_T, _GL_W = np.polynomial.legendre.leggauss(8)

@@ -94,6 +94,8 @@ class _Reader:
     def __init__(self, path: str) -> None:
         self.path = path
         self.notices: list[Notice] = []
+        self.root: etree._Element | None = None
+        self.cg_points: dict[str, etree._Element] | None = None  # by name, read on first use
 
     def notice(self, kind: str, el: etree._Element, message: str) -> None:
         self.notices.append(Notice(kind, message, self.src(el), _local(el)))
@@ -141,6 +143,7 @@ class _Reader:
     def document(self, root: etree._Element) -> Document:
         if _local(root) != "LandXML":
             raise self.fail(root, "the root element is not LandXML; is this a LandXML file?")
+        self.root = root
         units = self.units(root)
         project_el = _child(root, "Project")
         project = project_el.get("name", "") if project_el is not None else ""
@@ -327,7 +330,9 @@ class _Reader:
             if required:
                 raise self.fail(el, f"missing required {name} point")
             return None
-        values = self.numbers(p, f"{name} coordinate")
+        values = self.referenced(p)
+        if values is None:
+            values = self.numbers(p, f"{name} coordinate")
         if len(values) not in (2, 3):
             raise self.fail(
                 p, f"expected 'northing easting [elevation]', found {len(values)} values"
@@ -357,14 +362,31 @@ class _Reader:
             raise self.fail(el, f"{name} must be positive or INF, got {raw.strip()!r}")
         return value
 
+    def referenced(self, el: etree._Element) -> list[float] | None:
+        """The coordinates of the ``CgPoint`` named by ``el``'s pntRef, when its text is empty.
+
+        LandXML points may give their coordinates as text or as ``pntRef``, the
+        name of a ``CgPoint`` anywhere in the file.
+        """
+        ref = (el.get("pntRef") or "").strip()
+        if not ref or (el.text or "").strip():
+            return None
+        if self.cg_points is None:
+            assert self.root is not None
+            self.cg_points = {}
+            for cg in self.root.iter("{*}CgPoint"):
+                name = (cg.get("name") or "").strip()
+                if name and name not in self.cg_points:
+                    self.cg_points[name] = cg
+        cg = self.cg_points.get(ref)
+        if cg is None:
+            raise self.fail(el, f"pntRef {ref!r} names no CgPoint in this file")
+        return self.numbers(cg, f"CgPoint {ref!r} coordinate")
+
     def _pi_point(self, el: etree._Element) -> tuple[float, float]:
-        if el.get("pntRef"):
-            raise self.fail(
-                el,
-                "a PI given by pntRef (a CgPoints reference) is not read; "
-                "write its northing and easting",
-            )
-        values = self.numbers(el, "PI coordinate")
+        values = self.referenced(el)
+        if values is None:
+            values = self.numbers(el, "PI coordinate")
         if len(values) < 2:
             raise self.fail(el, "expected 'northing easting' for the PI")
         return values[0], values[1]
@@ -387,23 +409,25 @@ class _Reader:
             point = self._pi_point(pi_el if pi_el is not None else api)
             curve = self._pi_part(api, ("Curve1", "Curve"), "Curve")
             radius = self.radius_attr(curve, "radius") if curve is not None else None
-            spirals = []
+            spirals, kinds = [], []
             for wrappers in (("InSpiral",), ("OutSpiral",)):
                 sp = self._pi_part(api, wrappers, "Spiral")
-                if sp is None:
-                    spirals.append(0.0)
-                    continue
-                kind = sp.get("spiType", "clothoid")
-                if kind != "clothoid":
-                    raise self.fail(
-                        sp,
-                        f"spiral type {kind!r} in an AlignPI is not laid out; only clothoids are",
-                    )
-                spirals.append(self.required(sp, "length"))
+                kinds.append("clothoid" if sp is None else sp.get("spiType", "clothoid"))
+                spirals.append(0.0 if sp is None else self.required(sp, "length"))
             if any(spirals) and radius is None:
                 raise self.fail(api, "spirals need the curve's radius (Curve1 radius)")
             stated = self.stated(curve, "Curve") if curve is not None else ()
-            entries.append(PIEntry(point, radius, spirals[0], spirals[1], stated, self.src(api)))
+            entries.append(
+                PIEntry(
+                    point,
+                    radius,
+                    spirals[0],
+                    spirals[1],
+                    stated,
+                    self.src(api),
+                    (kinds[0], kinds[1]),
+                )
+            )
         if not entries:
             return None
         return HorizontalAlignment((), self.src(el), tuple(entries))

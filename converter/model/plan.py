@@ -165,8 +165,8 @@ HElement = HLine | HCurve | HSpiral | HIrregular
 class PIEntry:
     """One ``AlignPI``: the PI (northing, easting) and the curve on it, if any.
 
-    ``radius`` None is an angle point; ``spiral_in``/``spiral_out`` are clothoid
-    lengths (0 for none).
+    ``radius`` None is an angle point; ``spiral_in``/``spiral_out`` are spiral
+    lengths (0 for none), of the LandXML types ``spiral_types`` (in, out).
     """
 
     point: Point
@@ -175,6 +175,7 @@ class PIEntry:
     spiral_out: float = 0.0
     curve_stated: Stated = ()
     source: SourceRef | None = field(default=None, compare=False)
+    spiral_types: tuple[str, str] = ("clothoid", "clothoid")
 
 
 @dataclass(frozen=True, slots=True)
