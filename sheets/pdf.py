@@ -31,7 +31,15 @@ from gradeline.sheets.layout import (
     sheet_geometry,
     table_capacity,
 )
-from gradeline.sheets.views import SheetView, sheet_view
+from gradeline.sheets.views import (
+    PaperXform,
+    PlacedNote,
+    SheetView,
+    match_mark_paper,
+    plan_layout,
+    series_exaggeration,
+    sheet_view,
+)
 from gradeline.solved import SolvedAlignment
 
 __all__ = ["SheetOptions", "page_plan", "render_sheets"]
@@ -54,38 +62,7 @@ class SheetOptions:
     sheet_prefix: str = ""
 
 
-class _Xform:
-    """Model -> paper: optional rotation about a model point, then scale and shift."""
-
-    def __init__(
-        self,
-        per_pt: float,
-        origin: tuple[float, float],
-        target: tuple[float, float],
-        angle: float = 0.0,
-    ) -> None:
-        self.k = 1.0 / per_pt
-        self.ox, self.oy = origin
-        self.tx, self.ty = target
-        self.c, self.s = math.cos(-angle), math.sin(-angle)
-        self.angle_deg = -math.degrees(angle)
-
-    def __call__(self, x: float, y: float) -> tuple[float, float]:
-        dx, dy = x - self.ox, y - self.oy
-        return (
-            self.tx + self.k * (self.c * dx - self.s * dy),
-            self.ty + self.k * (self.s * dx + self.c * dy),
-        )
-
-    def many(self, pts) -> np.ndarray:
-        a = np.asarray(pts, dtype=float)
-        dx, dy = a[:, 0] - self.ox, a[:, 1] - self.oy
-        return np.column_stack(
-            [
-                self.tx + self.k * (self.c * dx - self.s * dy),
-                self.ty + self.k * (self.s * dx + self.c * dy),
-            ]
-        )
+_Xform = PaperXform
 
 
 def _style(c, role: str, f: float) -> None:
@@ -107,23 +84,19 @@ def _inside(box: np.ndarray, vp: Viewport) -> bool:
 
 
 def _text(c, item: Text, xf: _Xform, vp: Viewport | None) -> None:
-    x, y = xf(item.x, item.y)
-    size = item.height * xf.k
-    rot = item.rotation + xf.angle_deg
-    halign, valign = item.halign, item.valign
-    a = (rot + 180.0) % 360.0 - 180.0
-    if a > 90.0 or a <= -90.0:  # never upside down on the sheet
-        rot = a + (-180.0 if a > 90.0 else 180.0)
-        halign = {"left": "right", "right": "left"}.get(halign, halign)
-        valign = {"bottom": "top", "top": "bottom"}.get(valign, valign)
-    paper = Text(item.role, item.text, x, y, size, rot, halign, valign)
+    _paper_text(c, xf.text(item), vp)
+
+
+def _paper_text(c, paper: Text, vp: Viewport | None) -> None:
+    """Draw a text already on paper, unless it would leave ``vp``."""
     if vp is not None and not _inside(paper.corners(), vp):
         return
+    size, rot = paper.height, paper.rotation
     c.saveState()
-    c.translate(x, y)
+    c.translate(paper.x, paper.y)
     c.rotate(rot)
-    base = {"bottom": 0.0, "middle": -0.36 * size, "top": -0.72 * size}[valign]
-    fonts.draw(c, 0.0, base, item.text, size, align=halign)
+    base = {"bottom": 0.0, "middle": -0.36 * size, "top": -0.72 * size}[paper.valign]
+    fonts.draw(c, 0.0, base, paper.text, size, align=paper.halign)
     c.restoreState()
 
 
@@ -154,45 +127,24 @@ def _draw_items(c, items, xf: _Xform, vp: Viewport, f: float) -> None:
             x, y = xf(*item.center)
             c.circle(x, y, item.radius * xf.k, stroke=1, fill=0)
     c.restoreState()
-    notes: list[Text] = []
-    for item in list(items) + [None]:
-        if isinstance(item, Text) and item.role == "plan_notes":
-            notes.append(item)  # a curve-data note: its lines move and show together
-            continue
-        if notes:
-            _note_block(c, notes, xf, vp, f)
-            notes = []
-        if isinstance(item, Text):
+    for item in items:
+        if isinstance(item, Text) and item.role != "plan_notes":  # notes: placed per sheet
             _style(c, item.role, f)
             _text(c, item, xf, vp)
 
 
-def _note_block(c, lines: list[Text], xf: _Xform, vp: Viewport, f: float) -> None:
-    """Draw a note's lines as one block, nudged into the viewport when it pokes out.
-
-    A note is skipped whole when it cannot fit; it is never drawn in part.
-    """
-    boxes = []
-    for t in lines:
-        x, y = xf(t.x, t.y)
-        boxes.append(
-            Text(
-                t.role, t.text, x, y, t.height * xf.k, t.rotation + xf.angle_deg, t.halign, t.valign
-            ).corners()
-        )
-    pts = np.concatenate(boxes)
-    x0, y0 = pts.min(axis=0)
-    x1, y1 = pts.max(axis=0)
-    if x1 - x0 > vp.w or y1 - y0 > vp.h:
-        return
-    dx = max(0.0, vp.x - x0) - max(0.0, x1 - (vp.x + vp.w))
-    dy = max(0.0, vp.y - y0) - max(0.0, y1 - (vp.y + vp.h))
-    shift = _Xform(
-        1.0 / xf.k, (xf.ox, xf.oy), (xf.tx + dx, xf.ty + dy), -math.radians(xf.angle_deg)
-    )
-    for t in lines:
-        _style(c, t.role, f)
-        _text(c, t, shift, vp)
+def _notes(c, notes: tuple[PlacedNote, ...], f: float) -> None:
+    for note in notes:
+        _style(c, "plan_notes", f)
+        if note.leader is not None:
+            (x0, y0), (x1, y1) = note.leader
+            c.setLineWidth(0.5 * max(f, 0.6))
+            c.line(x0, y0, x1, y1)
+        for text, x, base in note.line_boxes():
+            fonts.draw(c, x + 0.1 * note.size, base, text, note.size)
+        if note.mark is not None:
+            tag, mx, my = note.mark
+            fonts.draw(c, mx, my - 0.36 * note.size, tag, note.size, bold=True, align="center")
 
 
 def _item_boxes(drawing: Drawing) -> np.ndarray:
@@ -361,6 +313,26 @@ def _north_arrow(c, geo: SheetGeometry, angle: float) -> None:
     c.drawCentredString(cx + nx * (r + 0.9 * ts), cy + ny * (r + 0.9 * ts) - 0.36 * ts, "N")
 
 
+def _plan_reserved(geo: SheetGeometry) -> list[tuple[float, float, float, float]]:
+    """Paper the plan view keeps for its own furniture: the title and the north arrow."""
+    ts, vp = geo.text, geo.plan
+    top = vp.y + vp.h
+    return [
+        (vp.x, top - 2.2 * ts, vp.x + 5.0 * ts, top),
+        (vp.x + vp.w - 6.5 * ts, top - 7.0 * ts, vp.x + vp.w, top),
+    ]
+
+
+def _paper_text_bold(c, paper: Text) -> None:
+    size = paper.height
+    c.saveState()
+    c.translate(paper.x, paper.y)
+    c.rotate(paper.rotation)
+    base = {"bottom": 0.0, "middle": -0.36 * size, "top": -0.72 * size}[paper.valign]
+    fonts.draw(c, 0.0, base, paper.text, size, bold=True, align=paper.halign)
+    c.restoreState()
+
+
 def _sheet(
     c,
     ctx,
@@ -406,33 +378,15 @@ def _sheet(
         pvp = geo.plan
         center_x = xf((pv.start + pv.end) / 2, 0.0)[0]
         pxf = _Xform(per_pt, mid, (center_x, pvp.cy), angle)
-        # cull items far from this sheet (bounding boxes in model space)
-        reach = math.hypot(pvp.w, pvp.h) * per_pt
-        near = (
-            (plan_boxes[:, 2] >= mid[0] - reach)
-            & (plan_boxes[:, 0] <= mid[0] + reach)
-            & (plan_boxes[:, 3] >= mid[1] - reach)
-            & (plan_boxes[:, 1] <= mid[1] + reach)
-        )
-        items = [plan.items[i] for i in np.flatnonzero(near)]
-        _draw_items(c, items, pxf, pvp, f)
-        for mark in pv.marks:
-            px, py = pxf(mark.easting, mark.northing)
-            da = mark.heading - angle
-            dx, dy = -math.sin(da), math.cos(da)
-            span = pvp.h * 0.42
+        marks = [match_mark_paper(m, pxf, geo, frame.number, st.label(m.station)) for m in pv.marks]
+        pv = plan_layout(pv, plan, plan_boxes, pxf, geo, _plan_reserved(geo), marks)
+        _draw_items(c, pv.items, pxf, pvp, f)
+        _notes(c, pv.notes, f)
+        for seg, label in marks:
             _style(c, "match", f)
-            c.line(px - dx * span, py - dy * span, px + dx * span, py + dy * span)
-            c.setFont(FONT_BOLD, 0.85 * ts)
-            c.saveState()
-            c.translate(px + dx * span, py + dy * span)
-            c.rotate(math.degrees(math.atan2(dy, dx)) - 180)
-            c.drawString(
-                0.3 * ts,
-                (0.3 if mark.other_sheet > frame.number else -1.1) * ts,
-                labels.match_line_text(st.label(mark.station), mark.other_sheet),
-            )
-            c.restoreState()
+            c.line(*seg)
+            c.setFillColorRGB(*ROLE_STYLE[Role.MATCH].rgb)
+            _paper_text_bold(c, label)
         _north_arrow(c, geo, angle)
     _style(c, "frame", f)
     c.setDash([])
@@ -515,8 +469,9 @@ def render_sheets(ctx: SolvedAlignment, opts: SheetOptions) -> bytes:
     c.setSubject(labels.CAUTION)
     plan = plan_drawing(ctx, lay) if ctx.horizontal is not None else None
     boxes = _item_boxes(plan) if plan is not None else None
+    used, profiles = series_exaggeration(ctx, lay, geo, plan_info.frames)
     for frame in plan_info.frames:
-        view = sheet_view(ctx, lay, geo, frame, len(plan_info.frames))
+        view = sheet_view(ctx, used, geo, frame, len(plan_info.frames), profiles.get(frame.number))
         _sheet(c, ctx, opts, geo, view, len(plan_info.frames), total, plan, boxes)
         c.showPage()
     page = len(plan_info.frames)

@@ -1,9 +1,11 @@
 """What each sheet shows, decided before anything is drawn.
 
-For every frame of the sheet series: the profile drawing of its window (with
-the exaggeration that fits the profile view), and the plan view's rotation,
-centre and match-line marks. :mod:`gradeline.sheets.pdf` only draws these;
-it never evaluates geometry itself.
+For the whole sheet series: one vertical exaggeration (the asked one, or the
+largest of its fractions that fits every window). For every frame: the profile
+drawing of its window, and the plan view's rotation, transform, the plan items
+it shows, its match-line marks and the place of every curve-data note on the
+paper. :mod:`gradeline.sheets.pdf` only draws these; it never evaluates geometry
+or chooses a position itself.
 """
 
 from __future__ import annotations
@@ -11,13 +13,76 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, replace
 
-from gradeline.present import drafting
-from gradeline.present.items import Drawing
+import numpy as np
+
+from gradeline.present import drafting, labels
+from gradeline.present.items import ArcItem, Drawing, Item, Path, Text, boxes_overlap
 from gradeline.present.layout import DraftingLayout
-from gradeline.sheets.layout import Frame, SheetGeometry, model_per_point
+from gradeline.present.plan_drawing import CurveNote
+from gradeline.sheets import fonts
+from gradeline.sheets.layout import Frame, SheetGeometry, Viewport, model_per_point
 from gradeline.solved import SolvedAlignment
 
-__all__ = ["MatchMark", "PlanView", "SheetView", "sheet_view"]
+__all__ = [
+    "MatchMark",
+    "PaperXform",
+    "PlacedNote",
+    "PlanView",
+    "SheetView",
+    "match_mark_paper",
+    "plan_layout",
+    "series_exaggeration",
+    "sheet_view",
+]
+
+#: Text size of curve-data notes relative to the sheet text, and their line pitch.
+NOTE_PITCH = 1.45
+
+
+class PaperXform:
+    """Model -> paper: optional rotation about a model point, then scale and shift."""
+
+    def __init__(
+        self,
+        per_pt: float,
+        origin: tuple[float, float],
+        target: tuple[float, float],
+        angle: float = 0.0,
+    ) -> None:
+        self.k = 1.0 / per_pt
+        self.ox, self.oy = origin
+        self.tx, self.ty = target
+        self.c, self.s = math.cos(-angle), math.sin(-angle)
+        self.angle_deg = -math.degrees(angle)
+
+    def __call__(self, x: float, y: float) -> tuple[float, float]:
+        dx, dy = x - self.ox, y - self.oy
+        return (
+            self.tx + self.k * (self.c * dx - self.s * dy),
+            self.ty + self.k * (self.s * dx + self.c * dy),
+        )
+
+    def many(self, pts) -> np.ndarray:
+        a = np.asarray(pts, dtype=float).reshape(-1, 2)
+        dx, dy = a[:, 0] - self.ox, a[:, 1] - self.oy
+        return np.column_stack(
+            [
+                self.tx + self.k * (self.c * dx - self.s * dy),
+                self.ty + self.k * (self.s * dx + self.c * dy),
+            ]
+        )
+
+    def text(self, item: Text) -> Text:
+        """``item`` on paper, turned so it never reads upside down."""
+        x, y = self(item.x, item.y)
+        rot = item.rotation + self.angle_deg
+        halign, valign = item.halign, item.valign
+        a = (rot + 180.0) % 360.0 - 180.0
+        if a > 90.0 or a <= -90.0:
+            rot = a + (-180.0 if a > 90.0 else 180.0)
+            halign = {"left": "right", "right": "left"}.get(halign, halign)
+            valign = {"bottom": "top", "top": "bottom"}.get(valign, valign)
+        return Text(item.role, item.text, x, y, item.height * self.k, rot, halign, valign)
 
 
 @dataclass(frozen=True, slots=True)
@@ -32,8 +97,37 @@ class MatchMark:
 
 
 @dataclass(frozen=True, slots=True)
+class PlacedNote:
+    """A curve-data note on the paper: its lines from the top, its box and its pointer.
+
+    ``leader`` runs from the box to the PI; where the note had to go further
+    away, ``mark`` is a reference tag at the PI (text, x, y) instead. A note
+    with no room on the sheet has no lines and only the tag, which points to
+    the curve table.
+    """
+
+    number: int
+    lines: tuple[str, ...]
+    x: float  # left
+    top: float
+    size: float
+    width: float
+    height: float
+    leader: tuple[tuple[float, float], tuple[float, float]] | None
+    mark: tuple[str, float, float] | None
+
+    def line_boxes(self) -> list[tuple[str, float, float]]:
+        """(text, x, baseline) of each line."""
+        pitch = NOTE_PITCH * self.size
+        return [
+            (t, self.x, self.top - (i + 1) * pitch + 0.35 * self.size)
+            for i, t in enumerate(self.lines)
+        ]
+
+
+@dataclass(frozen=True, slots=True)
 class PlanView:
-    """How the plan is turned on one sheet: the chord between the match stations runs
+    """How the plan is shown on one sheet: the chord between the match stations runs
     left to right."""
 
     start: float  # match stations clamped to the plan
@@ -41,6 +135,10 @@ class PlanView:
     angle: float  # radians: the rotation that makes the chord horizontal
     centre: tuple[float, float]  # model (easting, northing) at the view's centre
     marks: tuple[MatchMark, ...]
+    span: tuple[float, float] = (-math.inf, math.inf)  # stations between the match lines
+    xform: PaperXform | None = None
+    items: tuple[Item, ...] = ()
+    notes: tuple[PlacedNote, ...] = ()
 
 
 @dataclass(frozen=True, slots=True)
@@ -51,30 +149,53 @@ class SheetView:
     profile: Drawing | None  # None for a plan-only alignment
     layout: DraftingLayout  # with the exaggeration used on this sheet
     plan: PlanView | None
+    asked_exaggeration: float = 0.0
 
 
-#: Divisors of the asked exaggeration tried in turn when a window's profile is
-#: too tall for the profile view (the title block states the one used).
-_EXAGGERATION_DIVISORS = (1, 2, 5, 10)
+#: Fractions of the asked exaggeration tried in turn when a window's profile is
+#: too tall for the profile view; one is chosen for the whole sheet series.
+_EXAGGERATION_DIVISORS = (1, 2, 2.5, 5, 10)
 
 
-def _profile(
-    ctx: SolvedAlignment, lay: DraftingLayout, geo: SheetGeometry, frame: Frame
-) -> tuple[Drawing, DraftingLayout]:
-    per_pt = model_per_point(lay)
+def _fits(prof: Drawing, lay: DraftingLayout, geo: SheetGeometry) -> bool:
+    _, y0, _, y1 = prof.extents
+    return (y1 - y0) / model_per_point(lay) <= geo.profile.h - 2.5 * geo.text
+
+
+def series_exaggeration(
+    ctx: SolvedAlignment, lay: DraftingLayout, geo: SheetGeometry, frames: list[Frame]
+) -> tuple[DraftingLayout, dict[int, Drawing]]:
+    """The one exaggeration of the sheet series and, drafted at it, each window's profile.
+
+    Each window has its own datum (the grid is renumbered), so only a window whose
+    elevation range is taller than the profile view at the asked exaggeration
+    lowers it, for every sheet alike.
+    """
+    if ctx.geometry is None:
+        return lay, {}
+    drawings: dict[int, Drawing] = {}
     used = lay
-    prof = None
     for divisor in _EXAGGERATION_DIVISORS:
         exag = lay.exaggeration / divisor
-        used = replace(lay, exaggeration=exag)
-        prof = drafting.profile_drawing(
-            ctx, used, window=(frame.view_start, frame.view_end), strip=True
-        )
-        _, y0, _, y1 = prof.extents
-        if (y1 - y0) / per_pt <= geo.profile.h - 2.5 * geo.text or exag <= 1:
+        if divisor > 1 and exag < 1:
             break
-    assert prof is not None
-    return prof, used
+        used = replace(lay, exaggeration=exag)
+        drawings = {}
+        for fr in frames:
+            prof = drafting.profile_drawing(
+                ctx, used, window=(fr.view_start, fr.view_end), strip=True
+            )
+            drawings[fr.number] = prof
+            if not _fits(prof, used, geo) and exag > 1:
+                break
+        else:
+            return used, drawings
+    for fr in frames:  # the smallest tried: draw what does not fit, clipped
+        if fr.number not in drawings:
+            drawings[fr.number] = drafting.profile_drawing(
+                ctx, used, window=(fr.view_start, fr.view_end), strip=True
+            )
+    return used, drawings
 
 
 def _plan(ctx: SolvedAlignment, frame: Frame, total_frames: int) -> PlanView | None:
@@ -91,14 +212,268 @@ def _plan(ctx: SolvedAlignment, frame: Frame, total_frames: int) -> PlanView | N
             continue
         n_, e_, hd = (float(v) for v in ctx.plan_at(m))
         marks.append(MatchMark(m, other, e_, n_, hd))
-    return PlanView(a, b, angle, ((ea + eb) / 2, (na + nb) / 2), tuple(marks))
+    first = -math.inf if frame.first else frame.match_start
+    last = math.inf if frame.number == total_frames else frame.match_end
+    return PlanView(a, b, angle, ((ea + eb) / 2, (na + nb) / 2), tuple(marks), (first, last))
+
+
+# -- obstacles on the paper ---------------------------------------------------------
+def _segments(items, xf: PaperXform) -> np.ndarray:
+    """(n, 4) paper segments x0 y0 x1 y1 of every line item."""
+    parts = []
+    for it in items:
+        if isinstance(it, Path):
+            pts = it.points
+        elif isinstance(it, ArcItem):
+            pts = it.polyline
+        else:
+            continue
+        p = xf.many(pts)
+        if len(p) >= 2:
+            parts.append(np.hstack([p[:-1], p[1:]]))
+    return np.vstack(parts) if parts else np.zeros((0, 4))
+
+
+def _hits_segments(seg: np.ndarray, box: tuple[float, float, float, float]) -> bool:
+    """True when any segment meets the axis-aligned ``box`` (Liang-Barsky clipping)."""
+    if not len(seg):
+        return False
+    x0, y0, x1, y1 = box
+    sx0, sy0, sx1, sy1 = seg.T
+    near = ~(
+        (np.maximum(sx0, sx1) < x0)
+        | (np.minimum(sx0, sx1) > x1)
+        | (np.maximum(sy0, sy1) < y0)
+        | (np.minimum(sy0, sy1) > y1)
+    )
+    if not near.any():
+        return False
+    sx0, sy0, sx1, sy1 = sx0[near], sy0[near], sx1[near], sy1[near]
+    dx, dy = sx1 - sx0, sy1 - sy0
+    t0, t1 = np.zeros(len(dx)), np.ones(len(dx))
+    with np.errstate(divide="ignore", invalid="ignore"):
+        for p, q in ((-dx, sx0 - x0), (dx, x1 - sx0), (-dy, sy0 - y0), (dy, y1 - sy0)):
+            r = q / p
+            parallel = p == 0
+            outside = parallel & (q < 0)
+            t0 = np.where(~parallel & (p < 0), np.maximum(t0, r), t0)
+            t1 = np.where(~parallel & (p > 0), np.minimum(t1, r), t1)
+            t0 = np.where(outside, 2.0, t0)
+    return bool(np.any(t0 <= t1))
+
+
+def _rect_corners(x0: float, y0: float, x1: float, y1: float) -> np.ndarray:
+    return np.array([[x0, y0], [x1, y0], [x1, y1], [x0, y1]])
+
+
+class _Room:
+    """What is already on the plan view's paper, and whether a box is free of it."""
+
+    def __init__(self, vp: Viewport, segments: np.ndarray, boxes: list[np.ndarray], gap: float):
+        self.vp = vp
+        self.segments = segments
+        self.boxes = list(boxes)
+        self.gap = gap
+
+    def free(self, box: tuple[float, float, float, float]) -> bool:
+        x0, y0, x1, y1 = box
+        g = self.gap
+        vp = self.vp
+        if x0 < vp.x + g or y0 < vp.y + g or x1 > vp.x + vp.w - g or y1 > vp.y + vp.h - g:
+            return False
+        grown = (x0 - g, y0 - g, x1 + g, y1 + g)
+        if _hits_segments(self.segments, grown):
+            return False
+        corners = _rect_corners(*grown)
+        for b in self.boxes:
+            if (
+                b[:, 0].max() >= grown[0]
+                and b[:, 0].min() <= grown[2]
+                and b[:, 1].max() >= grown[1]
+                and b[:, 1].min() <= grown[3]
+                and boxes_overlap(corners, b)
+            ):
+                return False
+        return True
+
+    def take(self, box: tuple[float, float, float, float]) -> None:
+        self.boxes.append(_rect_corners(*box))
+
+
+def _place_note(note: CurveNote, xf: PaperXform, room: _Room, size: float) -> PlacedNote | None:
+    """Put ``note`` near its PI, clear of everything; farther with a tag; or tag only."""
+    px, py = xf(*note.pi)
+    vp = room.vp
+    if not (vp.x <= px <= vp.x + vp.w and vp.y <= py <= vp.y + vp.h):
+        return None  # the PI is on another sheet: its note is there
+    width = max(fonts.text_width(t, size) for t in note.lines) + 0.2 * size
+    height = len(note.lines) * NOTE_PITCH * size + 0.3 * size
+    # the outward direction on the paper first, then turning away from it
+    ux, uy = note.outward
+    a0 = math.atan2(xf.s * ux + xf.c * uy, xf.c * ux - xf.s * uy)
+    turns = [0.0]
+    for k in range(1, 9):
+        turns += [k * math.pi / 8, -k * math.pi / 8]
+    for r in (1.5, 3.0, 5.0, 8.0, 12.0, 18.0):
+        for t in turns:
+            a = a0 + t
+            cx, cy = px + r * size * math.cos(a), py + r * size * math.sin(a)
+            # the box corner nearest the PI sits at the candidate point
+            x0 = cx if math.cos(a) >= 0 else cx - width
+            y0 = cy if math.sin(a) >= 0 else cy - height
+            box = (x0, y0, x0 + width, y0 + height)
+            if room.free(box):
+                room.take(box)
+                ex = min(max(px, x0), x0 + width)
+                ey = min(max(py, y0), y0 + height)
+                return PlacedNote(
+                    note.number,
+                    note.lines,
+                    x0,
+                    y0 + height,
+                    size,
+                    width,
+                    height,
+                    ((ex, ey), (px, py)),
+                    None,
+                )
+    tag = labels.curve_tag(note.number)
+    tag_w = fonts.text_width(tag, size)
+    tag_box = None
+    for r in (1.0, 2.0, 3.0):
+        for t in turns:
+            a = a0 + t
+            cx, cy = px + r * size * math.cos(a), py + r * size * math.sin(a)
+            box = (cx - tag_w / 2, cy - 0.5 * size, cx + tag_w / 2, cy + 0.7 * size)
+            if room.free(box):
+                tag_box = box
+                break
+        if tag_box is not None:
+            break
+    if tag_box is None:
+        return None
+    room.take(tag_box)
+    mark = (tag, (tag_box[0] + tag_box[2]) / 2, tag_box[1] + 0.5 * size)
+    step = 1.5 * size
+    for y0 in np.arange(vp.y + vp.h - height - step, vp.y, -step):
+        for x0 in np.arange(vp.x + step, vp.x + vp.w - width, step):
+            box = (float(x0), float(y0), float(x0) + width, float(y0) + height)
+            if room.free(box):
+                room.take(box)
+                lines = (f"{note.lines[0]} ({tag})",) + note.lines[1:]
+                return PlacedNote(
+                    note.number, lines, box[0], box[3], size, width, height, None, mark
+                )
+    return PlacedNote(
+        note.number,
+        (),
+        0.0,
+        0.0,
+        size,
+        0.0,
+        0.0,
+        None,
+        (labels.curve_table_tag(note.number), mark[1], mark[2]),
+    )
+
+
+def match_mark_paper(
+    mark: MatchMark, xf: PaperXform, geo: SheetGeometry, sheet: int, station_label: str
+) -> tuple[tuple[float, float, float, float], Text]:
+    """A plan match line on the paper (x0, y0, x1, y1) and its label, beside the line."""
+    ts = geo.text
+    px, py = xf(mark.easting, mark.northing)
+    da = math.radians(math.degrees(mark.heading) + xf.angle_deg)
+    dx, dy = -math.sin(da), math.cos(da)  # across the alignment
+    span = geo.plan.h * 0.42
+    seg = (px - dx * span, py - dy * span, px + dx * span, py + dy * span)
+    rot = math.degrees(math.atan2(dy, dx))
+    if rot > 90.0 or rot <= -90.0:  # read from below or from the right, never upside down
+        rot += -180.0 if rot > 90.0 else 180.0
+        dx, dy = -dx, -dy
+    # along the line from its upper end, on the side of this sheet's own plan
+    ax, ay = px + dx * span, py + dy * span
+    nx, ny = -math.sin(math.radians(rot)), math.cos(math.radians(rot))  # left of the text
+    ahead = 1.0 if mark.other_sheet < sheet else -1.0  # where this sheet's plan lies
+    toward = 1.0 if ahead * (nx * math.cos(da) + ny * math.sin(da)) > 0 else -1.0
+    size = 0.85 * ts
+    off = toward * 0.5 * ts
+    text = labels.match_line_text(station_label, mark.other_sheet)
+    label = Text(
+        "match",
+        text,
+        ax + nx * off,
+        ay + ny * off,
+        size,
+        rot,
+        "right",
+        "bottom" if toward > 0 else "top",
+    )
+    return seg, label
+
+
+def plan_layout(
+    view: PlanView,
+    plan: Drawing,
+    boxes: np.ndarray,
+    xf: PaperXform,
+    geo: SheetGeometry,
+    reserved: list[tuple[float, float, float, float]],
+    marks: list[tuple[tuple[float, float, float, float], Text]] = (),  # type: ignore[assignment]
+) -> PlanView:
+    """The plan items near this sheet, and every curve note placed on the paper."""
+    vp = geo.plan
+    per_pt = 1.0 / xf.k
+    reach = math.hypot(vp.w, vp.h) * per_pt
+    mid = view.centre
+    near = (
+        (boxes[:, 2] >= mid[0] - reach)
+        & (boxes[:, 0] <= mid[0] + reach)
+        & (boxes[:, 3] >= mid[1] - reach)
+        & (boxes[:, 1] <= mid[1] + reach)
+    )
+    items = tuple(plan.items[i] for i in np.flatnonzero(near))
+    line_items = [it for it in items if not isinstance(it, Text)]
+    segs = _segments(line_items, xf)
+    texts = []
+    for it in items:
+        if isinstance(it, Text) and it.role != "plan_notes":
+            box = xf.text(it).corners()
+            if (
+                box[:, 0].min() >= vp.x
+                and box[:, 0].max() <= vp.x + vp.w
+                and (box[:, 1].min() >= vp.y and box[:, 1].max() <= vp.y + vp.h)
+            ):
+                texts.append(box)
+    if marks:
+        segs = np.vstack([segs, np.array([m[0] for m in marks])])
+        texts += [m[1].corners() for m in marks]
+    room = _Room(vp, segs, texts + [_rect_corners(*r) for r in reserved], 0.4 * geo.text)
+    size = 0.9 * geo.text
+    placed = []
+    for note in plan.meta.get("notes", ()):
+        first, last = view.span
+        if not first <= note.station < last:
+            continue  # another sheet of the series carries it
+        p = _place_note(note, xf, room, size)
+        if p is not None:
+            placed.append(p)
+    return replace(view, xform=xf, items=items, notes=tuple(placed))
 
 
 def sheet_view(
-    ctx: SolvedAlignment, lay: DraftingLayout, geo: SheetGeometry, frame: Frame, total_frames: int
+    ctx: SolvedAlignment,
+    lay: DraftingLayout,
+    geo: SheetGeometry,
+    frame: Frame,
+    total_frames: int,
+    profile: Drawing | None = None,
 ) -> SheetView:
-    """The profile drawing and plan view of one sheet."""
+    """The profile drawing and plan view of one sheet (``lay`` has the series exaggeration)."""
     if ctx.geometry is None:
         return SheetView(frame, None, lay, _plan(ctx, frame, total_frames))
-    prof, used = _profile(ctx, lay, geo, frame)
-    return SheetView(frame, prof, used, _plan(ctx, frame, total_frames))
+    if profile is None:
+        profile = drafting.profile_drawing(
+            ctx, lay, window=(frame.view_start, frame.view_end), strip=True
+        )
+    return SheetView(frame, profile, lay, _plan(ctx, frame, total_frames))

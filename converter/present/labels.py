@@ -155,6 +155,16 @@ def plan_curve_note(
     return lines
 
 
+def curve_tag(number: int) -> str:
+    """Reference tag of horizontal curve ``number`` where its note stands apart, ``C1``."""
+    return f"C{number}"
+
+
+def curve_table_tag(number: int) -> str:
+    """Tag of a curve whose note has no room on the sheet: it points to the table."""
+    return f"C{number} - SEE CURVE TABLE"
+
+
 def match_line_text(station_label: str, sheet: int | None) -> str:
     """Match-line label, e.g. ``MATCH LINE STA 24+00.00 - SEE SHEET 2``."""
     return f"MATCH LINE STA {station_label}" + (f" - SEE SHEET {sheet}" if sheet else "")

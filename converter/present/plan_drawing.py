@@ -6,6 +6,7 @@ Mapping: ``x = easting``, ``y = northing`` (true coordinates).
 from __future__ import annotations
 
 import math
+from dataclasses import dataclass
 from typing import Any
 
 import numpy as np
@@ -21,7 +22,22 @@ from gradeline.present.items import (
 from gradeline.present.layout import DraftingLayout, guard_count
 from gradeline.solved import SolvedAlignment
 
-__all__ = ["plan_drawing"]
+__all__ = ["CurveNote", "plan_drawing"]
+
+
+@dataclass(frozen=True, slots=True)
+class CurveNote:
+    """A horizontal curve's data note, for a renderer that places notes itself (sheets).
+
+    ``pi`` is the point the note's leader points to, ``outward`` the unit
+    direction from the curve towards it; ``lines`` the note's text, first line on top.
+    """
+
+    number: int
+    lines: tuple[str, ...]
+    pi: tuple[float, float]
+    outward: tuple[float, float]
+    station: float  # the curve's middle: the sheet that shows it carries the note
 
 
 # --------------------------------------------------------------------------- plan
@@ -122,6 +138,7 @@ def plan_drawing(ctx: SolvedAlignment, layout: DraftingLayout) -> Drawing:
                 "middle",
             )
         )
+    notes: list[CurveNote] = []
     for c in ctx.curves:
         if c.pi_northing is None or c.pi_easting is None:
             continue
@@ -142,6 +159,9 @@ def plan_drawing(ctx: SolvedAlignment, layout: DraftingLayout) -> Drawing:
         dist = math.hypot(ox, oy) or 1.0
         ux, uy = ox / dist, oy / dist
         items.append(Circle("plan_points", (c.pi_easting, c.pi_northing), 0.3 * h))
+        notes.append(
+            CurveNote(c.number, tuple(lines), (c.pi_easting, c.pi_northing), (ux, uy), mid)
+        )
         block_w = max(labels.text_width(t, h) for t in lines)
         block_h = len(lines) * 1.5 * h
         # corner of the block nearest the curve sits 2h beyond the PI, outward
@@ -172,5 +192,10 @@ def plan_drawing(ctx: SolvedAlignment, layout: DraftingLayout) -> Drawing:
         max(xs + boxes[:, 0].tolist()),
         max(ys + boxes[:, 1].tolist()),
     )
-    meta = {"kind": "plan", "alignment": ctx.alignment.name, "linear_unit": units.linear}
+    meta = {
+        "kind": "plan",
+        "alignment": ctx.alignment.name,
+        "linear_unit": units.linear,
+        "notes": tuple(notes),
+    }
     return Drawing(tuple(items), ext, meta)

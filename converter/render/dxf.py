@@ -190,7 +190,11 @@ def _write(
             txt.dxf.valign = _VALIGN[item.valign]
             txt.dxf.insert = (item.x, item.y)
             txt.dxf.align_point = (item.x, item.y)
-    meta = {k: str(v) for k, v in sorted(drawing.meta.items())}
+    meta = {
+        k: str(v)
+        for k, v in sorted(drawing.meta.items())
+        if isinstance(v, (str, int, float))  # records such as curve notes stay out
+    }
     if not r12 and version != "R2000":
         for key, value in meta.items():
             doc.header.custom_vars.append(META_PREFIX + key.upper(), value)
