@@ -288,9 +288,20 @@ def plan_dxf(solved: SolvedAlignment, opts: DrawingOptions) -> bytes:
 
 # --------------------------------------------------------------------------- sheets
 #: Keys of the ``[sheet]`` table of a configuration file.
-SHEET_KEYS = frozenset(
-    {"project", "date", "drawn_by", "size", "scale", "exaggeration", "interval", "sheet_prefix"}
+#: Title-block text fields of ``[sheet]`` (each printed as written; blank when absent).
+SHEET_TEXT_KEYS = (
+    "agency",
+    "project",
+    "project_number",
+    "sheet_title",
+    "designed_by",
+    "drawn_by",
+    "checked_by",
+    "date",
+    "design_speed",
+    "sheet_prefix",
 )
+SHEET_KEYS = frozenset({"size", "scale", "exaggeration", "interval", "revisions", *SHEET_TEXT_KEYS})
 
 
 def check_sheet_config(config: Mapping[str, Any], config_name: str = "config") -> None:
@@ -332,11 +343,25 @@ def sheet_options(
         scale=num("scale", None),
         exaggeration=num("exaggeration", 10.0) or 10.0,
         interval=num("interval", None),
-        project=str(cfg.get("project", "")),
-        date=str(cfg.get("date", "")),
-        drawn_by=str(cfg.get("drawn_by", "")),
-        sheet_prefix=str(cfg.get("sheet_prefix", "")),
+        revisions=_revisions(cfg.get("revisions", []), config_name),
+        **{key: _text_field(cfg.get(key, ""), key, config_name) for key in SHEET_TEXT_KEYS},
     )
+
+
+def _text_field(value: Any, key: str, config_name: str) -> str:
+    if isinstance(value, bool) or not isinstance(value, (str, int, float)):
+        raise UsageError(f"{config_name}: [sheet] {key} must be text")
+    text = str(value)
+    if len(text) > 200 or any(ch in text for ch in "\r\n\t"):
+        raise UsageError(f"{config_name}: [sheet] {key} must be one line of at most 200 characters")
+    return text
+
+
+def _revisions(value: Any, config_name: str) -> tuple[str, ...]:
+    """``revisions``: a list of one-line entries, e.g. ``["A  2026-11-30  First issue"]``."""
+    if not isinstance(value, list) or len(value) > 20:
+        raise UsageError(f"{config_name}: [sheet] revisions must be a list of at most 20 lines")
+    return tuple(_text_field(v, "revisions", config_name) for v in value)
 
 
 def sheets_pdf(solved: SolvedAlignment, opts: SheetOptions) -> bytes:

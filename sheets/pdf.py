@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import io
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import numpy as np
 from reportlab.pdfgen import canvas as rl_canvas
@@ -56,10 +56,17 @@ class SheetOptions:
     scale: float | None = None
     exaggeration: float = 10.0
     interval: float | None = None
+    agency: str = ""
     project: str = ""
-    date: str = ""
+    project_number: str = ""
+    sheet_title: str = ""
+    designed_by: str = ""
     drawn_by: str = ""
+    checked_by: str = ""
+    date: str = ""
+    design_speed: str = ""
     sheet_prefix: str = ""
+    revisions: tuple[str, ...] = ()
 
 
 _Xform = PaperXform
@@ -208,6 +215,49 @@ def page_plan(ctx: SolvedAlignment, opts: SheetOptions) -> PagePlan:
     return PagePlan(frames, tabs, pages)
 
 
+#: Title-block cells: name and share of the band's width, left to right.
+TITLE_CELLS = (
+    ("PROJECT", 0.17),
+    ("SHEET", 0.13),
+    ("SCALES", 0.14),
+    ("LEGEND", 0.11),
+    ("BY", 0.12),
+    ("REVISIONS", 0.10),
+    ("NOTE", 0.11),
+    ("SEAL", 0.06),
+    ("NUMBER", 0.06),
+)
+
+
+def title_cells(geo: SheetGeometry) -> dict[str, Viewport]:
+    """Each title-block cell on the paper."""
+    t = geo.title
+    out, x = {}, t.x
+    for name, frac in TITLE_CELLS:
+        out[name] = Viewport(x, t.y, t.w * frac, t.h)
+        x += t.w * frac
+    return out
+
+
+def _cell_lines(
+    c, cell: Viewport, ts: float, caption: str, lines: list[tuple[str, bool]], size: float
+) -> None:
+    """A caption, then ``lines`` (text, bold) wrapped to the cell, shrunk until they fit."""
+    c.setFillColorRGB(0, 0, 0)
+    c.setFont(FONT, 0.7 * ts)
+    c.drawString(cell.x + 0.4 * ts, cell.y + cell.h - 1.0 * ts, caption)
+    avail_w, avail_h = cell.w - 0.8 * ts, cell.h - 1.8 * ts
+    while True:
+        wrapped = [(w, bold) for text, bold in lines for w in _wrap(text, bold, size, avail_w)]
+        if len(wrapped) * 1.2 * size <= avail_h or size <= 0.45 * ts:
+            break
+        size *= 0.9
+    y = cell.y + cell.h - 1.6 * ts - size
+    for text, bold in wrapped[: max(1, int(avail_h // (1.2 * size)))]:
+        fonts.draw(c, cell.x + 0.4 * ts, y, text, size, bold)
+        y -= 1.2 * size
+
+
 def _title_block(
     c,
     geo: SheetGeometry,
@@ -215,36 +265,70 @@ def _title_block(
     opts: SheetOptions,
     page: int,
     total: int,
-    scales: str,
+    scales: list[str],
+    sheet_title: str,
+    legend: bool,
 ) -> None:
+    f, ts = geo.factor, geo.text
     t = geo.title
-    f = geo.factor
-    ts = geo.text
     _style(c, "frame", f)
     c.rect(geo.border.x, geo.border.y, geo.border.w, geo.border.h, stroke=1, fill=0)
     c.rect(t.x, t.y, t.w, t.h, stroke=1, fill=0)
-    cells = [
-        ("PROJECT", opts.project or ctx.document.project or "-", 0.24),
-        ("ALIGNMENT", ctx.alignment.name, 0.16),
-        ("SCALES", scales, 0.16),
-        ("DATE / BY", " ".join(v for v in (opts.date, opts.drawn_by) if v) or "-", 0.10),
-        ("NOTE", labels.CAUTION, 0.24),
-        ("SHEET", f"{opts.sheet_prefix}{page} OF {total}", 0.10),
+    cells = title_cells(geo)
+    for cell in cells.values():
+        _style(c, "frame", f)
+        c.rect(cell.x, cell.y, cell.w, cell.h, stroke=1, fill=0)
+    project = [(opts.agency, True), (opts.project or ctx.document.project, False)]
+    if opts.project_number:
+        project.append((f"PROJECT NO. {opts.project_number}", False))
+    _cell_lines(c, cells["PROJECT"], ts, "AGENCY / PROJECT", [p for p in project if p[0]], ts)
+    _cell_lines(
+        c,
+        cells["SHEET"],
+        ts,
+        "SHEET TITLE / ALIGNMENT",
+        [(opts.sheet_title or sheet_title, True), (ctx.alignment.name, False)],
+        1.1 * ts,
+    )
+    _cell_lines(c, cells["SCALES"], ts, "SCALES", [(s, False) for s in scales], 0.9 * ts)
+    people = [
+        ("DESIGNED", opts.designed_by),
+        ("DRAWN", opts.drawn_by),
+        ("CHECKED", opts.checked_by),
+        ("DATE", opts.date),
+        ("DESIGN SPEED", opts.design_speed),
     ]
-    x = t.x
-    for name, value, frac in cells:
-        w = t.w * frac
-        c.rect(x, t.y, w, t.h, stroke=1, fill=0)
-        c.setFont(FONT, 0.75 * ts)
-        c.drawString(x + 0.4 * ts, t.y + t.h - 1.1 * ts, name)
-        size = 1.25 * ts if name in ("SHEET", "ALIGNMENT") else ts
-        bold = name in ("SHEET", "ALIGNMENT")
-        lines = _wrap(value, bold, size, w - 0.8 * ts)
-        y = t.y + t.h - 2.6 * ts
-        for line in lines[: max(1, int((t.h - 2.2 * ts) // (1.25 * size)))]:
-            fonts.draw(c, x + 0.4 * ts, y, line, size, bold)
-            y -= 1.25 * size
-        x += w
+    _cell_lines(c, cells["BY"], ts, "PREPARED", [(f"{k}: {v}", False) for k, v in people], 0.8 * ts)
+    _cell_lines(
+        c, cells["REVISIONS"], ts, "REVISIONS", [(r, False) for r in opts.revisions], 0.8 * ts
+    )
+    _cell_lines(c, cells["NOTE"], ts, "NOTE", [(labels.CAUTION, False)], 0.8 * ts)
+    _cell_lines(c, cells["SEAL"], ts, "SEAL", [], ts)
+    _cell_lines(
+        c, cells["NUMBER"], ts, "SHEET", [(f"{opts.sheet_prefix}{page} OF {total}", True)], 1.3 * ts
+    )
+    if legend:
+        _legend(c, cells["LEGEND"], geo, ctx)
+    else:
+        _cell_lines(c, cells["LEGEND"], ts, "LEGEND", [], ts)
+
+
+def _legend(c, cell: Viewport, geo: SheetGeometry, ctx: SolvedAlignment) -> None:
+    """A line sample and the words for each line a profile view draws."""
+    ts, f = geo.text, geo.factor
+    _cell_lines(c, cell, ts, "LEGEND", [], ts)
+    entries = [(r, w) for r, w in labels.PROFILE_LEGEND if r != "ground" or ctx.alignment.grounds]
+    if ctx.geometry is None:
+        entries = [("plan", labels.PLAN_LEGEND)]
+    size = 0.75 * ts
+    y = cell.y + cell.h - 2.0 * ts
+    for role, words in entries:
+        _style(c, role, f)
+        c.line(cell.x + 0.4 * ts, y, cell.x + 2.6 * ts, y)
+        c.setDash([])
+        c.setFillColorRGB(0, 0, 0)
+        fonts.draw(c, cell.x + 3.0 * ts, y - 0.3 * size, words, size)
+        y -= 1.4 * size
 
 
 def _wrap(text: str, bold: bool, size: float, width: float) -> list[str]:
@@ -260,12 +344,16 @@ def _wrap(text: str, bold: bool, size: float, width: float) -> list[str]:
 
 
 def _scale_bars(c, geo: SheetGeometry, ctx: SolvedAlignment, lay: DraftingLayout) -> None:
+    """Graphic scales at the bottom of the title block's SCALES cell, sized to fit it."""
     f, ts = geo.factor, geo.text
+    cell = title_cells(geo)["SCALES"]
     per_pt = model_per_point(lay)
-    # in the title block's SCALES cell, under its text
-    x, y = geo.title.x + geo.title.w * 0.40 + 0.6 * ts, geo.title.y + 0.9 * ts
+    x, y = cell.x + 0.6 * ts, cell.y + 0.8 * ts
     unit = ctx.document.units.symbol
     length = lay.station_major
+    room = cell.w - 1.2 * ts - (9.5 * ts if ctx.geometry is not None else 0.0)
+    while length / per_pt > room and length > 1e-6:
+        length /= 2
     w = length / per_pt
     _style(c, "frame", f)
     c.setLineWidth(0.6)
@@ -273,19 +361,21 @@ def _scale_bars(c, geo: SheetGeometry, ctx: SolvedAlignment, lay: DraftingLayout
         c.setFillColorRGB(*((0, 0, 0) if k % 2 == 0 else (1, 1, 1)))
         c.rect(x + k * w / 4, y, w / 4, 0.35 * ts, stroke=1, fill=1)
     c.setFillColorRGB(0, 0, 0)
-    c.setFont(FONT, 0.75 * ts)
-    c.drawString(x, y + 0.6 * ts, "0")
-    c.drawRightString(x + w, y + 0.6 * ts, f"{length:g} {unit} HORIZONTAL")
+    size = 0.65 * ts
+    fonts.draw(c, x, y + 0.6 * ts, "0", size)
+    fonts.draw(c, x + w, y + 0.6 * ts, f"{length:g} {unit} HORIZONTAL", size, align="right")
     if ctx.geometry is None:  # plan only: no vertical scale to show
         return
-    zmaj, _ = lay.elevation_steps()
-    hv = zmaj * lay.exaggeration / per_pt
-    vx = x + w + 2 * ts
+    zstep, _ = lay.elevation_steps()
+    while zstep * lay.exaggeration / per_pt > 0.4 * cell.h and zstep > 1e-6:
+        zstep /= 2
+    hv = zstep * lay.exaggeration / per_pt
+    vx = x + w + 1.5 * ts
     for k in range(2):
         c.setFillColorRGB(*((0, 0, 0) if k % 2 == 0 else (1, 1, 1)))
         c.rect(vx, y + k * hv / 2, 0.35 * ts, hv / 2, stroke=1, fill=1)
     c.setFillColorRGB(0, 0, 0)
-    c.drawString(vx + 0.7 * ts, y, f"{zmaj:g} {unit} VERTICAL")
+    fonts.draw(c, vx + 0.7 * ts, y, f"{zstep:g} {unit} VERTICAL", size)
 
 
 def _north_arrow(c, geo: SheetGeometry, angle: float) -> None:
@@ -403,7 +493,14 @@ def _sheet(
         opts,
         frame.number,
         total_pages,
-        labels.scale_text(used.scale, used.exaggeration, ctx.document.units.metric),
+        labels.sheet_scale_lines(
+            used.scale,
+            used.exaggeration if prof is not None else None,
+            view.asked_exaggeration,
+            ctx.document.units.metric,
+        ),
+        labels.SHEET_TITLE_PLAN_PROFILE if prof is not None else labels.SHEET_TITLE_PLAN,
+        True,
     )
     _scale_bars(c, geo, ctx, used)
 
@@ -472,6 +569,7 @@ def render_sheets(ctx: SolvedAlignment, opts: SheetOptions) -> bytes:
     used, profiles = series_exaggeration(ctx, lay, geo, plan_info.frames)
     for frame in plan_info.frames:
         view = sheet_view(ctx, used, geo, frame, len(plan_info.frames), profiles.get(frame.number))
+        view = replace(view, asked_exaggeration=lay.exaggeration)
         _sheet(c, ctx, opts, geo, view, len(plan_info.frames), total, plan, boxes)
         c.showPage()
     page = len(plan_info.frames)
@@ -485,7 +583,9 @@ def render_sheets(ctx: SolvedAlignment, opts: SheetOptions) -> bytes:
             opts,
             page,
             total,
-            labels.scale_text(lay.scale, lay.exaggeration, ctx.document.units.metric),
+            [labels.NO_SCALE],
+            labels.SHEET_TITLE_TABLES,
+            False,
         )
         c.showPage()
     c.save()

@@ -87,8 +87,9 @@ class _Profile:
             self.x1 = math.ceil(g.end / layout.station_minor) * layout.station_minor
         else:
             self.x0, self.x1 = float(window[0]), float(window[1])
-        # the part of the profile that is drawn
+        # the part of the profile that is drawn; the grid ends where it ends
         self.s0, self.s1 = max(g.start, self.x0), min(g.end, self.x1)
+        self.gx0, self.gx1 = (self.s0, self.s1) if self.s1 > self.s0 else (self.x0, self.x1)
         guard_count((self.x1 - self.x0) / layout.station_minor, "profile grid lines")
 
     def y(self, z):
@@ -220,7 +221,7 @@ class _Profile:
             c = curve_at.get(i)
             lines = [labels.point_label("PVI", st.label(s), z, units)]
             if c is not None:
-                lines.append(labels.curve_label(c.length, c.k, units))
+                lines += labels.vertical_curve_lines(c, units)
                 wanted.append(
                     (
                         c.bvc_station,
@@ -257,6 +258,11 @@ class _Profile:
                         )
                     )
             wanted.append((s, z, lines))
+        for end, i in (("start", 0), ("end", -1)):
+            s, z = float(g.pvi_stations[i]), float(g.pvi_elevations[i])
+            wanted.append(
+                (s, z, [labels.point_label(labels.profile_end_tag(end), st.label(s), z, units)])
+            )
         wanted = sorted(w for w in wanted if self.x0 <= w[0] <= self.x1)
         if not wanted:
             return 0.0
@@ -268,8 +274,8 @@ class _Profile:
         # forward pass pushes right, a backward pass pulls left inside the grid
         pos: list[float] = []
         for i, x in enumerate(xs):
-            pos.append(max(x, self.x0 + widths[i]) if not pos else max(x, pos[-1] + widths[i]))
-        pos[-1] = min(pos[-1], self.x1)
+            pos.append(max(x, self.gx0 + widths[i]) if not pos else max(x, pos[-1] + widths[i]))
+        pos[-1] = min(pos[-1], self.gx1)
         for i in range(len(pos) - 2, -1, -1):
             pos[i] = min(pos[i], pos[i + 1] - widths[i + 1])
         # lines that labels must clear: finished grade, tangents, ground
@@ -297,17 +303,18 @@ class _Profile:
 
     # grid, elevation and station labels ---------------------------------------
     def _majors(self) -> np.ndarray:
-        return self.ctx.stationing.round_stations(self.lay.station_major, self.x0, self.x1)
+        return self.ctx.stationing.round_stations(self.lay.station_major, self.gx0, self.gx1)
 
     def _grid(self, major_z: float, minor_z: float) -> None:
         lay, st, h, units = self.lay, self.ctx.stationing, self.h, self.units
         y_top = float(self.y(self.top))
-        minor = st.round_stations(lay.station_minor, self.x0, self.x1)
+        gx0, gx1 = self.gx0, self.gx1
+        minor = st.round_stations(lay.station_minor, gx0, gx1)
         major = self._majors()
         is_major = np.isin(minor, major)
         for x, m in zip(minor.tolist(), is_major.tolist(), strict=True):
             self.items.append(Path("grid_major" if m else "grid", ((x, 0.0), (x, y_top))))
-        for x in (self.x0, self.x1):
+        for x in (gx0, gx1):
             if not np.any(np.isclose(minor, x)):
                 self.items.append(Path("grid_major", ((x, 0.0), (x, y_top))))
         for x in major.tolist():
@@ -318,17 +325,11 @@ class _Profile:
             z = self.datum + k * minor_z
             is_maj = abs(z / major_z - round(z / major_z)) < 1e-9
             y = float(self.y(z))
-            self.items.append(
-                Path("grid_major" if is_maj else "grid", ((self.x0, y), (self.x1, y)))
-            )
+            self.items.append(Path("grid_major" if is_maj else "grid", ((gx0, y), (gx1, y))))
             if is_maj:
                 text = labels.grid_elevation_text(z, major_z)
-                self.items.append(
-                    Text("labels", text, self.x0 - 0.8 * h, y, h, 0.0, "right", "middle")
-                )
-                self.items.append(
-                    Text("labels", text, self.x1 + 0.8 * h, y, h, 0.0, "left", "middle")
-                )
+                self.items.append(Text("labels", text, gx0 - 0.8 * h, y, h, 0.0, "right", "middle"))
+                self.items.append(Text("labels", text, gx1 + 0.8 * h, y, h, 0.0, "left", "middle"))
 
     def _strip(self) -> float:
         """Existing-ground and finished-grade elevations at each labelled station."""
@@ -340,11 +341,26 @@ class _Profile:
             inside = (major >= s[0]) & (major <= s[-1])
             eg[inside] = np.interp(major[inside], s, z)
         width = labels.text_width("0" * 7, h)
-        rows = [("FINISHED GRADE", fg, -2.6 * h), ("EXISTING GROUND", eg, -3.4 * h - width)]
+        rows = [
+            (labels.STRIP_TITLES[0], fg, -2.6 * h),
+            (labels.STRIP_TITLES[1], eg, -3.4 * h - width),
+        ]
         for title, values, top in rows:
-            self.items.append(
-                Text("labels", title, self.x0 - 0.8 * h, top - width / 2, h, 0.0, "right", "middle")
+            # the row's title reads in the first gap between its values wide enough for it
+            need = labels.text_width(title, h) + 2.5 * h
+            edges = [self.gx0 - h] + major.tolist() + [self.gx1]
+            gap = next(
+                (a for a, b in zip(edges[:-1], edges[1:], strict=True) if b - a >= need), None
             )
+            if gap is not None:
+                item = Text(
+                    "labels", title, gap + 1.8 * h, top - width / 2, h, 0.0, "left", "middle"
+                )
+            else:
+                item = Text(
+                    "labels", title, self.gx0 - 0.8 * h, top - width / 2, h, 0.0, "right", "middle"
+                )
+            self.items.append(item)
             for x, z in zip(major.tolist(), values.tolist(), strict=True):
                 if math.isfinite(z):
                     self.items.append(
@@ -360,9 +376,13 @@ class _Profile:
                         )
                     )
         bottom = -3.4 * h - 2 * width
-        self.items.append(Path("grid", ((self.x0, -2.2 * h), (self.x1, -2.2 * h))))
-        self.items.append(Path("grid", ((self.x0, -3.0 * h - width), (self.x1, -3.0 * h - width))))
-        self.items.append(Path("grid", ((self.x0, bottom - 0.4 * h), (self.x1, bottom - 0.4 * h))))
+        self.items.append(Path("grid", ((self.gx0, -2.2 * h), (self.gx1, -2.2 * h))))
+        self.items.append(
+            Path("grid", ((self.gx0, -3.0 * h - width), (self.gx1, -3.0 * h - width)))
+        )
+        self.items.append(
+            Path("grid", ((self.gx0, bottom - 0.4 * h), (self.gx1, bottom - 0.4 * h)))
+        )
         return bottom - 0.4 * h
 
     def _grade_labels(self) -> None:
@@ -404,6 +424,9 @@ class _Profile:
                     break
 
     def _info(self, bottom: float) -> float:
+        """The note mapping drawing y to elevation, for CAD users (not on sheets)."""
+        if self.strip:
+            return bottom
         lay, h = self.lay, self.h
         u = self.units.symbol
         text = labels.profile_mapping_note(self.ctx.alignment.name, self.datum, lay.exaggeration, u)

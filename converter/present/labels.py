@@ -121,6 +121,95 @@ def curve_label(length: float, k: float | None, units: Units) -> str:
     return f"L = {length_text(length, units)}  K = {k_text(k)}"
 
 
+#: Word that marks an unsymmetrical vertical curve on labels and in tables.
+UNSYMMETRICAL = "UNSYM"
+
+
+def vertical_curve_lines(curve, units: Units) -> list[str]:
+    """Curve data under a PVI label: length(s) or radius, K, A and the middle ordinate E.
+
+    An unsymmetrical curve shows both lengths, so EVC = PVI + L2 is visible;
+    a circular one its radius.
+
+    Examples
+    --------
+    >>> from types import SimpleNamespace as C
+    >>> from gradeline.model.units import Units
+    >>> c = C(kind="unsymmetric", length=800.0, length_in=300.0, length_out=500.0,
+    ...       k=174.8, a_pct=-4.5, pvi_offset=-4.2, radius=None)
+    >>> vertical_curve_lines(c, Units("foot"))
+    ['UNSYM L1 = 300.00  L2 = 500.00', 'K = 174.8  A = -4.500%  E = -4.20']
+    """
+    a = f"A = {a_pct_text(curve.a_pct)}  E = {length_text(curve.pvi_offset, units)}"
+    if curve.kind == "unsymmetric":
+        return [
+            f"{UNSYMMETRICAL} L1 = {length_text(curve.length_in, units)}  "
+            f"L2 = {length_text(curve.length_out, units)}",
+            f"K = {k_text(curve.k)}  {a}",
+        ]
+    if curve.kind == "circular" and curve.radius is not None:
+        return [
+            f"R = {length_text(curve.radius, units)}  L = {length_text(curve.length, units)}",
+            f"K = {k_text(curve.k)}  {a}",
+        ]
+    return [curve_label(curve.length, curve.k, units), a]
+
+
+def a_pct_text(a_pct: float) -> str:
+    """Algebraic difference of grades, in percent with three decimals: ``-4.396%``."""
+    return f"{a_pct:+.3f}%" if a_pct else "0.000%"
+
+
+def profile_end_tag(end: str) -> str:
+    """Tag of the profile's first and last point: ``BEGIN PROFILE`` / ``END PROFILE``."""
+    return "BEGIN PROFILE" if end == "start" else "END PROFILE"
+
+
+#: Legend entries of profile views: what each line means (role -> words).
+PROFILE_LEGEND = (
+    ("grade", "FINISHED GRADE"),
+    ("ground", "EXISTING GROUND"),
+    ("tangents", "TANGENT EXTENSION TO PVI"),
+)
+
+#: Legend words of a plan-only sheet's line.
+PLAN_LEGEND = "ALIGNMENT"
+
+#: Default sheet titles (``[sheet] sheet_title`` replaces them).
+SHEET_TITLE_PLAN_PROFILE = "PLAN AND PROFILE"
+SHEET_TITLE_PLAN = "PLAN"
+SHEET_TITLE_TABLES = "CURVE AND STATION TABLES"
+#: What the SCALES cell of a table page says.
+NO_SCALE = "TABLES: NOT TO SCALE"
+
+
+def sheet_scale_lines(
+    scale: float, exaggeration: float | None, asked: float, metric: bool
+) -> list[str]:
+    """The SCALES cell: horizontal and vertical scale, and why the exaggeration is lower
+    than asked when it had to be (it is the same on every sheet of the set).
+
+    Examples
+    --------
+    >>> sheet_scale_lines(50.0, 5.0, 10.0, False)
+    ['H 1" = 50\'  V 1" = 10\'', 'VERTICAL EXAGGERATION 5x ON ALL SHEETS (10x ASKED DOES NOT FIT)']
+    """
+    if exaggeration is None:
+        return [scale_text(scale, 1.0, metric).split("  ")[0]]
+    lines = [scale_text(scale, exaggeration, metric)]
+    if asked and abs(asked - exaggeration) > 1e-9:
+        lines.append(
+            f"VERTICAL EXAGGERATION {exaggeration:g}x ON ALL SHEETS ({asked:g}x ASKED DOES NOT FIT)"
+        )
+    else:
+        lines.append(f"VERTICAL EXAGGERATION {exaggeration:g}x")
+    return lines
+
+
+#: Titles of the elevation rows under the profile grid.
+STRIP_TITLES = ("FINISHED GRADE", "EXISTING GROUND")
+
+
 def plan_point_label(tag: str, station_label: str) -> str:
     """Plan key-point label, e.g. ``PC 36+86.43``."""
     return f"{tag} {station_label}"
