@@ -22,6 +22,7 @@ __all__ = [
     "sheet_frames",
     "sheet_geometry",
     "pack_tables",
+    "split_blocks",
     "table_capacity",
 ]
 
@@ -180,40 +181,67 @@ def table_capacity(geometry: SheetGeometry, row_height: float) -> int:
     return max(4, int((top - bottom) // row_height))
 
 
-#: Rows a table chunk needs besides its body rows: title, header and a gap.
-TABLE_OVERHEAD = 3
+#: Rows a table chunk needs besides its body rows: title, header and a two-row gap.
+TABLE_OVERHEAD = 4
+
+Chunk = tuple[int, int, int, int]  # table, first row, end row, side-by-side blocks
 
 
-def pack_tables(counts: list[int], capacity: int) -> list[list[tuple[int, int, int]]]:
+def pack_tables(
+    counts: list[int], capacity: int, blocks: list[int] | None = None
+) -> list[list[Chunk]]:
     """Pack tables of ``counts`` body rows onto pages of ``capacity`` rows.
 
-    Returns pages, each a list of (table index, first row, end row) chunks.
-    Tables follow each other on a page while they fit; a long table continues
-    on the next page with its title and header repeated.
+    Returns pages, each a list of (table index, first row, end row, blocks)
+    chunks. A table of ``blocks[i]`` > 1 runs in that many blocks side by side
+    (a narrow table on a wide sheet), each block with its own header; its rows
+    fill the first block, then the next. Tables follow each other on a page
+    while they fit; a long table continues on the next page with its title and
+    header repeated. A chunk's height is its overhead plus the rows of its
+    tallest block, so no page holds more than ``capacity`` rows.
 
     Examples
     --------
     >>> pack_tables([2, 5, 30], 20)
-    [[(0, 0, 2), (1, 0, 5), (2, 0, 4)], [(2, 4, 21)], [(2, 21, 30)]]
+    [[(0, 0, 2, 1), (1, 0, 5, 1), (2, 0, 1, 1)], [(2, 1, 17, 1)], [(2, 17, 30, 1)]]
+    >>> pack_tables([2, 50], 20, [1, 3])
+    [[(0, 0, 2, 1), (1, 0, 30, 3)], [(1, 30, 50, 2)]]
     """
-    pages: list[list[tuple[int, int, int]]] = []
-    page: list[tuple[int, int, int]] = []
+    blocks = blocks or [1] * len(counts)
+    pages: list[list[Chunk]] = []
+    page: list[Chunk] = []
     room = capacity
     for index, n in enumerate(counts):
+        k = max(1, blocks[index])
         first = 0
         while first < n or (n == 0 and first == 0):
             if room <= TABLE_OVERHEAD:
                 pages.append(page)
                 page, room = [], capacity
-            take = min(n - first, room - TABLE_OVERHEAD)
-            page.append((index, first, first + take))
-            room -= take + TABLE_OVERHEAD
+            per_block = room - TABLE_OVERHEAD
+            take = min(n - first, per_block * k)
+            used_blocks = max(1, math.ceil(take / per_block)) if take else 1
+            tall = math.ceil(take / used_blocks) if take else 0
+            page.append((index, first, first + take, used_blocks))
+            room -= tall + TABLE_OVERHEAD
             first += take
             if n == 0:
                 break
     if page:
         pages.append(page)
     return pages
+
+
+def split_blocks(first: int, end: int, blocks: int) -> list[tuple[int, int]]:
+    """The row range of each side-by-side block of a chunk, filled one after the other.
+
+    Examples
+    --------
+    >>> split_blocks(30, 50, 2)
+    [(30, 40), (40, 50)]
+    """
+    per = math.ceil((end - first) / blocks) if end > first else 0
+    return [(first + i * per, min(end, first + (i + 1) * per)) for i in range(blocks)]
 
 
 #: Height of a table row as a multiple of the sheet text size.

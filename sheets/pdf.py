@@ -29,6 +29,7 @@ from gradeline.sheets.layout import (
     pack_tables,
     sheet_frames,
     sheet_geometry,
+    split_blocks,
     table_capacity,
 )
 from gradeline.sheets.views import (
@@ -183,7 +184,7 @@ class PagePlan:
 
     frames: list[Frame]
     tables: list[tables.TextTable]
-    table_pages: list[list[tuple[int, int, int]]]  # per page: (table, first row, end row)
+    table_pages: list[list[tuple[int, int, int, int]]]  # per page: table, rows, blocks
 
     @property
     def pages(self) -> int:
@@ -211,8 +212,29 @@ def page_plan(ctx: SolvedAlignment, opts: SheetOptions) -> PagePlan:
         tabs.append(tables.station_table(ctx, interval))
     else:  # plan only: the sheets show the plan, the tables its coordinates
         tabs.append(tables.plan_station_table(ctx, interval))
-    pages = pack_tables([len(tab.rows) for tab in tabs], table_capacity(geo, TABLE_ROW * geo.text))
+    blocks = [table_blocks(tab, geo) for tab in tabs]
+    capacity = table_capacity(geo, TABLE_ROW * geo.text)
+    pages = pack_tables([len(tab.rows) for tab in tabs], capacity, blocks)
     return PagePlan(frames, tabs, pages)
+
+
+def _column_widths(tab: tables.TextTable, ts: float) -> list[float]:
+    """Each column's natural width on the paper: its widest cell, plus padding."""
+    out = []
+    for j in range(len(tab.header)):
+        w = fonts.text_width(tab.header[j], 0.9 * ts, True)
+        for row in tab.rows[:2000]:
+            w = max(w, fonts.text_width(row[j], 0.9 * ts))
+        out.append(w + 1.6 * ts)
+    return out
+
+
+def table_blocks(tab: tables.TextTable, geo: SheetGeometry) -> int:
+    """How many blocks of ``tab`` stand side by side across the page (at most 4)."""
+    ts = geo.text
+    natural = sum(_column_widths(tab, ts))
+    width = geo.border.w - 4 * ts
+    return max(1, min(4, int((width + 3 * ts) // (natural * 1.25 + 3 * ts))))
 
 
 #: Title-block cells: name and share of the band's width, left to right.
@@ -509,44 +531,61 @@ def _table_page(c, geo: SheetGeometry, chunks) -> None:
     ts = geo.text
     rh = TABLE_ROW * ts
     b = geo.border
-    x0 = b.x + 2 * ts
-    width = b.w - 4 * ts
+    x_left = b.x + 2 * ts
+    page_w = b.w - 4 * ts
+    gap = 3 * ts
     top = b.y + b.h - 1.5 * ts
-    for tab, first, last in chunks:
+    for tab, first, last, blocks in chunks:
         top -= rh
         c.setFillColorRGB(0, 0, 0)
         title = tab.title + (" (CONTINUED)" if first else "")
-        fonts.draw(c, x0, top + 0.45 * ts, title, 1.2 * ts, bold=True)
-        total_w = sum(tab.widths)
-        xs = [x0]
-        for w in tab.widths:
-            xs.append(xs[-1] + width * w / total_w)
-        rows = [tab.header] + list(tab.rows[first:last])
-        _style(c, "frame", geo.factor)
-        c.setLineWidth(0.5)
-        for r, row in enumerate(rows):
-            y = top - (r + 1) * rh
-            if r == 0:
-                c.setFillColorRGB(0.88, 0.90, 0.94)
-                c.rect(x0, y, width, rh, stroke=0, fill=1)
-                c.setFillColorRGB(0, 0, 0)
-            c.line(x0, y, x0 + width, y)
-            for j, cell in enumerate(row):
-                size = 0.9 * ts
-                avail = xs[j + 1] - xs[j] - 0.6 * ts
-                while fonts.text_width(cell, size, r == 0) > avail and size > 0.5 * ts:
-                    size *= 0.92
-                fonts.draw(
-                    c, (xs[j] + xs[j + 1]) / 2, y + 0.55 * ts, cell, size, r == 0, align="center"
-                )
-        y_end = top - len(rows) * rh
-        c.line(x0, top, x0 + width, top)
-        for x in xs:
-            c.line(x, top, x, y_end)
+        fonts.draw(c, x_left, top + 0.45 * ts, title, 1.2 * ts, bold=True)
+        natural = _column_widths(tab, ts)
+        k = table_blocks(tab, geo)
+        block_w = page_w if k == 1 else (page_w - (k - 1) * gap) / k
+        widths = [block_w * w / sum(natural) for w in natural]
+        tallest = 0
+        for n, (a, z) in enumerate(split_blocks(first, last, blocks)):
+            x0 = x_left + n * (block_w + gap)
+            _table_block(c, geo, tab, a, z, x0, top, widths)
+            tallest = max(tallest, z - a)
+        y_end = top - (tallest + 1) * rh
         if not tab.rows:
             c.setFont(FONT, 0.9 * ts)
-            c.drawString(x0 + 0.5 * ts, y_end - 1.2 * ts, "(none)")
+            c.drawString(x_left + 0.5 * ts, y_end - 1.2 * ts, "(none)")
         top = y_end - 2 * rh
+
+
+def _table_block(c, geo, tab, first, last, x0, top, widths) -> None:
+    """One block: header and rows ``first:last`` from ``top`` down, columns ``widths``."""
+    ts = geo.text
+    rh = TABLE_ROW * ts
+    width = sum(widths)
+    xs = [x0]
+    for w in widths:
+        xs.append(xs[-1] + w)
+    rows = [tab.header] + list(tab.rows[first:last])
+    _style(c, "frame", geo.factor)
+    c.setLineWidth(0.5)
+    for r, row in enumerate(rows):
+        y = top - (r + 1) * rh
+        if r == 0:
+            c.setFillColorRGB(0.88, 0.90, 0.94)
+            c.rect(x0, y, width, rh, stroke=0, fill=1)
+            c.setFillColorRGB(0, 0, 0)
+        c.line(x0, y, x0 + width, y)
+        for j, cell in enumerate(row):
+            size = 0.9 * ts
+            avail = xs[j + 1] - xs[j] - 0.6 * ts
+            while fonts.text_width(cell, size, r == 0) > avail and size > 0.5 * ts:
+                size *= 0.92
+            fonts.draw(
+                c, (xs[j] + xs[j + 1]) / 2, y + 0.55 * ts, cell, size, r == 0, align="center"
+            )
+    y_end = top - len(rows) * rh
+    c.line(x0, top, x0 + width, top)
+    for x in xs:
+        c.line(x, top, x, y_end)
 
 
 def render_sheets(ctx: SolvedAlignment, opts: SheetOptions) -> bytes:
@@ -575,7 +614,7 @@ def render_sheets(ctx: SolvedAlignment, opts: SheetOptions) -> bytes:
     page = len(plan_info.frames)
     for chunks in plan_info.table_pages:
         page += 1
-        _table_page(c, geo, [(plan_info.tables[i], a, b) for i, a, b in chunks])
+        _table_page(c, geo, [(plan_info.tables[i], a, b, k) for i, a, b, k in chunks])
         _title_block(
             c,
             geo,

@@ -153,10 +153,15 @@ def station_table(ctx: SolvedAlignment, interval: float) -> TextTable:
     stations, tags = rows.table_stations(ctx, interval=interval)
     data = rows.station_rows(ctx, stations, tags)
     ground = _ground_at(ctx, np.asarray(stations))
+    st = ctx.stationing
+    equations = {eq.internal: labels.equation_text(*st.equation_labels(eq)) for eq in st.equations}
     out = []
-    for r, eg in zip(data, ground, strict=True):
+    for s, r, eg in zip(stations, data, ground, strict=True):
         if not math.isfinite(r["elevation"]):
             continue
+        eq_text = equations.get(float(s))
+        if eq_text is not None:
+            r = dict(r, point=r["point"].replace("EQUATION", eq_text))
         out.append(
             (
                 r["station_label"],

@@ -75,13 +75,15 @@ def test_frames_metric_scale():
     assert len(frames) == math.ceil(2450 / (frames[0].match_end - frames[0].match_start))
 
 
-def test_pack_tables():
-    pages = pack_tables([10, 0, 50], 30)
+@pytest.mark.parametrize("blocks", [None, [1, 1, 3]])
+def test_pack_tables(blocks):
+    pages = pack_tables([10, 0, 50], 30, blocks)
     covered = {}
-    for page in pages:
-        assert sum(b - a + 3 for _, a, b in page) <= 30
-        for i, a, b in page:
+    for page in pages:  # title, header and gap rows, plus the tallest block of each chunk
+        assert sum(math.ceil((b - a) / k) + 4 for _, a, b, k in page) <= 30
+        for i, a, b, k in page:
             covered.setdefault(i, []).append((a, b))
+            assert k == 1 or blocks is not None
     assert covered[0] == [(0, 10)] and covered[1] == [(0, 0)]
     rows = [r for a, b in covered[2] for r in range(a, b)]
     assert rows == list(range(50))

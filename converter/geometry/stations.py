@@ -190,6 +190,10 @@ class Stationing:
     def _fmt(self, labelled: float) -> str:
         return format_station(labelled, self.station_length, self.decimals)
 
+    def equation_labels(self, eq: StationEquation) -> tuple[str, str]:
+        """Back and ahead station labels of an equation, formatted like every station."""
+        return self._fmt(eq.back), self._fmt(eq.ahead)
+
     def labels(self, internal: ArrayLike) -> list[str]:
         """Label texts of an array of internal stations."""
         values = self.label_value(internal)

@@ -258,6 +258,11 @@ class _Profile:
                         )
                     )
             wanted.append((s, z, lines))
+        for eq in st.equations:
+            if g.start <= eq.internal <= g.end:
+                back, ahead = st.equation_labels(eq)
+                z = float(self.ctx.elevation(eq.internal))
+                wanted.append((eq.internal, z, [labels.equation_text(back, ahead)]))
         for end, i in (("start", 0), ("end", -1)):
             s, z = float(g.pvi_stations[i]), float(g.pvi_elevations[i])
             wanted.append(

@@ -160,6 +160,11 @@ def a_pct_text(a_pct: float) -> str:
     return f"{a_pct:+.3f}%" if a_pct else "0.000%"
 
 
+def equation_text(back_label: str, ahead_label: str) -> str:
+    """A station equation as sheets show it: ``STA EQ 12+00.00 BK = 12+50.00 AH``."""
+    return f"STA EQ {back_label} BK = {ahead_label} AH"
+
+
 def profile_end_tag(end: str) -> str:
     """Tag of the profile's first and last point: ``BEGIN PROFILE`` / ``END PROFILE``."""
     return "BEGIN PROFILE" if end == "start" else "END PROFILE"

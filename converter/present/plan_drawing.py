@@ -18,6 +18,7 @@ from gradeline.present.items import (
     Drawing,
     Path,
     Text,
+    boxes_overlap,
 )
 from gradeline.present.layout import DraftingLayout, guard_count
 from gradeline.solved import SolvedAlignment
@@ -138,6 +139,34 @@ def plan_drawing(ctx: SolvedAlignment, layout: DraftingLayout) -> Drawing:
                 "middle",
             )
         )
+    for eq in st.equations:
+        if not hz.start <= eq.internal <= hz.end:
+            continue
+        n_, e_, hd = (float(v) for v in ctx.plan_at(eq.internal))
+        nx, ny = -math.sin(hd), math.cos(hd)  # left normal
+        items.append(
+            Path(
+                "plan_ticks",
+                ((e_ - 1.5 * h * nx, n_ - 1.5 * h * ny), (e_ + 1.5 * h * nx, n_ + 1.5 * h * ny)),
+            )
+        )
+        rot, flipped = _readable_flag(math.degrees(hd) - 90.0)
+        text = labels.equation_text(*st.equation_labels(eq))
+        for reach in (2.0, 6.0, 10.0, 14.0):  # along the right normal until it is clear
+            item = Text(
+                "plan_labels",
+                text,
+                e_ - reach * h * nx,
+                n_ - reach * h * ny,
+                h,
+                rot,
+                "right" if flipped else "left",
+                "middle",
+            )
+            box = item.corners()
+            if not any(boxes_overlap(box, b) for b in taken):
+                break
+        put(item)
     notes: list[CurveNote] = []
     for c in ctx.curves:
         if c.pi_northing is None or c.pi_easting is None:
