@@ -207,6 +207,7 @@ def page_plan(ctx: SolvedAlignment, opts: SheetOptions) -> PagePlan:
     tabs = []
     if ctx.horizontal is not None:
         tabs.append(tables.horizontal_curve_table(ctx))
+        tabs.append(tables.tangent_table(ctx))
     if ctx.geometry is not None:
         tabs.append(tables.vertical_curve_table(ctx))
         tabs.append(tables.station_table(ctx, interval))

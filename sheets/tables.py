@@ -15,7 +15,13 @@ from gradeline.present import labels
 from gradeline.present import tables as rows
 from gradeline.solved import SolvedAlignment
 
-__all__ = ["TextTable", "horizontal_curve_table", "station_table", "vertical_curve_table"]
+__all__ = [
+    "TextTable",
+    "horizontal_curve_table",
+    "station_table",
+    "tangent_table",
+    "vertical_curve_table",
+]
 
 
 @dataclass(frozen=True, slots=True)
@@ -47,8 +53,17 @@ def _pct(value: float | None) -> str:
 def vertical_curve_table(ctx: SolvedAlignment) -> TextTable:
     """Vertical curve data: PVI, grades, A, L, K, BVC/EVC, high/low point."""
     out = []
-    for i, r in enumerate(rows.vertical_curve_rows(ctx), start=1):
+    assert ctx.geometry is not None
+    curves = ctx.geometry.curves
+    for i, (c, r) in enumerate(zip(curves, rows.vertical_curve_rows(ctx), strict=True), start=1):
         turn = "HIGH" if r["type"] == "crest" else "LOW"
+        kind = r["type"].upper()
+        length = _len(r["length"], ctx)
+        if c.kind == "unsymmetric":
+            kind += f" {labels.UNSYMMETRICAL}"
+            length = f"{_len(c.length_in, ctx)} + {_len(c.length_out, ctx)}"
+        elif c.kind == "circular" and c.radius is not None:
+            kind += f" R {_len(c.radius, ctx)}"
         out.append(
             (
                 str(i),
@@ -57,9 +72,9 @@ def vertical_curve_table(ctx: SolvedAlignment) -> TextTable:
                 _pct(r["grade_in"]),
                 _pct(r["grade_out"]),
                 _pct(r["A"]),
-                _len(r["length"], ctx),
+                length,
                 labels.k_text(r["K"]),
-                r["type"].upper(),
+                kind,
                 _sta(r["bvc_station"], ctx),
                 _len(r["bvc_elevation"], ctx),
                 _sta(r["evc_station"], ctx),
@@ -80,7 +95,7 @@ def vertical_curve_table(ctx: SolvedAlignment) -> TextTable:
             "G1",
             "G2",
             "A",
-            f"L ({u})",
+            f"L OR L1 + L2 ({u})",
             "K",
             "TYPE",
             "BVC STA",
@@ -96,55 +111,106 @@ def vertical_curve_table(ctx: SolvedAlignment) -> TextTable:
 
 
 def horizontal_curve_table(ctx: SolvedAlignment) -> TextTable:
-    """Horizontal curve data: PI, R, delta, L, T, chord, E, M, PC/PT or TS/SC/CS/ST."""
-
+    """Horizontal curve data: PI, R, D, Δ (total, arc, spirals), Ls, T or Ts, E or Es,
+    L or Lc of the arc, chord and M of the arc, PC/PT or TS/SC/CS/ST."""
+    units = ctx.document.units
+    us = not units.metric
     out = []
-    curves = ctx.curves
-    for c, r in zip(curves, rows.horizontal_curve_rows(ctx), strict=True):
+    for c, r in zip(ctx.curves, rows.horizontal_curve_rows(ctx), strict=True):
         spirals = c.spiral_in > 0 or c.spiral_out > 0
-        out.append(
-            (
-                str(c.number),
-                _sta(r["pi_station"], ctx),
-                _len(r["pi_northing"], ctx),
-                _len(r["pi_easting"], ctx),
-                _len(r["radius"], ctx),
-                labels.dms_text(c.delta) + (" LT" if c.delta > 0 else " RT"),
-                _len(r["length"], ctx),
-                _len(r["tangent"], ctx),
-                _len(r["chord"], ctx),
-                _len(r["external"], ctx),
-                _len(r["middle_ordinate"], ctx),
-                ("TS " if spirals and c.spiral_in else "PC ") + _sta(r["pc_station"], ctx),
-                _sta(r["sc_station"], ctx),
-                _sta(r["cs_station"], ctx),
-                ("ST " if spirals and c.spiral_out else "PT ") + _sta(r["pt_station"], ctx),
-                (f"{_len(c.spiral_in, ctx)} / {_len(c.spiral_out, ctx)}" if spirals else ""),
-            )
-        )
-    u = ctx.document.units.symbol
+        ang = labels.angle_text
+
+        def pair(a: float, b: float) -> str:
+            return _len(a, ctx) if abs(a - b) < 5e-4 else f"{_len(a, ctx)} / {_len(b, ctx)}"
+
+        cells = [
+            str(c.number),
+            _sta(r["pi_station"], ctx),
+            _len(r["pi_northing"], ctx),
+            _len(r["pi_easting"], ctx),
+            _len(r["radius"], ctx),
+        ]
+        if us:
+            cells.append(labels.dms_text(math.radians(r["degree_of_curve"])))
+        cells += [
+            ang(c.delta, units) + (" LT" if c.delta > 0 else " RT"),
+            ang(c.arc_delta, units) if spirals else "",
+            f"{ang(c.spiral_in_delta, units)} / {ang(c.spiral_out_delta, units)}"
+            if spirals
+            else "",
+            f"{_len(c.spiral_in, ctx)} / {_len(c.spiral_out, ctx)}" if spirals else "",
+            ("Ts " if spirals else "") + pair(c.tangent_in, c.tangent_out),
+            _len(r["external"], ctx),
+            _len(r["length"], ctx),
+            _len(r["chord"], ctx),
+            _len(r["middle_ordinate"], ctx),
+            ("TS " if spirals and c.spiral_in else "PC ") + _sta(r["pc_station"], ctx),
+            _sta(r["sc_station"], ctx),
+            _sta(r["cs_station"], ctx),
+            ("ST " if spirals and c.spiral_out else "PT ") + _sta(r["pt_station"], ctx),
+        ]
+        out.append(tuple(cells))
+    u = units.symbol
+    unit = {"grads": "GON", "radians": "RAD"}.get(units.angular, "DMS")
+    header = ["NO.", "PI STA", "PI NORTHING", "PI EASTING", f"R ({u})"]
+    if us:
+        header.append("D (ARC)")
+    header += [
+        f"\u0394 TOTAL ({unit})",
+        "\u0394c ARC",
+        "\u0394s IN / OUT",
+        "LS IN / OUT",
+        "T OR Ts",
+        "E OR Es",
+        "L OR Lc (ARC)",
+        "CHORD (ARC)",
+        "M (ARC)",
+        "PC / TS",
+        "SC",
+        "CS",
+        "PT / ST",
+    ]
     return TextTable(
         f"HORIZONTAL CURVE DATA - {ctx.alignment.name}",
-        (
-            "NO.",
-            "PI STA",
-            "PI NORTHING",
-            "PI EASTING",
-            f"R ({u})",
-            "DELTA",
-            "L",
-            "T",
-            "CHORD",
-            "E",
-            "M",
-            "PC / TS",
-            "SC",
-            "CS",
-            "PT / ST",
-            "LS IN / OUT",
-        ),
+        tuple(header),
         tuple(out),
-        (0.5, 1.2, 1.4, 1.4, 1.0, 1.5, 0.9, 0.9, 0.9, 0.8, 0.8, 1.4, 1.1, 1.1, 1.4, 1.4),
+        tuple(1.0 for _ in header),
+    )
+
+
+def tangent_table(ctx: SolvedAlignment) -> TextTable:
+    """The tangents between curves: from and to (POB, PT/ST, PC/TS, POE), length and
+    bearing, and the coordinates of the POB and the POE."""
+    hz = ctx.horizontal
+    assert hz is not None
+    units = ctx.document.units
+    ends = [(hz.start, "POB")]
+    for c in ctx.curves:
+        ends += [
+            (c.start_station, "TS" if c.spiral_in else "PC"),
+            (c.end_station, "ST" if c.spiral_out else "PT"),
+        ]
+    ends.append((hz.end, "POE"))
+    out = []
+    for (a, ta), (b, tb) in zip(ends[0::2], ends[1::2], strict=True):
+        if b - a <= 1e-9:
+            continue
+        (na, nb), (ea, eb), (h, _) = ctx.plan_at([a, b])
+        out.append(
+            (
+                f"{ta} {_sta(a, ctx)}",
+                f"{_len(float(na), ctx)} / {_len(float(ea), ctx)}" if ta == "POB" else "",
+                f"{tb} {_sta(b, ctx)}",
+                f"{_len(float(nb), ctx)} / {_len(float(eb), ctx)}" if tb == "POE" else "",
+                _len(b - a, ctx),
+                labels.bearing_text(float(h), units),
+            )
+        )
+    return TextTable(
+        f"TANGENT DATA - {ctx.alignment.name}",
+        ("FROM", "N / E", "TO", "N / E", f"LENGTH ({units.symbol})", "BEARING"),
+        tuple(out),
+        (1.0, 1.0, 1.0, 1.0, 1.0, 1.0),
     )
 
 

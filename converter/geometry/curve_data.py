@@ -45,6 +45,9 @@ class HorizontalCurve:
     spiral_out: float
     spiral_type: str | None
     source: SourceRef | None = field(default=None, compare=False)
+    arc_delta: float = 0.0  # the circular arc's own deflection, radians, unsigned
+    spiral_in_delta: float = 0.0  # turning of the spirals, radians, unsigned
+    spiral_out_delta: float = 0.0
 
     @property
     def has_spirals(self) -> bool:
@@ -137,6 +140,9 @@ def curve_data(geom: HorizontalGeometry) -> tuple[HorizontalCurve, ...]:
                 spiral_out=sp_out,
                 spiral_type=sp_type,
                 source=g.source,
+                arc_delta=sweep,
+                spiral_in_delta=abs(first.heading1 - first.heading0) if sp_in else 0.0,
+                spiral_out_delta=abs(last.heading1 - last.heading0) if sp_out else 0.0,
             )
         )
     return tuple(out)

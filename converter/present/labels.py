@@ -196,8 +196,10 @@ def sheet_scale_lines(
 
     Examples
     --------
-    >>> sheet_scale_lines(50.0, 5.0, 10.0, False)
-    ['H 1" = 50\'  V 1" = 10\'', 'VERTICAL EXAGGERATION 5x ON ALL SHEETS (10x ASKED DOES NOT FIT)']
+    >>> for line in sheet_scale_lines(50.0, 5.0, 10.0, False):
+    ...     print(line)
+    H 1" = 50'  V 1" = 10'
+    VERTICAL EXAGGERATION 5x ON ALL SHEETS (10x ASKED DOES NOT FIT)
     """
     if exaggeration is None:
         return [scale_text(scale, 1.0, metric).split("  ")[0]]
@@ -220,33 +222,88 @@ def plan_point_label(tag: str, station_label: str) -> str:
     return f"{tag} {station_label}"
 
 
-def plan_curve_note(
-    number: int,
-    delta_rad: float,
-    radius: float,
-    tangent: float,
-    length: float,
-    external: float,
-    spiral_in: float,
-    spiral_out: float,
-    units: Units,
-) -> list[str]:
-    """Lines of a horizontal curve-data note."""
-    side = "LT" if delta_rad > 0 else "RT"
+def angle_text(angle_rad: float, units: Units) -> str:
+    """An angle in the file's angular unit: DMS for degrees, gon for grads, else radians.
+
+    Examples
+    --------
+    >>> import math
+    >>> from gradeline.model.units import Units
+    >>> print(angle_text(math.radians(28.0), Units("foot")))
+    28°00'00.0"
+    >>> angle_text(math.pi / 4, Units("meter", angular="grads"))
+    '50.0000 gon'
+    """
+    if units.angular == "grads":
+        return f"{abs(angle_rad) * 200.0 / math.pi:.4f} gon"
+    if units.angular == "radians":
+        return f"{abs(angle_rad):.6f} rad"
+    return dms_text(angle_rad)
+
+
+def bearing_text(heading_rad: float, units: Units) -> str:
+    """A tangent's direction for sheets: a quadrant bearing in DMS (degree files) or the
+    azimuth from north in gon or radians.
+
+    Examples
+    --------
+    >>> import math
+    >>> from gradeline.model.units import Units
+    >>> print(bearing_text(math.radians(30.0), Units("foot")))  # 60 degrees east of north
+    N 60°00'00.0" E
+    >>> bearing_text(math.radians(-90.0), Units("meter", angular="grads"))
+    'AZ 200.0000 gon'
+    """
+    az = (math.pi / 2 - heading_rad) % (2 * math.pi)  # clockwise from north
+    if units.angular in ("grads", "radians"):
+        return f"AZ {angle_text(az, units)}"
+    ns = "N" if az <= math.pi / 2 or az >= 3 * math.pi / 2 else "S"
+    ew = "E" if az <= math.pi else "W"
+    q = {("N", "E"): az, ("S", "E"): math.pi - az, ("S", "W"): az - math.pi}.get(
+        (ns, ew), 2 * math.pi - az
+    )
+    return f"{ns} {dms_text(q)} {ew}"
+
+
+def plan_curve_note(curve, units: Units) -> list[str]:
+    """Lines of a horizontal curve-data note.
+
+    A simple curve: Δ, R, D (US files, arc definition), T, L, E. A spiralled
+    curve states which values belong to the arc: Δ total, Δc of the arc, Δs of
+    each spiral, R, Ls, Ts and Es from the PI, and Lc of the arc.
+    """
+    side = "LT" if curve.delta > 0 else "RT"
     u = units.symbol
-    lines = [
-        f"CURVE {number}",
-        f"DELTA = {dms_text(delta_rad)} {side}",
-        f"R = {length_text(radius, units)} {u}",
-        f"T = {length_text(tangent, units)} {u}",
-        f"L = {length_text(length, units)} {u}",
-        f"E = {length_text(external, units)} {u}",
+
+    def ln(v: float) -> str:
+        return f"{length_text(v, units)} {u}"
+
+    def ang(v: float) -> str:
+        return angle_text(v, units)
+
+    n = curve.number
+    if not (curve.spiral_in or curve.spiral_out):
+        lines = [f"CURVE {n}", f"\u0394 = {ang(curve.delta)} {side}", f"R = {ln(curve.radius)}"]
+        if not units.metric:
+            lines.append(f"D = {dms_text(math.radians(18000.0 / (math.pi * curve.radius)))}")
+        return lines + [
+            f"T = {ln(curve.tangent_in)}",
+            f"L = {ln(curve.arc_length)}",
+            f"E = {ln(curve.external)}",
+        ]
+    pair = curve.tangent_in, curve.tangent_out
+    ts = ln(pair[0]) if abs(pair[0] - pair[1]) < 5e-4 else f"{ln(pair[0])} / {ln(pair[1])}"
+    return [
+        f"CURVE {n} (SPIRALS {curve.spiral_type or ''})".replace(" )", ")"),
+        f"\u0394 = {ang(curve.delta)} {side} (TOTAL)",
+        f"\u0394c = {ang(curve.arc_delta)} (ARC)",
+        f"\u0394s = {ang(curve.spiral_in_delta)} / {ang(curve.spiral_out_delta)}",
+        f"R = {ln(curve.radius)}",
+        f"Ls = {ln(curve.spiral_in)} / {ln(curve.spiral_out)}",
+        f"Ts = {ts}",
+        f"Es = {ln(curve.external)}",
+        f"Lc = {ln(curve.arc_length)} (ARC)",
     ]
-    if spiral_in or spiral_out:
-        lines.insert(
-            3, f"LS = {length_text(spiral_in, units)} / {length_text(spiral_out, units)} {u}"
-        )
-    return lines
 
 
 def curve_tag(number: int) -> str:

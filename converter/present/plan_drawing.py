@@ -171,17 +171,8 @@ def plan_drawing(ctx: SolvedAlignment, layout: DraftingLayout) -> Drawing:
     for c in ctx.curves:
         if c.pi_northing is None or c.pi_easting is None:
             continue
-        lines = [labels.plan_point_label("PI", st.label(c.pi_station))] + labels.plan_curve_note(
-            c.number,
-            c.delta,
-            c.radius,
-            c.tangent_in,
-            c.arc_length,
-            c.external,
-            c.spiral_in,
-            c.spiral_out,
-            units,
-        )
+        note = labels.plan_curve_note(c, units)
+        lines = [note[0], labels.plan_point_label("PI", st.label(c.pi_station))] + note[1:]
         mid = (c.start_station + c.end_station) / 2
         mn, me, _ = (float(v) for v in ctx.plan_at(mid))
         ox, oy = c.pi_easting - me, c.pi_northing - mn
