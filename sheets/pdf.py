@@ -7,6 +7,7 @@ viewports from :mod:`gradeline.sheets.layout` -- and never computes geometry its
 
 from __future__ import annotations
 
+import functools
 import io
 import math
 from dataclasses import dataclass, replace
@@ -108,6 +109,48 @@ def _paper_text(c, paper: Text, vp: Viewport | None) -> None:
     c.restoreState()
 
 
+def clip_polyline(pts: np.ndarray, vp: Viewport) -> list[np.ndarray]:
+    """The pieces of a polyline inside the viewport (Liang-Barsky on each segment)."""
+    x0, y0, x1, y1 = vp.x, vp.y, vp.x + vp.w, vp.y + vp.h
+    if (
+        pts[:, 0].min() >= x0
+        and pts[:, 0].max() <= x1
+        and pts[:, 1].min() >= y0
+        and pts[:, 1].max() <= y1
+    ):
+        return [pts]
+    pieces: list[list[np.ndarray]] = []
+    last_end = None
+    for a, b in zip(pts[:-1], pts[1:], strict=True):
+        d = b - a
+        t0, t1 = 0.0, 1.0
+        visible = True
+        for p, q in ((-d[0], a[0] - x0), (d[0], x1 - a[0]), (-d[1], a[1] - y0), (d[1], y1 - a[1])):
+            if p == 0:
+                if q < 0:
+                    visible = False
+                    break
+                continue
+            r = q / p
+            if p < 0:
+                t0 = max(t0, r)
+            else:
+                t1 = min(t1, r)
+            if t0 > t1:
+                visible = False
+                break
+        if not visible:
+            last_end = None
+            continue
+        p0, p1 = a + t0 * d, a + t1 * d
+        if last_end is not None and t0 == 0.0:
+            pieces[-1].append(p1)
+        else:
+            pieces.append([p0, p1])
+        last_end = p1 if t1 == 1.0 else None
+    return [np.array(p) for p in pieces]
+
+
 def _draw_items(c, items, xf: _Xform, vp: Viewport, f: float) -> None:
     c.saveState()
     p = c.beginPath()
@@ -119,11 +162,12 @@ def _draw_items(c, items, xf: _Xform, vp: Viewport, f: float) -> None:
         _style(c, item.role, f)
         if isinstance(item, Path) or isinstance(item, ArcItem):
             pts = xf.many(item.points if isinstance(item, Path) else item.polyline)
-            path = c.beginPath()
-            path.moveTo(*pts[0])
-            for q in pts[1:]:
-                path.lineTo(*q)
-            c.drawPath(path, stroke=1, fill=0)
+            for piece in clip_polyline(pts, vp):  # nothing invisible stays in the file
+                path = c.beginPath()
+                path.moveTo(*piece[0])
+                for q in piece[1:]:
+                    path.lineTo(*q)
+                c.drawPath(path, stroke=1, fill=0)
         elif isinstance(item, QuadCurve):
             p0, p1, p2 = (np.array(xf(*q)) for q in item.control)
             c1, c2 = p0 + 2.0 / 3.0 * (p1 - p0), p2 + 2.0 / 3.0 * (p1 - p2)  # exact cubic form
@@ -219,15 +263,21 @@ def page_plan(ctx: SolvedAlignment, opts: SheetOptions) -> PagePlan:
     return PagePlan(frames, tabs, pages)
 
 
-def _column_widths(tab: tables.TextTable, ts: float) -> list[float]:
-    """Each column's natural width on the paper: its widest cell, plus padding."""
+@functools.lru_cache(maxsize=32)
+def _column_widths(tab: tables.TextTable, ts: float) -> tuple[float, ...]:
+    """Each column's natural width on the paper: its widest cell, plus padding.
+
+    Only the longest cells of a column are measured (widths grow with length in
+    these fonts closely enough to find the widest among the 12 longest).
+    """
     out = []
     for j in range(len(tab.header)):
         w = fonts.text_width(tab.header[j], 0.9 * ts, True)
-        for row in tab.rows[:2000]:
-            w = max(w, fonts.text_width(row[j], 0.9 * ts))
+        longest = sorted({row[j] for row in tab.rows}, key=len, reverse=True)[:12]
+        for cell in longest:
+            w = max(w, fonts.text_width(cell, 0.9 * ts))
         out.append(w + 1.6 * ts)
-    return out
+    return tuple(out)
 
 
 def table_blocks(tab: tables.TextTable, geo: SheetGeometry) -> int:
@@ -491,7 +541,10 @@ def _sheet(
         pvp = geo.plan
         center_x = xf((pv.start + pv.end) / 2, 0.0)[0]
         pxf = _Xform(per_pt, mid, (center_x, pvp.cy), angle)
-        marks = [match_mark_paper(m, pxf, geo, frame.number, st.label(m.station)) for m in pv.marks]
+        size = used.text_height * pxf.k  # plan labels on the paper
+        marks = [
+            match_mark_paper(m, pxf, geo, frame.number, st.label(m.station), size) for m in pv.marks
+        ]
         pv = plan_layout(pv, plan, plan_boxes, pxf, geo, _plan_reserved(geo), marks)
         _draw_items(c, pv.items, pxf, pvp, f)
         _notes(c, pv.notes, f)

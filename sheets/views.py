@@ -305,7 +305,7 @@ def _place_note(note: CurveNote, xf: PaperXform, room: _Room, size: float) -> Pl
     px, py = xf(*note.pi)
     vp = room.vp
     if not (vp.x <= px <= vp.x + vp.w and vp.y <= py <= vp.y + vp.h):
-        return None  # the PI is on another sheet: its note is there
+        px, py = xf(*note.middle)  # the PI lies off the view: point to the curve itself
     width = max(fonts.text_width(t, size) for t in note.lines) + 0.2 * size
     height = len(note.lines) * NOTE_PITCH * size + 0.3 * size
     # the outward direction on the paper first, then turning away from it
@@ -340,7 +340,7 @@ def _place_note(note: CurveNote, xf: PaperXform, room: _Room, size: float) -> Pl
     tag = labels.curve_tag(note.number)
     tag_w = fonts.text_width(tag, size)
     tag_box = None
-    for r in (1.0, 2.0, 3.0):
+    for r in (1.0, 2.0, 3.0, 5.0, 8.0):
         for t in turns:
             a = a0 + t
             cx, cy = px + r * size * math.cos(a), py + r * size * math.sin(a)
@@ -350,9 +350,10 @@ def _place_note(note: CurveNote, xf: PaperXform, room: _Room, size: float) -> Pl
                 break
         if tag_box is not None:
             break
-    if tag_box is None:
-        return None
-    room.take(tag_box)
+    if tag_box is None:  # not even a tag fits: the note stands apart without one
+        tag_box = (px, py, px, py)
+    else:
+        room.take(tag_box)
     mark = (tag, (tag_box[0] + tag_box[2]) / 2, tag_box[1] + 0.5 * size)
     step = 1.5 * size
     for y0 in np.arange(vp.y + vp.h - height - step, vp.y, -step):
@@ -378,7 +379,12 @@ def _place_note(note: CurveNote, xf: PaperXform, room: _Room, size: float) -> Pl
 
 
 def match_mark_paper(
-    mark: MatchMark, xf: PaperXform, geo: SheetGeometry, sheet: int, station_label: str
+    mark: MatchMark,
+    xf: PaperXform,
+    geo: SheetGeometry,
+    sheet: int,
+    station_label: str,
+    label_size: float = 0.0,
 ) -> tuple[tuple[float, float, float, float], Text]:
     """A plan match line on the paper (x0, y0, x1, y1) and its label, beside the line."""
     ts = geo.text
@@ -396,9 +402,13 @@ def match_mark_paper(
     nx, ny = -math.sin(math.radians(rot)), math.cos(math.radians(rot))  # left of the text
     ahead = 1.0 if mark.other_sheet < sheet else -1.0  # where this sheet's plan lies
     toward = 1.0 if ahead * (nx * math.cos(da) + ny * math.sin(da)) > 0 else -1.0
-    size = 0.85 * ts
-    off = toward * 0.5 * ts
     text = labels.match_line_text(station_label, mark.other_sheet)
+    size = 0.85 * ts
+    room = span - 1.5 * ts - label_size  # along the line, short of the alignment
+    while fonts.text_width(text, size, True) > room and size > 0.5 * ts:
+        size *= 0.9
+    # beside the line, clear of a station label that sits across the alignment there
+    off = toward * (0.45 * ts + 0.5 * label_size)
     label = Text(
         "match",
         text,

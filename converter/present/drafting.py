@@ -393,11 +393,16 @@ class _Profile:
     def _grade_labels(self) -> None:
         g, h, exag = self.geom, self.h, self.lay.exaggeration
         taken = _BoxIndex([t.corners() for t in self.items if isinstance(t, Text)])
+        curve_at = {c.index: c for c in g.curves}
         for i in range(len(g.pvi_stations) - 1):
             s0, s1 = float(g.pvi_stations[i]), float(g.pvi_stations[i + 1])
             z0, z1 = float(g.pvi_elevations[i]), float(g.pvi_elevations[i + 1])
             grade = (z1 - z0) / (s1 - s0)
-            v0, v1 = max(s0, self.x0), min(s1, self.x1)  # visible part
+            # the straight part of the grade, between the curves at its two PVIs
+            back, ahead = curve_at.get(i), curve_at.get(i + 1)
+            t0 = back.evc_station if back is not None else s0
+            t1 = ahead.bvc_station if ahead is not None else s1
+            v0, v1 = max(t0, self.x0), min(t1, self.x1)  # visible part
             if v1 <= v0:
                 continue
             angle = math.degrees(math.atan(grade * exag))

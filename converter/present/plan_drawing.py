@@ -39,6 +39,7 @@ class CurveNote:
     pi: tuple[float, float]
     outward: tuple[float, float]
     station: float  # the curve's middle: the sheet that shows it carries the note
+    middle: tuple[float, float] = (0.0, 0.0)  # the curve's middle point
 
 
 # --------------------------------------------------------------------------- plan
@@ -180,7 +181,9 @@ def plan_drawing(ctx: SolvedAlignment, layout: DraftingLayout) -> Drawing:
         ux, uy = ox / dist, oy / dist
         items.append(Circle("plan_points", (c.pi_easting, c.pi_northing), 0.3 * h))
         notes.append(
-            CurveNote(c.number, tuple(lines), (c.pi_easting, c.pi_northing), (ux, uy), mid)
+            CurveNote(
+                c.number, tuple(lines), (c.pi_easting, c.pi_northing), (ux, uy), mid, (me, mn)
+            )
         )
         block_w = max(labels.text_width(t, h) for t in lines)
         block_h = len(lines) * 1.5 * h
