@@ -5,6 +5,7 @@ from __future__ import annotations
 import io
 import math
 import os
+import shutil
 import subprocess
 
 import ezdxf
@@ -261,3 +262,75 @@ def test_rendered_png_is_not_blank(tmp_path):
     img = mpimg.imread(out)
     ink = (img[:, :, :3].mean(axis=2) < 0.8).mean()
     assert 0.01 < ink < 0.6  # lines and text, on a white background
+
+
+# -- plan-set polish (issue 15) -------------------------------------------------------------
+@pytest.fixture
+def both_drawings(tmp_path):
+    out = {}
+    for key, sample, name in (("ft", US_SAMPLE, "Orrin Vale Bypass"), ("m", METRIC_SAMPLE, None)):
+        prof, plan = tmp_path / f"{key}.dxf", tmp_path / f"{key}-plan.dxf"
+        argv = ["dxf", str(sample), "-o", str(prof), "--plan", str(plan)]
+        assert main(argv + (["--alignment", name] if name else [])) == 0
+        out[key] = (prof, plan)
+    return out
+
+
+def test_plan_dxf_has_no_profile_layers_and_profile_dxf_no_plan_layers(both_drawings):
+    for prof, plan in both_drawings.values():
+        plan_layers = {layer.dxf.name for layer in ezdxf.readfile(plan).layers}
+        prof_layers = {layer.dxf.name for layer in ezdxf.readfile(prof).layers}
+        assert not any(n.startswith("PROFILE-") for n in plan_layers), plan_layers
+        assert not any(n.startswith("PLAN-") for n in prof_layers), prof_layers
+
+
+def test_begin_and_end_of_profile_are_labelled_in_the_dxf(both_drawings):
+    doc = ezdxf.readfile(both_drawings["ft"][0])
+    texts = [t.dxf.text for t in doc.modelspace().query("TEXT")]
+    ctx = open_alignment(str(US_SAMPLE), "Orrin Vale Bypass")
+    st, g = ctx.stationing, ctx.geometry
+    assert f"BEGIN PROFILE {st.label(g.start)}  EL 512.40" in texts  # first PVI of the sample
+    assert any(t.startswith(f"END PROFILE {st.label(g.end)}") for t in texts)
+
+
+@pytest.mark.parametrize(("key", "insunits", "mm_per_unit"), [("ft", 21, 1.0), ("m", 6, 1000.0)])
+def test_units_and_paper_of_the_drawings(both_drawings, key, insunits, mm_per_unit):
+    """$INSUNITS by the DXF reference (21 US survey feet, 6 metres); the empty paper-space
+    layout's limits hold one A3 page, in drawing units where a viewer converts them."""
+    for path in both_drawings[key]:
+        doc = ezdxf.readfile(path)
+        assert doc.header["$INSUNITS"] == insunits
+        lay = doc.layouts.get("Layout1").dxf_layout.dxf
+        assert (lay.limmax.x * mm_per_unit, lay.limmax.y * mm_per_unit) == pytest.approx(
+            (420.0, 297.0)
+        )
+        assert (lay.paper_width, lay.paper_height) == (420.0, 297.0)  # mm, per the reference
+
+
+@pytest.mark.skipif(
+    not (shutil.which("librecad") and shutil.which("xvfb-run")),
+    reason="LibreCAD (Debian librecad) and xvfb-run are not installed",
+)
+def test_librecad_prints_each_drawing_on_an_a3_page(both_drawings, tmp_path):
+    """Opened in LibreCAD, a general DXF viewer, every drawing prints on one A3 page
+    (420 x 297 mm = 1191 x 842 pt), metric ones too (they printed 1,000x too large)."""
+    import pypdf
+
+    for prof, plan in both_drawings.values():
+        for path in (prof, plan):
+            out = tmp_path / "lc"
+            subprocess.run(
+                ["xvfb-run", "-a", "librecad", "dxf2pdf", "-t", str(out), str(path)],
+                capture_output=True,
+                timeout=120,
+                check=False,
+            )
+            pdf = out / (path.stem + ".pdf")
+            box = pypdf.PdfReader(pdf).pages[0].mediabox
+            assert (float(box.width), float(box.height)) == pytest.approx((1190.55, 841.89), abs=1)
+
+
+def test_an_output_into_a_new_folder_creates_it(tmp_path):
+    target = tmp_path / "new" / "deeper" / "x.dxf"
+    assert main(["dxf", str(METRIC_SAMPLE), "-o", str(target)]) == 0
+    assert ezdxf.readfile(target).header["$INSUNITS"] == 6

@@ -316,3 +316,45 @@ def test_every_curve_note_is_whole(sheet_set):
                 seen.add(c.number)
     if ctx.alignment.name != "Fifty-mile test":  # there only some pages are read
         assert seen == {c.number for c in ctx.curves if c.pi_northing is not None}
+
+
+# -- the DXF drawings: text extents from ezdxf's text size tools ----------------------------
+def dxf_text_boxes(path) -> list[tuple[str, np.ndarray]]:
+    """Every TEXT of the model space with its oriented box (font metrics from ezdxf)."""
+    import ezdxf
+    from ezdxf.tools.text_size import text_size
+
+    doc = ezdxf.readfile(path)
+    out = []
+    for t in doc.modelspace().query("TEXT"):
+        size = text_size(t)
+        w, cap = size.width, size.cap_height
+        dx = {0: 0.0, 1: -w / 2, 2: -w}.get(t.dxf.halign, 0.0)
+        dy = {0: 0.0, 1: 0.0, 2: -cap / 2, 3: -cap}.get(t.dxf.valign, 0.0)
+        at = t.dxf.align_point if (t.dxf.halign or t.dxf.valign) else t.dxf.insert
+        a = math.radians(t.dxf.rotation)
+        rot = np.array([[math.cos(a), -math.sin(a)], [math.sin(a), math.cos(a)]])
+        local = np.array([[dx, dy], [dx + w, dy], [dx + w, dy + cap], [dx, dy + cap]])
+        out.append((t.dxf.text, local @ rot.T + np.array([at.x, at.y])))
+    return out
+
+
+@pytest.mark.parametrize(
+    ("sample", "alignment"),
+    [(US_SAMPLE, "Orrin Vale Bypass"), (US_SAMPLE, "Kettle Lane"), (METRIC_SAMPLE, None)],
+    ids=["bypass", "kettle", "tarnholm"],
+)
+def test_dxf_texts_do_not_overlap(tmp_path, sample, alignment):
+    from gradeline.cli import main
+
+    argv = ["dxf", str(sample), "-o", str(tmp_path / "p.dxf"), "--plan", str(tmp_path / "q.dxf")]
+    assert main(argv + (["--alignment", alignment] if alignment else [])) == 0
+    for name in ("p.dxf", "q.dxf"):
+        boxes = dxf_text_boxes(tmp_path / name)
+        clashes = [
+            (boxes[i][0], boxes[j][0])
+            for i in range(len(boxes))
+            for j in range(i + 1, len(boxes))
+            if overlap(boxes[i][1], boxes[j][1])
+        ]
+        assert clashes == [], f"{name}: {clashes[:5]}"

@@ -60,7 +60,9 @@ _PURPLE = (0.60, 0.10, 0.55)
 _BLACK = (0.0, 0.0, 0.0)
 
 ROLE_STYLE: dict[Role, RoleStyle] = {
-    Role.GRADE: RoleStyle("PROFILE-GRADE", 5, "Continuous", 50, _BLUE, 1.4),
+    # DXF colour 1 (red) and 30 (orange) read on dark and light CAD backgrounds alike;
+    # blue (5) all but disappears on black
+    Role.GRADE: RoleStyle("PROFILE-GRADE", 1, "Continuous", 50, _BLUE, 1.4),
     Role.GROUND: RoleStyle(
         "PROFILE-GROUND", 32, "GL_DASHED", 25, (0.55, 0.33, 0.12), 0.8, (5.0, 3.0)
     ),
@@ -72,7 +74,7 @@ ROLE_STYLE: dict[Role, RoleStyle] = {
     Role.PVI: RoleStyle("PROFILE-PVI", 6, "Continuous", 25, _PURPLE, 0.6),
     Role.TANGENTS: RoleStyle("PROFILE-TANGENTS", 6, "GL_DASHED", 13, _PURPLE, 0.4, (4.0, 2.5)),
     Role.INFO: RoleStyle("PROFILE-INFO", 8, "Continuous", 13, (0.35, 0.35, 0.35), 0.4),
-    Role.PLAN: RoleStyle("PLAN-ALIGNMENT", 5, "Continuous", 50, _BLUE, 1.4),
+    Role.PLAN: RoleStyle("PLAN-ALIGNMENT", 1, "Continuous", 50, _BLUE, 1.4),
     Role.PLAN_TICKS: RoleStyle("PLAN-TICKS", 7, "Continuous", 18, _BLACK, 0.5),
     Role.PLAN_LABELS: RoleStyle("PLAN-LABELS", 7, "Continuous", 18, _BLACK, 0.4),
     Role.PLAN_POINTS: RoleStyle("PLAN-POINTS", 6, "Continuous", 25, _PURPLE, 0.6),

@@ -65,6 +65,34 @@ def _setup(doc: DxfDocument, layout: DraftingLayout, roles: set[str], r12: bool)
         )
 
 
+#: Paper of the (empty) paper-space layout, in millimetres: ISO A3 landscape.
+PAPER_MM = (420.0, 297.0)
+#: Millimetres per drawing unit, for the $INSUNITS codes LibreCAD converts.
+_MM_PER_UNIT = {2: 304.8, 6: 1000.0}
+
+
+def _paper(doc: DxfDocument, linear_unit: str) -> None:
+    """Give the (empty) paper-space layout the limits of one A3 page in drawing units.
+
+    Found with LibreCAD 2.2 (``librecad dxf2pdf``): it prints a layout's limits
+    (the LAYOUT object's limmin/limmax, in paper-space drawing units) and
+    converts them to millimetres by $INSUNITS. ezdxf leaves them at 420 x 297,
+    right for a drawing in millimetres; a drawing in metres therefore printed on a
+    page of 420 x 297 metres, 1,000 times too large (in feet, 304.8 times).
+    US survey feet (21), which LibreCAD does not convert, keep the millimetre
+    figures. The plot settings' paper size stays in millimetres, as the DXF
+    reference has it.
+    """
+    code = _INSUNITS.get(linear_unit, 0)
+    per = _MM_PER_UNIT.get(code, 1.0)
+    w, h = PAPER_MM[0] / per, PAPER_MM[1] / per
+    layout = doc.layouts.get("Layout1").dxf_layout
+    layout.dxf.limmin = (0.0, 0.0, 0.0)
+    layout.dxf.limmax = (w, h, 0.0)
+    doc.header["$PLIMMIN"] = (0.0, 0.0)
+    doc.header["$PLIMMAX"] = (w, h)
+
+
 def _polyline(msp, points, layer: str, r12: bool) -> None:
     if r12:
         msp.add_polyline2d(points, dxfattribs={"layer": layer})
@@ -149,7 +177,7 @@ def _write(
         if "$INSUNITS" in doc.header:
             del doc.header["$INSUNITS"]
     doc.header["$MEASUREMENT"] = 1 if linear_unit == "meter" else 0
-    roles = {i.role for i in drawing.items} | {"info"}
+    roles = {i.role for i in drawing.items}  # a layer for each role drawn, no empty ones
     _setup(doc, layout, roles, r12)
     msp = doc.modelspace()
     exact_arcs = drawing.meta.get("kind") == "plan" or drawing.meta.get("exaggeration") == 1.0
@@ -207,6 +235,7 @@ def _write(
     doc.header["$LIMMIN"] = (x0, y0)
     doc.header["$LIMMAX"] = (x1, y1)
     if not r12:
+        _paper(doc, linear_unit)
         _stable_classes(doc)
     stream = io.StringIO()
     doc.write(stream)

@@ -74,9 +74,13 @@ def refuse_overwrite(
 
 
 def write_atomic(path: str | os.PathLike[str], data: str | bytes) -> None:
-    """Write ``data`` to ``path`` through a temporary file and a rename."""
+    """Write ``data`` to ``path`` through a temporary file and a rename.
+
+    Missing folders of ``path`` are created (``-o newdir/x.pdf``).
+    """
     target = os.fspath(path)
     folder = os.path.dirname(os.path.abspath(target))
+    os.makedirs(folder, exist_ok=True)
     raw = data.encode("utf-8") if isinstance(data, str) else data
     fd, tmp = tempfile.mkstemp(prefix=".gradeline-", suffix=".part", dir=folder)
     try:
