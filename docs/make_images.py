@@ -70,45 +70,44 @@ def main() -> None:
     )
 
 
-def sheet_page() -> None:
-    """docs/sheet.png: page 2 of the sample's plan-and-profile sheets (needs pdftoppm)."""
+def _pdf_png(pdf: Path, page: int, out: Path, dpi: int, crop=None) -> None:
+    """One page of ``pdf`` as PNG; ``crop`` = (x, y, w, h) in inches from the top left."""
     import subprocess
+
+    args = ["pdftoppm", "-r", str(dpi), "-f", str(page), "-l", str(page), "-png", "-singlefile"]
+    if crop is not None:
+        x, y, w, h = (round(v * dpi) for v in crop)
+        args += ["-x", str(x), "-y", str(y), "-W", str(w), "-H", str(h)]
+    subprocess.run([*args, str(pdf), str(out.with_suffix(""))], check=True)
+
+
+def sheet_pages() -> None:
+    """The sheet pictures (needs pdftoppm): a whole sheet with a spiral curve note, the
+    profile of an unsymmetrical curve, and a station equation on plan and profile."""
     import tempfile
 
     from gradeline.deliverables import open_alignment as select
+    from gradeline.deliverables import sheet_options
     from gradeline.io.config import read_config
-    from gradeline.sheets.pdf import SheetOptions, render_sheets
+    from gradeline.sheets.pdf import render_sheets
 
     cfg = read_config(str(ROOT / "samples" / "sheets.toml"))["sheet"]
-    ctx = select(ROOT / "samples" / "orrin-vale-bypass.xml", "Orrin Vale Bypass")
-    opts = SheetOptions(
-        size="ansi-d",
-        project=cfg["project"],
-        date=cfg["date"],
-        drawn_by=cfg["drawn_by"],
-        sheet_prefix=cfg["sheet_prefix"],
-    )
+    docs = ROOT / "docs"
     with tempfile.TemporaryDirectory() as tmp:
+        bypass = select(ROOT / "samples" / "orrin-vale-bypass.xml", "Orrin Vale Bypass")
         pdf = Path(tmp) / "s.pdf"
-        pdf.write_bytes(render_sheets(ctx, opts))
-        subprocess.run(
-            [
-                "pdftoppm",
-                "-r",
-                "60",
-                "-f",
-                "2",
-                "-l",
-                "2",
-                "-png",
-                "-singlefile",
-                str(pdf),
-                str(ROOT / "docs" / "sheet"),
-            ],
-            check=True,
-        )
+        pdf.write_bytes(render_sheets(bypass, sheet_options(bypass, cfg)))
+        _pdf_png(pdf, 1, docs / "sheet.png", 60)
+        _pdf_png(pdf, 1, docs / "sheet-spiral-note.png", 110, (25.0, 0.7, 8.0, 3.4))
+        _pdf_png(pdf, 2, docs / "sheet-unsym.png", 110, (19.5, 8.0, 8.5, 6.5))
+        tarn = select(ROOT / "samples" / "tarnholm-link.xml", None)
+        pdf2 = Path(tmp) / "t.pdf"
+        metric = {k: v for k, v in cfg.items() if k not in ("scale", "interval", "design_speed")}
+        metric.update(size="iso-a1", project="Tarnholm Link Road (invented)")
+        pdf2.write_bytes(render_sheets(tarn, sheet_options(tarn, metric)))
+        _pdf_png(pdf2, 4, docs / "sheet-equation.png", 80, (13.5, 2.5, 7.0, 13.5))
 
 
 if __name__ == "__main__":
     main()
-    sheet_page()
+    sheet_pages()

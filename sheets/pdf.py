@@ -237,7 +237,11 @@ class PagePlan:
 
 
 def _layout(ctx: SolvedAlignment, opts: SheetOptions) -> DraftingLayout:
-    return default_layout(ctx.document.units, opts.scale, opts.exaggeration)
+    """The drafting layout of the sheets: labels scale with the sheet like its furniture
+    (a half-size sheet has 0.7 of the full-size text, as ``SheetGeometry.text``)."""
+    lay = default_layout(ctx.document.units, opts.scale, opts.exaggeration)
+    factor = sheet_geometry(opts.size).factor
+    return replace(lay, text_paper=lay.text_paper * min(1.0, max(factor, 0.7)))
 
 
 def page_plan(ctx: SolvedAlignment, opts: SheetOptions) -> PagePlan:

@@ -311,3 +311,57 @@ def test_sheets_deterministic_across_processes(tmp_path):
         )
         outs.append(out.read_bytes())
     assert outs[0] == outs[1]
+
+
+# -- one exaggeration for the set (issue 15) ------------------------------------------------
+@pytest.mark.parametrize(
+    ("sample", "name", "size"),
+    [
+        (US_SAMPLE, "Orrin Vale Bypass", "ansi-d"),
+        (US_SAMPLE, "Orrin Vale Bypass", "ansi-b"),
+        (US_SAMPLE, "Kettle Lane", "ansi-b"),
+        (METRIC_SAMPLE, None, "iso-a1"),
+        (METRIC_SAMPLE, None, "iso-a3"),
+    ],
+)
+def test_no_sheet_of_the_samples_changes_exaggeration(sample, name, size):
+    """Every sheet of a set states the same exaggeration; the full-size sheets keep the
+    asked 10x, the half-size ones may take a smaller one for the whole set, and say so."""
+    import re
+
+    import pypdf
+
+    ctx = open_alignment(str(sample), name)
+    pdf = render_sheets(ctx, SheetOptions(size=size))
+    pages = [p.extract_text() for p in pypdf.PdfReader(io.BytesIO(pdf)).pages]
+    sheets = [" ".join(t.split()) for t in pages if "PLAN AND PROFILE" in t]
+    stated = {re.search(r"VERTICAL EXAGGERATION (\S+)x", t).group(1) for t in sheets}
+    assert len(sheets) >= 2 and len(stated) == 1
+    if size in ("ansi-d", "iso-a1"):
+        assert stated == {"10"} and not any("DOES NOT FIT" in t for t in sheets)
+    else:
+        assert stated == {"10"} or all("(10x ASKED DOES NOT FIT)" in t for t in sheets)
+
+
+def test_a_window_too_tall_lowers_the_exaggeration_of_every_sheet_and_says_so():
+    """At 200x the bypass's 30-ft relief does not fit an ANSI B profile view: the set
+    takes the largest of 200/2, 200/2.5, 200/5, 200/10 that fits every window."""
+    from gradeline.sheets.views import series_exaggeration
+
+    ctx = open_alignment(str(US_SAMPLE), "Orrin Vale Bypass")
+    opts = SheetOptions(size="ansi-b", exaggeration=200.0)
+    geo = sheet_geometry("ansi-b")
+    from gradeline.sheets.pdf import _layout
+
+    lay = _layout(ctx, opts)
+    frames = page_plan(ctx, opts).frames
+    used, drawings = series_exaggeration(ctx, lay, geo, frames)
+    assert used.exaggeration in (100.0, 80.0, 40.0, 20.0)
+    assert set(drawings) == {f.number for f in frames}
+    assert {d.meta["exaggeration"] for d in drawings.values()} == {used.exaggeration}
+    import pypdf
+
+    reader = pypdf.PdfReader(io.BytesIO(render_sheets(ctx, opts)))
+    pages = [" ".join(p.extract_text().split()) for p in reader.pages]
+    note = f"VERTICAL EXAGGERATION {used.exaggeration:g}x ON ALL SHEETS (200x ASKED DOES NOT FIT)"
+    assert all(note in t for t in pages if "PLAN AND PROFILE" in t)
