@@ -142,6 +142,8 @@ class TableOptions:
 def _payload(
     solved: SolvedAlignment, columns: Sequence[str], rows: list[dict[str, Any]]
 ) -> dict[str, Any]:
+    from gradeline.present.tables import column_units
+
     units = solved.document.units
     return {
         "file": solved.document.path,
@@ -152,6 +154,7 @@ def _payload(
         "direction_unit": units.direction,
         "direction_convention": solved.horizontal.convention if solved.horizontal else None,
         "columns": list(columns),
+        "units": column_units(columns, units),
         "rows": [{c: r.get(c) for c in columns} for r in rows],
     }
 

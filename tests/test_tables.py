@@ -67,3 +67,25 @@ def test_metric_table_tags_the_equation():
     assert stations[i] == 1200.0
     labels = ctx.stationing.labels(stations)
     assert "2+450.000" == labels[-1]
+
+
+def test_json_tables_carry_a_units_block_and_csv_headers_stay(tmp_path):
+    """CSV headers are unchanged; JSON names the unit of every column (None for text)."""
+    import csv
+    import json
+
+    from gradeline.cli import main
+
+    out = tmp_path / "t.json"
+    assert (
+        main(["table", str(METRIC_SAMPLE), "--interval", "500", "--format", "json", "-o", str(out)])
+        == 0
+    )
+    data = json.loads(out.read_text())
+    assert set(data["units"]) == set(data["columns"])
+    assert data["units"]["elevation"] == "meter" and data["units"]["grade"] == "percent"
+    assert data["units"]["point"] is None and data["units"]["direction"] == "decimal degrees"
+    csv_out = tmp_path / "t.csv"
+    assert main(["table", str(METRIC_SAMPLE), "--interval", "500", "-o", str(csv_out)]) == 0
+    header = next(csv.reader(csv_out.open()))
+    assert header == data["columns"]

@@ -89,6 +89,37 @@ CURVE_COLUMNS = (
 
 Row = dict[str, Any]
 
+_TEXT_COLUMNS = frozenset({"kind", "type", "turn", "spiral_type", "point", "surface"})
+_PERCENT_COLUMNS = frozenset({"grade", "grade_in", "grade_out", "A"})
+
+
+def column_units(columns: Sequence[str], units) -> dict[str, str | None]:
+    """The unit of each column, for the JSON ``units`` block (None for text columns).
+
+    Examples
+    --------
+    >>> from gradeline.model.units import Units
+    >>> column_units(["station", "grade", "K", "point"], Units("foot"))
+    {'station': 'foot', 'grade': 'percent', 'K': 'foot per percent', 'point': None}
+    """
+    out: dict[str, str | None] = {}
+    for c in columns:
+        if c in _TEXT_COLUMNS or c.endswith("_label"):
+            out[c] = None
+        elif c in _PERCENT_COLUMNS:
+            out[c] = "percent"
+        elif c == "K":
+            out[c] = f"{units.linear} per percent"
+        elif c == "delta":
+            out[c] = units.angular
+        elif c == "direction":
+            out[c] = units.direction
+        elif c == "degree_of_curve":
+            out[c] = "decimal degrees per 100 foot of arc"
+        else:
+            out[c] = units.linear
+    return out
+
 
 def table_stations(
     ctx: SolvedAlignment,
