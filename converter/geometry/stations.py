@@ -8,6 +8,7 @@ station shown to people differs from it after a station equation.
 
 from __future__ import annotations
 
+import bisect
 import math
 import re
 from dataclasses import dataclass
@@ -184,8 +185,17 @@ class Stationing:
         return s + offsets[idx]
 
     def label(self, internal: float) -> str:
-        """Label text of one internal station, e.g. ``12+34.56``."""
-        return format_station(float(self.label_value(internal)), self.station_length, self.decimals)
+        """Label text of one internal station, e.g. ``12+34.56``.
+
+        Scalar fast path: no arrays; a bisection over the equations, if any.
+        """
+        s = float(internal)
+        eqs = self.equations
+        if eqs:
+            k = bisect.bisect_right([e.internal for e in eqs], s)
+            if k:
+                s = s + (eqs[k - 1].ahead - eqs[k - 1].internal)
+        return format_station(s, self.station_length, self.decimals)
 
     def _fmt(self, labelled: float) -> str:
         return format_station(labelled, self.station_length, self.decimals)

@@ -216,7 +216,11 @@ class _Profile:
         g, st, units, h = self.geom, self.ctx.stationing, self.units, self.h
         wanted = []  # (station, elevation, lines)
         curve_at = {c.index: c for c in g.curves}
-        for i in range(1, len(g.pvi_stations) - 1):
+        # only PVIs whose curve can reach the window: a sheet formats its own labels
+        reach = max((c.length for c in g.curves), default=0.0)
+        first = max(1, int(np.searchsorted(g.pvi_stations, self.x0 - reach, side="left")))
+        last = min(len(g.pvi_stations) - 1, int(np.searchsorted(g.pvi_stations, self.x1 + reach)))
+        for i in range(first, last):
             s, z = float(g.pvi_stations[i]), float(g.pvi_elevations[i])
             c = curve_at.get(i)
             lines = [labels.point_label("PVI", st.label(s), z, units)]
