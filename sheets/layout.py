@@ -10,6 +10,8 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
+import numpy as np
+
 from gradeline.errors import UsageError
 from gradeline.present.layout import DraftingLayout
 
@@ -19,6 +21,8 @@ __all__ = [
     "Frame",
     "SheetGeometry",
     "Viewport",
+    "clip_segments",
+    "clip_polyline",
     "sheet_frames",
     "sheet_geometry",
     "pack_tables",
@@ -56,6 +60,63 @@ class Viewport:
     def cy(self) -> float:
         """Centre y."""
         return self.y + self.h / 2
+
+
+def clip_segments(
+    seg: np.ndarray, box: tuple[float, float, float, float]
+) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Liang-Barsky clipping of (n, 4) segments x0 y0 x1 y1 to the axis-aligned ``box``.
+
+    Returns the parameters t0, t1 of each segment's part inside the box and a mask
+    of the segments that have one.
+
+    Examples
+    --------
+    >>> t0, t1, inside = clip_segments(np.array([[-1.0, 0.5, 3.0, 0.5]]), (0, 0, 1, 1))
+    >>> t0.tolist(), t1.tolist(), inside.tolist()
+    ([0.25], [0.5], [True])
+    """
+    x0, y0, x1, y1 = box
+    sx0, sy0, sx1, sy1 = seg.T
+    dx, dy = sx1 - sx0, sy1 - sy0
+    t0, t1 = np.zeros(len(seg)), np.ones(len(seg))
+    outside = np.zeros(len(seg), dtype=bool)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        for p, q in ((-dx, sx0 - x0), (dx, x1 - sx0), (-dy, sy0 - y0), (dy, y1 - sy0)):
+            r = q / p
+            parallel = p == 0
+            outside |= parallel & (q < 0)
+            t0 = np.where(~parallel & (p < 0), np.maximum(t0, r), t0)
+            t1 = np.where(~parallel & (p > 0), np.minimum(t1, r), t1)
+    return t0, t1, ~outside & (t0 <= t1)
+
+
+def clip_polyline(pts: np.ndarray, vp: Viewport) -> list[np.ndarray]:
+    """The pieces of a polyline inside the viewport, joined where they meet.
+
+    Examples
+    --------
+    >>> [p.tolist() for p in clip_polyline(np.array([[-1.0, 0.5], [0.5, 0.5], [2.0, 0.5]]),
+    ...                                      Viewport(0, 0, 1, 1))]
+    [[[0.0, 0.5], [0.5, 0.5], [1.0, 0.5]]]
+    """
+    box = (vp.x, vp.y, vp.x + vp.w, vp.y + vp.h)
+    lo, hi = pts.min(axis=0), pts.max(axis=0)
+    if lo[0] >= box[0] and lo[1] >= box[1] and hi[0] <= box[2] and hi[1] <= box[3]:
+        return [pts]
+    a, b = pts[:-1], pts[1:]
+    t0, t1, inside = clip_segments(np.hstack([a, b]), box)
+    pieces: list[list[np.ndarray]] = []
+    joined = False  # the last piece ends where this segment starts
+    for i in np.flatnonzero(inside) if inside.any() else []:
+        d = b[i] - a[i]
+        p0, p1 = a[i] + t0[i] * d, a[i] + t1[i] * d
+        if joined and i > 0 and inside[i - 1] and t0[i] == 0.0 and pieces:
+            pieces[-1].append(p1)
+        else:
+            pieces.append([p0, p1])
+        joined = t1[i] == 1.0
+    return [np.array(p) for p in pieces]
 
 
 @dataclass(frozen=True, slots=True)

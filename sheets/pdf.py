@@ -26,6 +26,7 @@ from gradeline.sheets.layout import (
     Frame,
     SheetGeometry,
     Viewport,
+    clip_polyline,
     model_per_point,
     pack_tables,
     sheet_frames,
@@ -96,7 +97,7 @@ def _text(c, item: Text, xf: _Xform, vp: Viewport | None) -> None:
     _paper_text(c, xf.text(item), vp)
 
 
-def _paper_text(c, paper: Text, vp: Viewport | None) -> None:
+def _paper_text(c, paper: Text, vp: Viewport | None, bold: bool = False) -> None:
     """Draw a text already on paper, unless it would leave ``vp``."""
     if vp is not None and not _inside(paper.corners(), vp):
         return
@@ -105,50 +106,8 @@ def _paper_text(c, paper: Text, vp: Viewport | None) -> None:
     c.translate(paper.x, paper.y)
     c.rotate(rot)
     base = {"bottom": 0.0, "middle": -0.36 * size, "top": -0.72 * size}[paper.valign]
-    fonts.draw(c, 0.0, base, paper.text, size, align=paper.halign)
+    fonts.draw(c, 0.0, base, paper.text, size, bold, align=paper.halign)
     c.restoreState()
-
-
-def clip_polyline(pts: np.ndarray, vp: Viewport) -> list[np.ndarray]:
-    """The pieces of a polyline inside the viewport (Liang-Barsky on each segment)."""
-    x0, y0, x1, y1 = vp.x, vp.y, vp.x + vp.w, vp.y + vp.h
-    if (
-        pts[:, 0].min() >= x0
-        and pts[:, 0].max() <= x1
-        and pts[:, 1].min() >= y0
-        and pts[:, 1].max() <= y1
-    ):
-        return [pts]
-    pieces: list[list[np.ndarray]] = []
-    last_end = None
-    for a, b in zip(pts[:-1], pts[1:], strict=True):
-        d = b - a
-        t0, t1 = 0.0, 1.0
-        visible = True
-        for p, q in ((-d[0], a[0] - x0), (d[0], x1 - a[0]), (-d[1], a[1] - y0), (d[1], y1 - a[1])):
-            if p == 0:
-                if q < 0:
-                    visible = False
-                    break
-                continue
-            r = q / p
-            if p < 0:
-                t0 = max(t0, r)
-            else:
-                t1 = min(t1, r)
-            if t0 > t1:
-                visible = False
-                break
-        if not visible:
-            last_end = None
-            continue
-        p0, p1 = a + t0 * d, a + t1 * d
-        if last_end is not None and t0 == 0.0:
-            pieces[-1].append(p1)
-        else:
-            pieces.append([p0, p1])
-        last_end = p1 if t1 == 1.0 else None
-    return [np.array(p) for p in pieces]
 
 
 def _draw_items(c, items, xf: _Xform, vp: Viewport, f: float) -> None:
@@ -180,7 +139,7 @@ def _draw_items(c, items, xf: _Xform, vp: Viewport, f: float) -> None:
             c.circle(x, y, item.radius * xf.k, stroke=1, fill=0)
     c.restoreState()
     for item in items:
-        if isinstance(item, Text) and item.role != "plan_notes":  # notes: placed per sheet
+        if isinstance(item, Text):
             _style(c, item.role, f)
             _text(c, item, xf, vp)
 
@@ -490,16 +449,6 @@ def _plan_reserved(geo: SheetGeometry) -> list[tuple[float, float, float, float]
     ]
 
 
-def _paper_text_bold(c, paper: Text) -> None:
-    size = paper.height
-    c.saveState()
-    c.translate(paper.x, paper.y)
-    c.rotate(paper.rotation)
-    base = {"bottom": 0.0, "middle": -0.36 * size, "top": -0.72 * size}[paper.valign]
-    fonts.draw(c, 0.0, base, paper.text, size, bold=True, align=paper.halign)
-    c.restoreState()
-
-
 def _sheet(
     c,
     ctx,
@@ -556,7 +505,7 @@ def _sheet(
             _style(c, "match", f)
             c.line(*seg)
             c.setFillColorRGB(*ROLE_STYLE[Role.MATCH].rgb)
-            _paper_text_bold(c, label)
+            _paper_text(c, label, None, bold=True)
         _north_arrow(c, geo, angle)
     _style(c, "frame", f)
     c.setDash([])
@@ -665,8 +614,15 @@ def render_sheets(ctx: SolvedAlignment, opts: SheetOptions) -> bytes:
     boxes = _item_boxes(plan) if plan is not None else None
     used, profiles = series_exaggeration(ctx, lay, geo, plan_info.frames)
     for frame in plan_info.frames:
-        view = sheet_view(ctx, used, geo, frame, len(plan_info.frames), profiles.get(frame.number))
-        view = replace(view, asked_exaggeration=lay.exaggeration)
+        view = sheet_view(
+            ctx,
+            used,
+            geo,
+            frame,
+            len(plan_info.frames),
+            profiles.get(frame.number),
+            lay.exaggeration,
+        )
         _sheet(c, ctx, opts, geo, view, len(plan_info.frames), total, plan, boxes)
         c.showPage()
     page = len(plan_info.frames)

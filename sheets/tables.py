@@ -119,10 +119,6 @@ def horizontal_curve_table(ctx: SolvedAlignment) -> TextTable:
     for c, r in zip(ctx.curves, rows.horizontal_curve_rows(ctx), strict=True):
         spirals = c.spiral_in > 0 or c.spiral_out > 0
         ang = labels.angle_text
-
-        def pair(a: float, b: float) -> str:
-            return _len(a, ctx) if abs(a - b) < 5e-4 else f"{_len(a, ctx)} / {_len(b, ctx)}"
-
         cells = [
             str(c.number),
             _sta(r["pi_station"], ctx),
@@ -139,7 +135,8 @@ def horizontal_curve_table(ctx: SolvedAlignment) -> TextTable:
             if spirals
             else "",
             f"{_len(c.spiral_in, ctx)} / {_len(c.spiral_out, ctx)}" if spirals else "",
-            ("Ts " if spirals else "") + pair(c.tangent_in, c.tangent_out),
+            ("Ts " if spirals else "")
+            + labels.length_pair_text(c.tangent_in, c.tangent_out, units),
             _len(r["external"], ctx),
             _len(r["length"], ctx),
             _len(r["chord"], ctx),

@@ -20,7 +20,13 @@ from gradeline.present.items import ArcItem, Drawing, Item, Path, Text, boxes_ov
 from gradeline.present.layout import DraftingLayout
 from gradeline.present.plan_drawing import CurveNote
 from gradeline.sheets import fonts
-from gradeline.sheets.layout import Frame, SheetGeometry, Viewport, model_per_point
+from gradeline.sheets.layout import (
+    Frame,
+    SheetGeometry,
+    Viewport,
+    clip_segments,
+    model_per_point,
+)
 from gradeline.solved import SolvedAlignment
 
 __all__ = [
@@ -235,31 +241,17 @@ def _segments(items, xf: PaperXform) -> np.ndarray:
 
 
 def _hits_segments(seg: np.ndarray, box: tuple[float, float, float, float]) -> bool:
-    """True when any segment meets the axis-aligned ``box`` (Liang-Barsky clipping)."""
+    """True when any segment meets the axis-aligned ``box``."""
     if not len(seg):
         return False
     x0, y0, x1, y1 = box
-    sx0, sy0, sx1, sy1 = seg.T
     near = ~(
-        (np.maximum(sx0, sx1) < x0)
-        | (np.minimum(sx0, sx1) > x1)
-        | (np.maximum(sy0, sy1) < y0)
-        | (np.minimum(sy0, sy1) > y1)
+        (np.maximum(seg[:, 0], seg[:, 2]) < x0)
+        | (np.minimum(seg[:, 0], seg[:, 2]) > x1)
+        | (np.maximum(seg[:, 1], seg[:, 3]) < y0)
+        | (np.minimum(seg[:, 1], seg[:, 3]) > y1)
     )
-    if not near.any():
-        return False
-    sx0, sy0, sx1, sy1 = sx0[near], sy0[near], sx1[near], sy1[near]
-    dx, dy = sx1 - sx0, sy1 - sy0
-    t0, t1 = np.zeros(len(dx)), np.ones(len(dx))
-    with np.errstate(divide="ignore", invalid="ignore"):
-        for p, q in ((-dx, sx0 - x0), (dx, x1 - sx0), (-dy, sy0 - y0), (dy, y1 - sy0)):
-            r = q / p
-            parallel = p == 0
-            outside = parallel & (q < 0)
-            t0 = np.where(~parallel & (p < 0), np.maximum(t0, r), t0)
-            t1 = np.where(~parallel & (p > 0), np.minimum(t1, r), t1)
-            t0 = np.where(outside, 2.0, t0)
-    return bool(np.any(t0 <= t1))
+    return bool(near.any() and clip_segments(seg[near], box)[2].any())
 
 
 def _rect_corners(x0: float, y0: float, x1: float, y1: float) -> np.ndarray:
@@ -442,12 +434,17 @@ def plan_layout(
         & (boxes[:, 3] >= mid[1] - reach)
         & (boxes[:, 1] <= mid[1] + reach)
     )
-    items = tuple(plan.items[i] for i in np.flatnonzero(near))
+    # curve notes are placed on the paper below, not where the model-space drawing has them
+    items = tuple(
+        it
+        for it in (plan.items[i] for i in np.flatnonzero(near))
+        if not (isinstance(it, Text) and it.role == "plan_notes")
+    )
     line_items = [it for it in items if not isinstance(it, Text)]
     segs = _segments(line_items, xf)
     texts = []
     for it in items:
-        if isinstance(it, Text) and it.role != "plan_notes":
+        if isinstance(it, Text):
             box = xf.text(it).corners()
             if (
                 box[:, 0].min() >= vp.x
@@ -478,12 +475,15 @@ def sheet_view(
     frame: Frame,
     total_frames: int,
     profile: Drawing | None = None,
+    asked_exaggeration: float = 0.0,
 ) -> SheetView:
-    """The profile drawing and plan view of one sheet (``lay`` has the series exaggeration)."""
+    """The profile drawing and plan view of one sheet (``lay`` has the series exaggeration;
+    ``asked_exaggeration`` is the one asked for, which the title block compares)."""
+    plan = _plan(ctx, frame, total_frames)
     if ctx.geometry is None:
-        return SheetView(frame, None, lay, _plan(ctx, frame, total_frames))
+        return SheetView(frame, None, lay, plan, asked_exaggeration)
     if profile is None:
         profile = drafting.profile_drawing(
             ctx, lay, window=(frame.view_start, frame.view_end), strip=True
         )
-    return SheetView(frame, profile, lay, _plan(ctx, frame, total_frames))
+    return SheetView(frame, profile, lay, plan, asked_exaggeration)

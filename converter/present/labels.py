@@ -265,6 +265,20 @@ def bearing_text(heading_rad: float, units: Units) -> str:
     return f"{ns} {dms_text(q)} {ew}"
 
 
+def length_pair_text(a: float, b: float, units: Units, unit: str = "") -> str:
+    """Two lengths of a pair (in / out): one when they print alike, else ``a / b``.
+
+    Examples
+    --------
+    >>> from gradeline.model.units import Units
+    >>> length_pair_text(424.69, 424.6901, Units("foot")), length_pair_text(1.0, 2.0, Units("foot"))
+    ('424.69', '1.00 / 2.00')
+    """
+    suffix = f" {unit}" if unit else ""
+    first, second = length_text(a, units), length_text(b, units)
+    return first + suffix if first == second else f"{first}{suffix} / {second}{suffix}"
+
+
 def plan_curve_note(curve, units: Units) -> list[str]:
     """Lines of a horizontal curve-data note.
 
@@ -291,8 +305,7 @@ def plan_curve_note(curve, units: Units) -> list[str]:
             f"L = {ln(curve.arc_length)}",
             f"E = {ln(curve.external)}",
         ]
-    pair = curve.tangent_in, curve.tangent_out
-    ts = ln(pair[0]) if abs(pair[0] - pair[1]) < 5e-4 else f"{ln(pair[0])} / {ln(pair[1])}"
+    ts = length_pair_text(curve.tangent_in, curve.tangent_out, units, u)
     return [
         f"CURVE {n} (SPIRALS {curve.spiral_type or ''})".replace(" )", ")"),
         f"\u0394 = {ang(curve.delta)} {side} (TOTAL)",
