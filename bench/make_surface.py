@@ -18,14 +18,24 @@ X0, Y0 = 495000.0, 3995000.0
 
 
 def write(
-    path: str, side: int = 1000, spacing: float = 60.0, hole: tuple[float, float] | None = None
+    path: str,
+    side: int = 1000,
+    spacing: float = 60.0,
+    hole: tuple[float, float] | None = None,
+    *,
+    rows: int | None = None,
+    origin: tuple[float, float] = (X0, Y0),
 ) -> tuple[int, int]:
-    i = np.arange(side)
-    gx, gy = np.meshgrid(X0 + i * spacing, Y0 + i * spacing)
+    """Write the surface; ``side`` points across (east) and ``rows`` (default
+    ``side``) up (north) from ``origin``. Returns (points, faces)."""
+    rows = side if rows is None else rows
+    gx, gy = np.meshgrid(
+        origin[0] + np.arange(side) * spacing, origin[1] + np.arange(rows) * spacing
+    )
     x, y = gx.ravel(), gy.ravel()
     z = 800 + 40 * np.sin(x / 5000.0) + 25 * np.cos(y / 3700.0) + 3 * np.sin((x + y) / 420.0)
     ids = np.arange(1, x.size + 1)
-    a = (np.arange(side - 1)[None, :] + side * np.arange(side - 1)[:, None]).ravel() + 1
+    a = (np.arange(side - 1)[None, :] + side * np.arange(rows - 1)[:, None]).ravel() + 1
     b, c, d = a + 1, a + side, a + side + 1
     faces = np.concatenate([np.column_stack([a, b, d]), np.column_stack([a, d, c])])
     cx = (x[faces[:, 0] - 1] + x[faces[:, 1] - 1] + x[faces[:, 2] - 1]) / 3

@@ -16,7 +16,7 @@ none is found, Helvetica is used and such letters may not show.
 from __future__ import annotations
 
 import os
-from functools import cache
+from functools import cache, lru_cache
 from pathlib import Path
 
 from reportlab.pdfbase import pdfmetrics
@@ -140,9 +140,15 @@ def runs(text: str, bold: bool = False) -> list[tuple[str, str]]:
     >>> [piece for _, piece in runs("東京 Øresund")]
     ['東京 ', 'Øresund']
     """
+    return list(_runs(text, bold))
+
+
+@lru_cache(maxsize=1 << 16)
+def _runs(text: str, bold: bool) -> tuple[tuple[str, str], ...]:
+    # sheets repeat their texts (grid numbers, stations, table headings): cached
     try:
         text.encode("cp1252")
-        return [(BASE_BOLD if bold else BASE, text)]
+        return ((BASE_BOLD if bold else BASE, text),)
     except UnicodeEncodeError:
         pass
     out: list[tuple[str, str]] = []
@@ -152,12 +158,13 @@ def runs(text: str, bold: bool = False) -> list[tuple[str, str]]:
             out[-1] = (font, out[-1][1] + ch)
         else:
             out.append((font, ch))
-    return out
+    return tuple(out)
 
 
+@lru_cache(maxsize=1 << 16)
 def text_width(text: str, size: float, bold: bool = False) -> float:
     """Width of ``text`` in points, each run in its own font."""
-    return sum(pdfmetrics.stringWidth(piece, font, size) for font, piece in runs(text, bold))
+    return sum(pdfmetrics.stringWidth(piece, font, size) for font, piece in _runs(text, bold))
 
 
 def draw(
@@ -173,7 +180,10 @@ def draw(
     if align != "left":
         w = text_width(text, size, bold)
         x -= w / 2 if align == "center" else w
-    for font, piece in runs(text, bold):
+    pieces = _runs(text, bold)
+    last = len(pieces) - 1
+    for i, (font, piece) in enumerate(pieces):
         canvas.setFont(font, size)  # type: ignore[attr-defined]
         canvas.drawString(x, y, piece)  # type: ignore[attr-defined]
-        x += pdfmetrics.stringWidth(piece, font, size)
+        if i < last:
+            x += pdfmetrics.stringWidth(piece, font, size)

@@ -75,21 +75,34 @@ class SheetOptions:
 _Xform = PaperXform
 
 
-def _style(c, role: str, f: float) -> None:
+@functools.lru_cache(maxsize=256)
+def _pen(role: str, f: float) -> tuple[tuple[float, float, float], float, tuple[float, ...]]:
     style = ROLE_STYLE[Role(role)]
-    rgb, width, dash = style.rgb, style.width, style.dash
+    scale = max(f, 0.6)
+    return style.rgb, style.width * scale, tuple(d * scale for d in style.dash)
+
+
+def _style(c, role: str, f: float) -> None:
+    rgb, width, dash = _pen(role, f)
     c.setStrokeColorRGB(*rgb)
     c.setFillColorRGB(*rgb)
-    c.setLineWidth(width * max(f, 0.6))
-    c.setDash([d * max(f, 0.6) for d in dash] if dash else [])
+    c.setLineWidth(width)
+    c.setDash(list(dash))
 
 
-def _inside(box: np.ndarray, vp: Viewport) -> bool:
+def _inside(paper: Text, vp: Viewport) -> bool:
+    """Whether the text box lies inside ``vp`` (exactly as its numpy corners say)."""
+    # a quick bound first: the box lies within its reach of its anchor point
+    reach = paper.width + paper.height
+    x0, y0, x1, y1 = vp.x, vp.y, vp.x + vp.w, vp.y + vp.h
+    if x0 + reach < paper.x < x1 - reach and y0 + reach < paper.y < y1 - reach:
+        return True
+    box = paper.corners()
     return bool(
-        box[:, 0].min() >= vp.x
-        and box[:, 0].max() <= vp.x + vp.w
-        and box[:, 1].min() >= vp.y
-        and box[:, 1].max() <= vp.y + vp.h
+        box[:, 0].min() >= x0
+        and box[:, 0].max() <= x1
+        and box[:, 1].min() >= y0
+        and box[:, 1].max() <= y1
     )
 
 
@@ -99,7 +112,7 @@ def _text(c, item: Text, xf: _Xform, vp: Viewport | None) -> None:
 
 def _paper_text(c, paper: Text, vp: Viewport | None, bold: bool = False) -> None:
     """Draw a text already on paper, unless it would leave ``vp``."""
-    if vp is not None and not _inside(paper.corners(), vp):
+    if vp is not None and not _inside(paper, vp):
         return
     size, rot = paper.height, paper.rotation
     c.saveState()

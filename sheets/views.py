@@ -71,12 +71,10 @@ class PaperXform:
     def many(self, pts) -> np.ndarray:
         a = np.asarray(pts, dtype=float).reshape(-1, 2)
         dx, dy = a[:, 0] - self.ox, a[:, 1] - self.oy
-        return np.column_stack(
-            [
-                self.tx + self.k * (self.c * dx - self.s * dy),
-                self.ty + self.k * (self.s * dx + self.c * dy),
-            ]
-        )
+        out = np.empty_like(a)
+        out[:, 0] = self.tx + self.k * (self.c * dx - self.s * dy)
+        out[:, 1] = self.ty + self.k * (self.s * dx + self.c * dy)
+        return out
 
     def text(self, item: Text) -> Text:
         """``item`` on paper, turned so it never reads upside down."""
@@ -163,9 +161,8 @@ class SheetView:
 _EXAGGERATION_DIVISORS = (1, 2, 2.5, 5, 10)
 
 
-def _fits(prof: Drawing, lay: DraftingLayout, geo: SheetGeometry) -> bool:
-    _, y0, _, y1 = prof.extents
-    return (y1 - y0) / model_per_point(lay) <= geo.profile.h - 2.5 * geo.text
+def _fits(height: float, lay: DraftingLayout, geo: SheetGeometry) -> bool:
+    return height / model_per_point(lay) <= geo.profile.h - 2.5 * geo.text
 
 
 def series_exaggeration(
@@ -175,33 +172,38 @@ def series_exaggeration(
 
     Each window has its own datum (the grid is renumbered), so only a window whose
     elevation range is taller than the profile view at the asked exaggeration
-    lowers it, for every sheet alike.
+    lowers it, for every sheet alike. A window is measured before it is drafted
+    (:meth:`~gradeline.present.drafting.ProfileDraft.prepare`): each profile is
+    drawn once, at the exaggeration chosen.
     """
     if ctx.geometry is None:
         return lay, {}
-    drawings: dict[int, Drawing] = {}
+    drafts: dict[int, drafting.ProfileDraft] = {}
     used = lay
+    memos: dict[int, dict] = {fr.number: {} for fr in frames}  # kept from one try to the next
+
+    def draft(fr: Frame) -> drafting.ProfileDraft:
+        window = (fr.view_start, fr.view_end)
+        d = drafting.ProfileDraft(ctx, used, "spline", window, True, memos[fr.number])
+        d.prepare()
+        return d
+
     for divisor in _EXAGGERATION_DIVISORS:
         exag = lay.exaggeration / divisor
         if divisor > 1 and exag < 1:
             break
         used = replace(lay, exaggeration=exag)
-        drawings = {}
+        drafts = {}
         for fr in frames:
-            prof = drafting.profile_drawing(
-                ctx, used, window=(fr.view_start, fr.view_end), strip=True
-            )
-            drawings[fr.number] = prof
-            if not _fits(prof, used, geo) and exag > 1:
+            drafts[fr.number] = d = draft(fr)
+            if not _fits(d.height(), used, geo) and exag > 1:
                 break
         else:
-            return used, drawings
+            break
     for fr in frames:  # the smallest tried: draw what does not fit, clipped
-        if fr.number not in drawings:
-            drawings[fr.number] = drafting.profile_drawing(
-                ctx, used, window=(fr.view_start, fr.view_end), strip=True
-            )
-    return used, drawings
+        if fr.number not in drafts:
+            drafts[fr.number] = draft(fr)
+    return used, {n: d.finish() for n, d in drafts.items()}
 
 
 def _plan(ctx: SolvedAlignment, frame: Frame, total_frames: int) -> PlanView | None:

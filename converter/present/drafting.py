@@ -37,6 +37,7 @@ __all__ = [
     "Circle",
     "Drawing",
     "Path",
+    "ProfileDraft",
     "QuadCurve",
     "Text",
     "boxes_overlap",
@@ -60,8 +61,12 @@ def _circle_samples(x0: float, x1: float, r: float, tol: float) -> np.ndarray:
     return np.linspace(x0, x1, n)
 
 
-class _Profile:
-    """Builds a profile :class:`Drawing` step by step, for the whole profile or a window."""
+class ProfileDraft:
+    """Builds a profile :class:`Drawing` step by step, for the whole profile or a window.
+
+    :meth:`prepare` decides the height (datum, key-point labels, grid top), so a
+    caller choosing an exaggeration can measure before :meth:`finish` drafts the rest.
+    """
 
     def __init__(
         self,
@@ -70,6 +75,7 @@ class _Profile:
         curves: str,
         window: tuple[float, float] | None,
         strip: bool,
+        memo: dict[str, Any] | None = None,
     ) -> None:
         if ctx.geometry is None:
             raise ValueError("profile drawing needs a profile")
@@ -81,6 +87,9 @@ class _Profile:
         self.h = layout.text_height
         self.strip = strip
         self.items: list[Any] = []
+        # what does not depend on the exaggeration, kept by a caller that drafts the
+        # same window at several (see gradeline.sheets.views.series_exaggeration)
+        self.memo: dict[str, Any] = {} if memo is None else memo
         g = self.geom
         if window is None:
             self.x0 = math.floor(g.start / layout.station_minor) * layout.station_minor
@@ -96,9 +105,32 @@ class _Profile:
         return (np.asarray(z, dtype=float) - self.datum) * self.lay.exaggeration
 
     def build(self) -> Drawing:
-        g, lay = self.geom, self.lay
-        major_z, minor_z = lay.elevation_steps()
-        self.grounds = []
+        self.prepare()
+        return self.finish()
+
+    def prepare(self) -> None:
+        """Datum, key-point labels and grid top: all that decides the drawing's height."""
+        lay = self.lay
+        major_z, _ = lay.elevation_steps()
+        if "zs" not in self.memo:
+            self.memo.update(self._samples())
+        self.grounds, dense = self.memo["grounds"], self.memo["dense"]
+        zmin, zmax = self.memo["zmin"], self.memo["zmax"]
+        self.drawn = drawn = self.s1 > self.s0
+        self.datum = math.floor(zmin / major_z) * major_z - major_z
+        # the labels come after the grade and ground lines in the drawing; they are
+        # placed now (they set the grid top) and kept aside until finish()
+        self.items = []
+        label_top = self._point_labels(dense) if drawn else 0.0
+        self.point_labels, self.items = self.items, []
+        top_y = max(label_top + self.h, float(self.y(zmax)) + 4 * self.h)
+        top = self.datum + top_y / lay.exaggeration
+        self.top = math.ceil(top / major_z) * major_z
+
+    def _samples(self) -> dict[str, Any]:
+        """Ground pieces in the window, dense stations, lowest and highest elevation."""
+        g = self.geom
+        grounds = []
         for gr in self.ctx.alignment.grounds:
             for p in gr.pieces:
                 s, z = np.array(p.stations), np.array(p.elevations)
@@ -108,9 +140,8 @@ class _Profile:
                     continue
                 s2 = np.concatenate([[lo], s[keep], [hi]])
                 z2 = np.interp(s2, s, z)
-                self.grounds.append((s2, z2))
-        drawn = self.s1 > self.s0
-        if drawn:
+                grounds.append((s2, z2))
+        if self.s1 > self.s0:
             # sample the lines labels must clear at least every text height
             n = max(501, math.ceil((self.s1 - self.s0) / self.h) + 1)
             dense = np.linspace(self.s0, self.s1, n)
@@ -120,25 +151,37 @@ class _Profile:
         else:
             dense = np.empty(0)
             zs = []
-        zs += [z for _, z in self.grounds]
+        zs += [z for _, z in grounds]
         zs = [z for z in zs if len(z)]
         if not zs:
             zs = [np.array([float(g.pvi_elevations[0])])]
-        zmin = min(float(np.nanmin(z)) for z in zs)
-        self.datum = math.floor(zmin / major_z) * major_z - major_z
-        if drawn:
+        return {
+            "grounds": grounds,
+            "dense": dense,
+            "zs": zs,
+            "zmin": min(float(np.nanmin(z)) for z in zs),
+            "zmax": max(float(np.nanmax(z)) for z in zs),
+        }
+
+    def height(self) -> float:
+        """Height of the finished drawing's extents (after :meth:`prepare`)."""
+        bottom = self._strip_bottom() - 0.4 * self.h if self.strip else -4 * self.h
+        return float(self.y(self.top)) + self.h - (bottom - self.h)
+
+    def finish(self) -> Drawing:
+        """The drawing, after :meth:`prepare`."""
+        lay = self.lay
+        major_z, minor_z = lay.elevation_steps()
+        self.items = []
+        if self.drawn:
             self._grade_line()
         self._ground()
-        label_top = self._point_labels(dense) if drawn else 0.0
-        zmax = max(float(np.nanmax(z)) for z in zs)
-        top_y = max(label_top + self.h, float(self.y(zmax)) + 4 * self.h)
-        top = self.datum + top_y / lay.exaggeration
-        self.top = math.ceil(top / major_z) * major_z
+        self.items += self.point_labels
         self._grid(major_z, minor_z)
         bottom = -4 * self.h
         if self.strip:
             bottom = self._strip()
-        if drawn:
+        if self.drawn:
             self._grade_labels()
         bottom = self._info(bottom)
         ymax = float(self.y(self.top))
@@ -151,6 +194,7 @@ class _Profile:
             "alignment": self.ctx.alignment.name,
             "profile": self.ctx.profile.name if self.ctx.profile else "",
             "linear_unit": self.units.linear,
+            "curves": self.curves,
         }
         return Drawing(tuple(self.items), ext, meta)
 
@@ -213,6 +257,26 @@ class _Profile:
 
     # key-point labels: vertical text in columns, spread so they never touch ----
     def _point_labels(self, dense: np.ndarray) -> float:
+        if "labels" not in self.memo:
+            self.memo["labels"] = self._label_plan(dense)
+        h, pitch = self.h, 1.6 * self.h
+        highest = 0.0
+        for s, z, lines, x, zwin in self.memo["labels"]:
+            base = float(self.y(z if zwin is None else zwin)) + 2.0 * h
+            anchor = (s, float(self.y(z)))
+            self.items.append(Path("labels", (anchor, (x, base - 0.4 * h))))
+            for j, text in enumerate(lines):
+                # columns sit just left of the leader, so no station line runs through them
+                cx = x - 0.75 * h - (len(lines) - 1 - j) * pitch
+                item = Text("labels", text, cx, base, h, 90.0, "left", "middle")
+                self.items.append(item)
+                highest = max(highest, base + item.width)
+        return highest
+
+    def _label_plan(self, dense: np.ndarray) -> list[tuple[float, float, list[str], float, Any]]:
+        """The key-point labels without the exaggeration: for each, its station and
+        elevation, its lines, the station of its column block and the highest line
+        (grade, tangent or ground) it must clear, or None."""
         g, st, units, h = self.geom, self.ctx.stationing, self.units, self.h
         wanted = []  # (station, elevation, lines)
         curve_at = {c.index: c for c in g.curves}
@@ -274,7 +338,7 @@ class _Profile:
             )
         wanted = sorted(w for w in wanted if self.x0 <= w[0] <= self.x1)
         if not wanted:
-            return 0.0
+            return []
         pitch = 1.6 * h
         widths = [len(w[2]) * pitch for w in wanted]
         xs = [w[0] for w in wanted]
@@ -293,22 +357,13 @@ class _Profile:
         top_curve = np.fmax(zs, tz)
         for gs, gz in self.grounds:
             top_curve = np.fmax(top_curve, np.interp(dense, gs, gz, left=np.nan, right=np.nan))
-        top_y = self.y(top_curve)
-        highest = 0.0
+        out = []
         for (s, z, lines), x, w in zip(wanted, pos, widths, strict=True):
             lo, hi = min(s, x) - w, max(s, x) + w
             win = (dense >= lo) & (dense <= hi)
-            base = float(np.nanmax(top_y[win])) if win.any() else float(self.y(z))
-            base += 2.0 * h
-            anchor = (s, float(self.y(z)))
-            self.items.append(Path("labels", (anchor, (x, base - 0.4 * h))))
-            for j, text in enumerate(lines):
-                # columns sit just left of the leader, so no station line runs through them
-                cx = x - 0.75 * h - (len(lines) - 1 - j) * pitch
-                item = Text("labels", text, cx, base, h, 90.0, "left", "middle")
-                self.items.append(item)
-                highest = max(highest, base + item.width)
-        return highest
+            # the highest line under the block: the exaggeration keeps the order
+            out.append((s, z, lines, x, np.nanmax(top_curve[win]) if win.any() else None))
+        return out
 
     # grid, elevation and station labels ---------------------------------------
     def _majors(self) -> np.ndarray:
@@ -340,6 +395,13 @@ class _Profile:
                 self.items.append(Text("labels", text, gx0 - 0.8 * h, y, h, 0.0, "right", "middle"))
                 self.items.append(Text("labels", text, gx1 + 0.8 * h, y, h, 0.0, "left", "middle"))
 
+    def _strip_width(self) -> float:
+        return labels.text_width("0" * 7, self.h)
+
+    def _strip_bottom(self) -> float:
+        """Foot of the elevation strip's text (its last line is 0.4 h lower)."""
+        return -3.4 * self.h - 2 * self._strip_width()
+
     def _strip(self) -> float:
         """Existing-ground and finished-grade elevations at each labelled station."""
         h, units = self.h, self.units
@@ -349,7 +411,7 @@ class _Profile:
         for s, z in self.grounds:
             inside = (major >= s[0]) & (major <= s[-1])
             eg[inside] = np.interp(major[inside], s, z)
-        width = labels.text_width("0" * 7, h)
+        width = self._strip_width()
         rows = [
             (labels.STRIP_TITLES[0], fg, -2.6 * h),
             (labels.STRIP_TITLES[1], eg, -3.4 * h - width),
@@ -384,7 +446,7 @@ class _Profile:
                             "middle",
                         )
                     )
-        bottom = -3.4 * h - 2 * width
+        bottom = self._strip_bottom()
         self.items.append(Path("grid", ((self.gx0, -2.2 * h), (self.gx1, -2.2 * h))))
         self.items.append(
             Path("grid", ((self.gx0, -3.0 * h - width), (self.gx1, -3.0 * h - width)))
@@ -470,6 +532,4 @@ def profile_drawing(
         Add the strip of finished-grade and existing-ground elevations under the
         grid at every labelled station (plan-and-profile sheets).
     """
-    d = _Profile(ctx, layout, curves, window, strip).build()
-    d.meta["curves"] = curves
-    return d
+    return ProfileDraft(ctx, layout, curves, window, strip).build()

@@ -7,6 +7,7 @@ cells all call these functions, so the same value prints the same everywhere.
 from __future__ import annotations
 
 import math
+from functools import lru_cache
 
 from gradeline.model.units import Units
 
@@ -468,8 +469,13 @@ def text_width(text: str, height: float) -> float:
     >>> round(text_width("12+00", 5.0), 2)
     14.6
     """
-    units = sum(_WIDTHS.get(ch, _OTHER_WIDTH) for ch in text)
-    return units / 1000.0 * height * _MARGIN
+    return _text_units(text) / 1000.0 * height * _MARGIN
+
+
+@lru_cache(maxsize=1 << 16)
+def _text_units(text: str) -> int:
+    # drawings and sheets measure the same label texts again and again: cached
+    return sum(_WIDTHS.get(ch, _OTHER_WIDTH) for ch in text)
 
 
 # -- report headlines: one place for the verdict wording ---------------------
