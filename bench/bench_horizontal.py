@@ -2,8 +2,13 @@
 
 A 200-element alignment (50 x line, clothoid, arc, clothoid). Baselines are
 plain-Python per-station loops over the same solved elements, run in the same
-process (on a subset, scaled). Run: ``python bench/bench_horizontal.py``.
-Targets (issue 3): coordinates under 0.5 s; station/offset under 1 s.
+process (on a subset, scaled), and, for the coordinates, the floor of any
+clothoid evaluator: ``scipy.special.fresnel`` at every station plus the element
+lookup (``searchsorted``), at 10k to 10M stations, with the peak of traced
+memory (tracemalloc) against the size of the outputs. Run:
+``python bench/bench_horizontal.py``. Targets: coordinates under 0.5 s at 1M
+stations (issue 3), at most 1.5x the fresnel floor and 2x the outputs' memory
+(issue 16); station/offset under 1 s.
 """
 
 from __future__ import annotations
@@ -12,11 +17,14 @@ import bisect
 import math
 import sys
 import time
+import tracemalloc
 from pathlib import Path
 
 import numpy as np
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
+
+from scipy.special import fresnel  # noqa: E402
 
 from bench._common import best_of, synthetic_plan  # noqa: E402
 from gradeline.geometry import horizontal as H
@@ -105,6 +113,31 @@ def main() -> None:
         f"alignment: {len(plan.elements)} elements, {geom.end - geom.start:,.0f} ft, "
         f"solved in {t_solve * 1e3:.0f} ms"
     )
+    print()
+    print("| stations | ours | fresnel + lookup | ratio | peak memory / outputs |")
+    print("| --- | --- | --- | --- | --- |")
+    for n in (10_000, 100_000, 1_000_000, 10_000_000):
+        st = rng.uniform(geom.start, geom.end, n)
+        reps = 5 if n <= 1_000_000 else 2
+        t_ours = best_of(lambda st=st: H.evaluate(geom, st), repeat=reps)
+        t_floor = best_of(
+            lambda st=st: (
+                np.searchsorted(geom.s0, st, side="right"),
+                fresnel(st * (3.0 / (geom.end - geom.start))),
+            ),
+            repeat=reps,
+        )
+        tracemalloc.start()
+        out = H.evaluate(geom, st)
+        peak = tracemalloc.get_traced_memory()[1]
+        tracemalloc.stop()
+        size = sum(a.nbytes for a in out)
+        print(
+            f"| {n:,} | {t_ours * 1e3:.1f} ms | {t_floor * 1e3:.1f} ms | "
+            f"{t_ours / t_floor:.2f}x | {peak / 2**20:.1f} / {size / 2**20:.1f} MiB = "
+            f"{peak / size:.2f}x |"
+        )
+    print()
     print(
         f"coordinates at 1,000,000 stations : {t_vec:.3f} s "
         f"(plain-Python loop {t_loop:.1f} s, {t_loop / t_vec:.0f}x)"

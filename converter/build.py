@@ -224,6 +224,19 @@ def build(
     """Build all jobs; with ``workers`` > 1 files run in a process pool."""
     results: list[list[ItemResult]] = [[] for _ in jobs]
     if workers > 1 and len(jobs) > 1:
+        import multiprocessing
+
+        if multiprocessing.get_start_method() == "fork":
+            # read and index each surface once here: forked workers inherit it
+            from gradeline.deliverables import preload_surfaces
+
+            preload_surfaces(
+                [
+                    (j.options.ground or j.path, j.options.surface)
+                    for j in jobs
+                    if j.options.ground or j.options.surface
+                ]
+            )
         with ProcessPoolExecutor(max_workers=workers) as pool:
             futures = {pool.submit(build_file, j, outroot): i for i, j in enumerate(jobs)}
             from concurrent.futures import as_completed

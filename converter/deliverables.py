@@ -71,10 +71,8 @@ def attach_ground(
     Returns the alignment with its new ground and the warnings to show (faces
     of zero area that were dropped).
     """
-    from gradeline.io.surface_reader import read_surface
-
     path = os.fspath(ground) if ground is not None else solved.document.path
-    surf = read_surface(path, surface)
+    surf, index = loaded_surface(path, surface)
     warnings: list[GradelineError] = []
     if surf.skipped_faces:
         warnings.append(
@@ -84,7 +82,48 @@ def attach_ground(
                 "F",
             )
         )
-    return with_surface(solved, surf), warnings
+    return with_surface(solved, surf, index), warnings
+
+
+#: Surfaces read and indexed in this process, by (file, its size and time, name).
+_LOADED: dict[tuple[str, int, int, str | None], tuple[Any, Any]] = {}
+_LOADED_MAX = 4
+
+
+def loaded_surface(path: str | os.PathLike[str], surface: str | None) -> tuple[Any, Any]:
+    """A TIN surface and its :class:`~gradeline.geometry.ground.TriangleIndex`, read and
+    built once per process: every alignment of a build (and every worker started
+    after :func:`preload_surfaces`) shares them. A file changed since is read again."""
+    from gradeline.geometry.ground import TriangleIndex
+    from gradeline.io.surface_reader import read_surface
+
+    real = os.path.realpath(path)
+    try:
+        st = os.stat(real)
+        key = (real, st.st_mtime_ns, st.st_size, surface)
+    except OSError:
+        return _index(read_surface(path, surface), TriangleIndex)  # the reader words it
+    hit = _LOADED.get(key)
+    if hit is None:
+        hit = _index(read_surface(path, surface), TriangleIndex)
+        while len(_LOADED) >= _LOADED_MAX:
+            _LOADED.pop(next(iter(_LOADED)))
+        _LOADED[key] = hit
+    return hit
+
+
+def _index(surf: Any, index_type: Any) -> tuple[Any, Any]:
+    return surf, index_type(surf)
+
+
+def preload_surfaces(grounds: Sequence[tuple[str, str | None]]) -> None:
+    """Read and index these (file, surface) pairs now (before worker processes fork,
+    so they inherit them); one that cannot be read is left for its alignments to report."""
+    for path, surface in list(dict.fromkeys(grounds))[:_LOADED_MAX]:
+        try:
+            loaded_surface(path, surface)
+        except GradelineError:
+            pass
 
 
 def document_warnings(doc: Document) -> list[GradelineError]:

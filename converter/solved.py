@@ -316,7 +316,9 @@ def solve(
     return solve_alignment(doc, al, prof, need_profile=need_profile)
 
 
-def with_surface(solved: SolvedAlignment, surface: Surface) -> SolvedAlignment:
+def with_surface(
+    solved: SolvedAlignment, surface: Surface, index: TriangleIndex | None = None
+) -> SolvedAlignment:
     """The same alignment with its ground sampled from a TIN surface.
 
     The ground profile is exact: the TIN's edge crossings along the alignment
@@ -344,7 +346,8 @@ def with_surface(solved: SolvedAlignment, surface: Surface) -> SolvedAlignment:
             solved.alignment.source,
             "Alignment",
         )
-    index = gr.TriangleIndex(surface)
+    if index is None:
+        index = gr.TriangleIndex(surface)
     hz = solved.horizontal  # the ground lies along the plan: sample where the plan is
     lo, hi = max(solved.start, hz.start), min(solved.end, hz.end)
     stations, z = gr.sample_alignment(hz, index, lo=lo, hi=hi)

@@ -54,12 +54,18 @@ def _sample(lines: list[np.ndarray], step: float) -> np.ndarray:
     out = []
     for pts in lines:
         seg = np.diff(pts, axis=0)
-        lengths = np.abs(seg[:, 0])
-        for (x0, y0), (dx, dy), lx in zip(pts[:-1], seg, lengths, strict=True):
-            n = max(1, int(math.ceil(lx / step)))
-            t = np.arange(n) / n
-            out.append(np.column_stack([x0 + t * dx, y0 + t * dy]))
-        out.append(pts[-1:])
+        # n points per segment, at t = k / n, k = 0 .. n - 1
+        span = np.abs(seg[:, 0])
+        span[~np.isfinite(span)] = 0.0  # a non-finite vertex: its segment is one point
+        n = np.maximum(1, np.ceil(span / step)).astype(np.int64)
+        owner = np.repeat(np.arange(len(seg)), n)
+        k = np.arange(int(n.sum())) - np.repeat(np.cumsum(n) - n, n)
+        t = k / n[owner]
+        part = np.empty((len(t) + 1, 2))
+        part[:-1, 0] = pts[owner, 0] + t * seg[owner, 0]
+        part[:-1, 1] = pts[owner, 1] + t * seg[owner, 1]
+        part[-1] = pts[-1]
+        out.append(part)
     return np.concatenate(out) if out else np.zeros((0, 2))
 
 

@@ -25,40 +25,70 @@ __all__ = ["Surface", "TriangleIndex", "ground_profile", "interpolate", "sample_
 
 
 class TriangleIndex:
-    """Uniform grid over triangles: each cell lists the triangles whose box touches it."""
+    """Uniform grid over triangles: each cell lists the triangles whose box touches it.
+
+    Built a block of triangles at a time with 32-bit cell lists, so a surface of
+    millions of faces is indexed in a few times the memory of its arrays.
+    """
+
+    _BLOCK = 1 << 18  # triangles per block while building
 
     def __init__(self, surface: Surface) -> None:
         self.s = surface
         tri = surface.visible
         self.tri = tri
         x, y = surface.x, surface.y
-        tx, ty = x[tri], y[tri]
-        self.x0, self.y0 = float(tx.min()), float(ty.min())
-        span_x, span_y = float(tx.max()) - self.x0, float(ty.max()) - self.y0
+        n = len(tri)
+        blocks = range(0, n, self._BLOCK)
+        if n:  # the box of the visible triangles' points
+            lows = [
+                (x[tri[lo : lo + self._BLOCK]].min(), y[tri[lo : lo + self._BLOCK]].min())
+                for lo in blocks
+            ]
+            highs = [
+                (x[tri[lo : lo + self._BLOCK]].max(), y[tri[lo : lo + self._BLOCK]].max())
+                for lo in blocks
+            ]
+            self.x0, self.y0 = float(min(p[0] for p in lows)), float(min(p[1] for p in lows))
+            span_x = float(max(p[0] for p in highs)) - self.x0
+            span_y = float(max(p[1] for p in highs)) - self.y0
+        else:
+            self.x0 = self.y0 = span_x = span_y = 0.0
         area = max(span_x * span_y, 1e-12)
-        cell = math.sqrt(area / max(len(tri), 1)) * 1.5
+        cell = math.sqrt(area / max(n, 1)) * 1.5
         self.cell = cell
         self.nx = max(1, int(span_x / cell) + 1)
         self.ny = max(1, int(span_y / cell) + 1)
-        ix0 = ((tx.min(axis=1) - self.x0) / cell).astype(np.int64)
-        ix1 = ((tx.max(axis=1) - self.x0) / cell).astype(np.int64)
-        iy0 = ((ty.min(axis=1) - self.y0) / cell).astype(np.int64)
-        iy1 = ((ty.max(axis=1) - self.y0) / cell).astype(np.int64)
-        wx, wy = ix1 - ix0 + 1, iy1 - iy0 + 1
-        counts = wx * wy
-        owner = np.repeat(np.arange(len(tri)), counts)
-        offset = np.arange(counts.sum()) - np.repeat(np.cumsum(counts) - counts, counts)
-        cx = ix0[owner] + offset % wx[owner]
-        cy = iy0[owner] + offset // wx[owner]
-        cells = cy * self.nx + cx
+        cells_parts, owner_parts = [], []
+        wide = np.int32 if self.nx * self.ny < 2**31 - 1 and n < 2**31 - 1 else np.int64
+        for lo in blocks:
+            t = tri[lo : lo + self._BLOCK]
+            tx, ty = x[t], y[t]
+            ix0 = ((tx.min(axis=1) - self.x0) / cell).astype(np.int64)
+            ix1 = ((tx.max(axis=1) - self.x0) / cell).astype(np.int64)
+            iy0 = ((ty.min(axis=1) - self.y0) / cell).astype(np.int64)
+            iy1 = ((ty.max(axis=1) - self.y0) / cell).astype(np.int64)
+            del tx, ty
+            wx, wy = ix1 - ix0 + 1, iy1 - iy0 + 1
+            counts = wx * wy
+            owner = np.repeat(np.arange(lo, lo + len(t)), counts)
+            offset = np.arange(counts.sum()) - np.repeat(np.cumsum(counts) - counts, counts)
+            k = owner - lo
+            cx = ix0[k] + offset % wx[k]
+            cy = iy0[k] + offset // wx[k]
+            cells_parts.append((cy * self.nx + cx).astype(wide))
+            owner_parts.append(owner.astype(wide))
+            del owner, offset, k, cx, cy
+        cells = np.concatenate(cells_parts) if cells_parts else np.zeros(0, np.int32)
+        del cells_parts
+        owners = np.concatenate(owner_parts) if owner_parts else np.zeros(0, np.int32)
+        del owner_parts
         order = np.argsort(cells, kind="stable")
-        self.items = owner[order]
-        self.start = np.searchsorted(cells[order], np.arange(self.nx * self.ny + 1))
-        # per-triangle barycentric set-up: solve [x1-x0, x2-x0; y1-y0, y2-y0] w = p - p0
-        self.ax, self.ay = tx[:, 0], ty[:, 0]
-        self.e1x, self.e1y = tx[:, 1] - tx[:, 0], ty[:, 1] - ty[:, 0]
-        self.e2x, self.e2y = tx[:, 2] - tx[:, 0], ty[:, 2] - ty[:, 0]
-        self.det = self.e1x * self.e2y - self.e2x * self.e1y
+        self.items = owners[order]
+        del owners, order
+        # cell k lists items[start[k]:start[k + 1]]
+        self.start = np.zeros(self.nx * self.ny + 1, dtype=np.int64)
+        np.cumsum(np.bincount(cells, minlength=self.nx * self.ny), out=self.start[1:])
 
     def cells_of(self, px: NDArray[np.float64], py: NDArray[np.float64]) -> NDArray[np.int64]:
         """Cell number of each point (-1 outside the grid)."""
@@ -71,6 +101,7 @@ class TriangleIndex:
         """Triangle (index into visible faces, -1 if none) and weights (w1, w2) of each point."""
         px = np.asarray(px, dtype=np.float64).reshape(-1)
         py = np.asarray(py, dtype=np.float64).reshape(-1)
+        x, y, tri = self.s.x, self.s.y, self.tri
         cell = self.cells_of(px, py)
         found = np.full(len(px), -1, dtype=np.int64)
         w1 = np.zeros(len(px))
@@ -84,11 +115,16 @@ class TriangleIndex:
             todo, n_in = todo[live], n_in[live]
             if not todo.size:
                 break
-            t = self.items[self.start[cell[todo]] + rank]
-            dx, dy = px[todo] - self.ax[t], py[todo] - self.ay[t]
-            det = self.det[t]
-            a = (dx * self.e2y[t] - dy * self.e2x[t]) / det
-            b = (self.e1x[t] * dy - self.e1y[t] * dx) / det
+            t = self.items[self.start[cell[todo]] + rank].astype(np.int64)
+            # barycentric weights: solve [x1-x0, x2-x0; y1-y0, y2-y0] w = p - p0
+            p0, p1, p2 = tri[t, 0], tri[t, 1], tri[t, 2]
+            ax, ay = x[p0], y[p0]
+            e1x, e1y = x[p1] - ax, y[p1] - ay
+            e2x, e2y = x[p2] - ax, y[p2] - ay
+            det = e1x * e2y - e2x * e1y
+            dx, dy = px[todo] - ax, py[todo] - ay
+            a = (dx * e2y - dy * e2x) / det
+            b = (e1x * dy - e1y * dx) / det
             hit = (a >= -eps) & (b >= -eps) & (a + b <= 1 + eps)
             idx = todo[hit]
             found[idx] = t[hit]

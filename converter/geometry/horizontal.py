@@ -132,6 +132,8 @@ class HorizontalGeometry:
     panel_s: NDArray[np.float64]
     panel_x: NDArray[np.float64]
     panel_y: NDArray[np.float64]
+    cos_h0: NDArray[np.float64]  # cos and sin of h0: a line needs no trigonometry per station
+    sin_h0: NDArray[np.float64]
 
     @property
     def start(self) -> float:
@@ -482,25 +484,79 @@ def _assemble(horizontal, geoms, findings, convention, matches) -> HorizontalGeo
         panel_s=ro(panel_s),
         panel_x=ro(panel_x),
         panel_y=ro(panel_y),
+        cos_h0=ro(np.cos(np.array([g.heading0 for g in geoms]))),
+        sin_h0=ro(np.sin(np.array([g.heading0 for g in geoms]))),
     )
+
+
+#: Stations evaluated at a time: the quadrature's (n, 8) work arrays stay small.
+_CHUNK = 1 << 16
+
+
+def _last_at_or_before(starts: NDArray[np.float64], s: NDArray[np.float64]) -> NDArray[np.intp]:
+    """For each station, the last index i with ``starts[i] <= s`` (0 if none): the same
+    as ``searchsorted(starts, s, "right") - 1`` clipped at 0, by a uniform bucket table
+    of the starts and a few steps forward, without a binary search per station."""
+    n = len(starts)
+    if n < 8:
+        return np.maximum(np.searchsorted(starts, s, side="right") - 1, 0)
+    lo, hi = float(starts[0]), float(starts[-1])
+    nb = 4 * n
+    width = (hi - lo) / nb if hi > lo else 1.0
+    edges = lo + width * np.arange(nb)
+    table = np.maximum(np.searchsorted(starts, edges, side="right") - 1, 0)
+    b = np.clip(((s - lo) / width).astype(np.intp), 0, nb - 1)
+    idx = table[b]
+    # a bucket edge computed in floating point may sit a hair past its station
+    back = (starts[idx] > s) & (idx > 0)
+    while back.any():
+        idx[back] -= 1
+        back = (starts[idx] > s) & (idx > 0)
+    while True:
+        ahead = idx + 1 < n
+        ahead[ahead] = starts[idx[ahead] + 1] <= s[ahead]
+        if not ahead.any():
+            return idx
+        idx[ahead] += 1
 
 
 def _state(geom: HorizontalGeometry, s: NDArray[np.float64]):
     """x, y, heading and curvature at finite stations inside the alignment."""
-    idx = np.clip(np.searchsorted(geom.s0, s, side="right") - 1, 0, len(geom.s0) - 1)
+    if len(s) <= _CHUNK:
+        return _state_chunk(geom, s)
+    out = [np.empty(len(s)) for _ in range(4)]
+    for lo in range(0, len(s), _CHUNK):
+        for arr, part in zip(out, _state_chunk(geom, s[lo : lo + _CHUNK]), strict=True):
+            arr[lo : lo + _CHUNK] = part
+    return tuple(out)
+
+
+def _state_chunk(geom: HorizontalGeometry, s: NDArray[np.float64]):
+    idx = np.minimum(_last_at_or_before(geom.s0, s), len(geom.s0) - 1)
     d = s - geom.s0[idx]
-    L = geom.length[idx]
-    h0 = geom.h0[idx]
-    k0 = geom.k0[idx]
-    dk = geom.dk[idx]
     law = geom.law[idx]
-    heading = h0 + k0 * d
-    kappa = k0.copy()
-    # lines and arcs: exact chord form, stable for any radius
-    half = 0.5 * k0 * d
-    chord = d * np.sinc(half / np.pi)
-    x = geom.x0[idx] + chord * np.cos(h0 + half)
-    y = geom.y0[idx] + chord * np.sin(h0 + half)
+    x, y = np.empty(len(s)), np.empty(len(s))
+    heading, kappa = np.empty(len(s)), np.empty(len(s))
+    # lines: the chord form below with k = 0 (sinc 0 = 1), the cosines once per element
+    straight = geom.k0[idx] == 0.0
+    ln = np.flatnonzero((law == 0) & straight)
+    if ln.size:
+        e, dl = idx[ln], d[ln]
+        heading[ln] = geom.h0[e] + 0.0  # h0 + 0 * d
+        kappa[ln] = 0.0
+        x[ln] = geom.x0[e] + dl * geom.cos_h0[e]
+        y[ln] = geom.y0[e] + dl * geom.sin_h0[e]
+    # arcs: exact chord form, stable for any radius
+    la = np.flatnonzero((law == 0) & ~straight)
+    if la.size:
+        e, dl = idx[la], d[la]
+        h0, k0 = geom.h0[e], geom.k0[e]
+        heading[la] = h0 + k0 * dl
+        kappa[la] = k0
+        half = 0.5 * k0 * dl
+        chord = dl * np.sinc(half / np.pi)
+        x[la] = geom.x0[e] + chord * np.cos(h0 + half)
+        y[la] = geom.y0[e] + chord * np.sin(h0 + half)
     for e in np.unique(idx[law == TANGENT_LAW]):
         m = idx == e
         form = geom.elements[e].form
@@ -510,14 +566,16 @@ def _state(geom: HorizontalGeometry, s: NDArray[np.float64]):
     if sp.size:
         e = idx[sp]
         lw = law[sp]
-        Ls, h0s, k0s, dks = L[sp], h0[sp], k0[sp], dk[sp]
-        t = d[sp] / Ls
-        heading[sp] = h0s + k0s * d[sp] + dks * Ls * _shape_integral(lw, t)
+        ds = d[sp]
+        Ls, h0s, k0s, dks = geom.length[e], geom.h0[e], geom.k0[e], geom.dk[e]
+        t = ds / Ls
+        heading[sp] = h0s + k0s * ds + dks * Ls * _shape_integral(lw, t)
         kappa[sp] = k0s + dks * _shape(lw, t)
-        p = np.searchsorted(geom.panel_s, s[sp], side="right") - 1
-        p = np.maximum(p, np.searchsorted(geom.panel_s, geom.s0[e], side="left"))
+        p = _last_at_or_before(geom.panel_s, s[sp])
+        first_panel = np.searchsorted(geom.panel_s, geom.s0, side="left")  # of each element
+        p = np.maximum(p, first_panel[e])
         a = geom.panel_s[p] - geom.s0[e]
-        b = d[sp]
+        b = ds
         u = a[:, None] + (b - a)[:, None] * (1.0 + _GL_T[None, :]) / 2.0
         lw2 = np.repeat(lw[:, None], len(_GL_T), axis=1)
         th = (
@@ -540,14 +598,20 @@ def evaluate(
     """
     s_in = np.asarray(stations, dtype=np.float64)
     s = s_in.reshape(-1)
-    # a station within rounding (1e-6) of an end counts as that end
-    outside = ~((s >= geom.start - END_TOLERANCE) & (s <= geom.end + END_TOLERANCE))
-    s_eval = np.clip(np.where(outside, geom.start, s), geom.start, geom.end)
-    x, y, h, _ = _state(geom, s_eval)
-    if outside.any():
-        x[outside] = y[outside] = h[outside] = np.nan
+    north, east, heading = np.empty(len(s)), np.empty(len(s)), np.empty(len(s))
+    # a chunk at a time: the work arrays stay a fraction of the outputs
+    step = min(_CHUNK, max(16384, len(s) // 8))
+    for lo in range(0, len(s), step):
+        part = s[lo : lo + step]
+        # a station within rounding (1e-6) of an end counts as that end
+        outside = ~((part >= geom.start - END_TOLERANCE) & (part <= geom.end + END_TOLERANCE))
+        s_eval = np.clip(np.where(outside, geom.start, part), geom.start, geom.end)
+        x, y, h, _ = _state_chunk(geom, s_eval)
+        if outside.any():
+            x[outside] = y[outside] = h[outside] = np.nan
+        north[lo : lo + step], east[lo : lo + step], heading[lo : lo + step] = y, x, h
     shape = s_in.shape
-    return y.reshape(shape), x.reshape(shape), h.reshape(shape)
+    return north.reshape(shape), east.reshape(shape), heading.reshape(shape)
 
 
 def curvature(geom: HorizontalGeometry, stations: ArrayLike) -> NDArray[np.float64]:

@@ -75,8 +75,10 @@ def read_linework(doc: DxfDocument, layer: str, tolerance: float) -> list[np.nda
                 pts = list(e.construction_tool().flattening(tolerance))
             elif kind == "ARC":
                 pts = list(e.construction_tool().flattening(tolerance))
-            elif kind == "LWPOLYLINE" and not any(b for *_, b in e.get_points("xyb")):
-                pts = [(x, y) for x, y in e.get_points("xy")]
+            elif kind == "LWPOLYLINE" and (flat := _straight_lwpolyline(e)) is not None:
+                if len(flat) >= 2:
+                    out.append(flat)
+                continue
             elif kind == "POLYLINE" and not any(v.dxf.bulge for v in e.vertices):
                 pts = [v.dxf.location for v in e.vertices]
             else:  # polylines with bulges: flatten their arcs
@@ -87,6 +89,22 @@ def read_linework(doc: DxfDocument, layer: str, tolerance: float) -> list[np.nda
         if len(arr) >= 2:
             out.append(arr)
     return out
+
+
+def _straight_lwpolyline(e: Any) -> np.ndarray | None:
+    """Vertices (n, 2) of an LWPOLYLINE without bulges, None if it has any.
+
+    Read from ezdxf's vertex array (x, y, start width, end width, bulge per row)
+    in one step; a 250,000-vertex polyline otherwise costs a Python call a vertex.
+    """
+    values = getattr(getattr(e, "lwpoints", None), "values", None)
+    if isinstance(values, np.ndarray) and values.ndim == 2 and values.shape[1] == 5:
+        if np.any(values[:, 4]):
+            return None
+        return np.array(values[:, :2], dtype=np.float64)
+    if any(b for *_, b in e.get_points("xyb")):
+        return None
+    return np.array([(x, y) for x, y in e.get_points("xy")], dtype=np.float64).reshape(-1, 2)
 
 
 def layer_names(doc: DxfDocument) -> list[str]:
