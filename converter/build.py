@@ -95,8 +95,62 @@ def _write(path: Path, data: str | bytes, inputs: Sequence[str], written: list[s
     written.append(str(path))
 
 
+#: The alignment being built, for the deliverable tasks of forked workers.
+_CURRENT: dict[str, Any] = {}
+
+
+def _deliverable(name: str) -> tuple[str, str | bytes, Any]:
+    """Render one deliverable of :data:`_CURRENT`: (file name, data, what it found)."""
+    from gradeline import deliverables as dl
+
+    c = _CURRENT
+    solved, opts, doc = c["solved"], c["opts"], c["doc"]
+    if name == "profile.dxf":
+        return name, dl.profile_dxf(solved, c["drawing"]), None
+    if name == "plan.dxf":
+        return name, dl.plan_dxf(solved, c["drawing"]), None
+    if name == "sheets.pdf":
+        return name, dl.sheets_pdf(solved, c["sheet_opts"]), None
+    if name == "curves.csv":
+        return name, dl.curve_table(solved), None
+    if name == "table.csv":
+        interval = float(opts.sheet.get("interval") or doc.units.defaults.table_interval)
+        return name, dl.station_table(solved, dl.TableOptions(interval)), None
+    if name == "check.txt":
+        check_opts = dl.CheckOptions()
+        tol = check_opts.tolerances()
+        findings = dl.check_findings(solved, tol)
+        text, _ = dl.check_report(doc, findings, tol, check_opts)
+        return name, text, sum(f.verdict == "over" for f in findings)
+    if name == "review.txt":
+        text, failed = dl.review_report(solved, dl.ReviewOptions(opts.speed, opts.speed_unit))
+        return name, text, failed
+    raise ValueError(name)
+
+
+def _render_all(names: list[str], workers: int) -> dict[str, tuple[str | bytes, Any]]:
+    """Every deliverable of :data:`_CURRENT`; with ``workers`` > 1, in forked processes
+    (the longest, the sheets, first), which inherit the solved alignment."""
+    if workers > 1 and len(names) > 1:
+        import multiprocessing
+
+        if "fork" in multiprocessing.get_all_start_methods():
+            order = sorted(names, key=lambda n: n != "sheets.pdf")
+            ctx = multiprocessing.get_context("fork")
+            with ProcessPoolExecutor(max_workers=min(workers, len(names)), mp_context=ctx) as pool:
+                got = list(pool.map(_deliverable, order))
+            return {name: (data, extra) for name, data, extra in got}
+    return {name: _deliverable(name)[1:] for name in names}
+
+
 def _build_alignment(
-    doc: Any, al: Any, prof: Any, outdir: Path, opts: BuildOptions, inputs: list[str]
+    doc: Any,
+    al: Any,
+    prof: Any,
+    outdir: Path,
+    opts: BuildOptions,
+    inputs: list[str],
+    workers: int = 1,
 ) -> ItemResult:
     from gradeline import deliverables as dl
     from gradeline.solved import solve_alignment
@@ -112,39 +166,39 @@ def _build_alignment(
         )
     outdir.mkdir(parents=True, exist_ok=True)
     sheet = opts.sheet
-    drawing = dl.DrawingOptions(
-        sheet.get("scale"), float(sheet.get("exaggeration", 10.0)), layers=opts.layers
-    )
+    names = []
     if solved.geometry is not None:
-        _write(outdir / "profile.dxf", dl.profile_dxf(solved, drawing), inputs, written)
+        names.append("profile.dxf")
     else:
         notes.append(
             "no profile in the file: profile.dxf, the vertical curve table and the "
             "vertical review left out; sheets show the plan only"
         )
     if solved.horizontal is not None:
-        _write(outdir / "plan.dxf", dl.plan_dxf(solved, drawing), inputs, written)
+        names.append("plan.dxf")
     else:
         notes.append("no CoordGeom in the file: plan.dxf and the plan views left out")
-    sheet_opts = dl.sheet_options(solved, {k: v for k, v in sheet.items() if k in dl.SHEET_KEYS})
-    _write(outdir / "sheets.pdf", dl.sheets_pdf(solved, sheet_opts), inputs, written)
-    _write(outdir / "curves.csv", dl.curve_table(solved), inputs, written)
-    interval = float(sheet.get("interval") or doc.units.defaults.table_interval)
-    _write(
-        outdir / "table.csv", dl.station_table(solved, dl.TableOptions(interval)), inputs, written
-    )
-    check_opts = dl.CheckOptions()
-    tol = check_opts.tolerances()
-    findings = dl.check_findings(solved, tol)
-    over = sum(f.verdict == "over" for f in findings)
-    text, _ = dl.check_report(doc, findings, tol, check_opts)
-    _write(outdir / "check.txt", text, inputs, written)
-    review_failed = None
+    names += ["sheets.pdf", "curves.csv", "table.csv", "check.txt"]
     if opts.speed is not None:
-        text, review_failed = dl.review_report(
-            solved, dl.ReviewOptions(opts.speed, opts.speed_unit)
-        )
-        _write(outdir / "review.txt", text, inputs, written)
+        names.append("review.txt")
+    _CURRENT.clear()
+    _CURRENT.update(
+        solved=solved,
+        opts=opts,
+        doc=doc,
+        drawing=dl.DrawingOptions(
+            sheet.get("scale"), float(sheet.get("exaggeration", 10.0)), layers=opts.layers
+        ),
+        sheet_opts=dl.sheet_options(solved, {k: v for k, v in sheet.items() if k in dl.SHEET_KEYS}),
+    )
+    try:
+        done = _render_all(names, workers)
+    finally:
+        _CURRENT.clear()
+    for name in names:  # written here, in a fixed order, each atomically
+        _write(outdir / name, done[name][0], inputs, written)
+    over = done["check.txt"][1]
+    review_failed = done["review.txt"][1] if "review.txt" in done else None
     if solved.horizontal is not None and solved.horizontal.findings:
         notes.append(f"{len(solved.horizontal.findings)} plan geometry findings (see check.txt)")
     return ItemResult(doc.path, al.name, tuple(written), None, over, review_failed, tuple(notes))
@@ -157,8 +211,10 @@ def _profiles(al: Any, opts: BuildOptions) -> list[Any]:
     return list(al.profiles) or [None]
 
 
-def build_file(job: BuildJob, outroot: str) -> list[ItemResult]:
-    """Build every alignment (and profile) of one file; failures are recorded, never raised."""
+def build_file(job: BuildJob, outroot: str, workers: int = 1) -> list[ItemResult]:
+    """Build every alignment (and profile) of one file; failures are recorded, never raised.
+
+    ``workers`` > 1 renders each alignment's deliverables in that many processes."""
     path = job.path
     opts = job.options
     inputs = [path] + [p for p in (opts.ground,) if p]
@@ -201,7 +257,7 @@ def build_file(job: BuildJob, outroot: str) -> list[ItemResult]:
                 folder = folder / slug(prof.name)
             label = prof.name if len(profiles) > 1 else None
             try:
-                item = _build_alignment(doc, al, prof, folder, opts, inputs)
+                item = _build_alignment(doc, al, prof, folder, opts, inputs, workers)
                 out.append(replace(item, profile=label))
             except GradelineError as err:
                 out.append(ItemResult(path, al.name, error=str(err), profile=label))
@@ -221,7 +277,8 @@ def build(
     workers: int = 1,
     progress: Callable[[int], None] | None = None,
 ) -> list[ItemResult]:
-    """Build all jobs; with ``workers`` > 1 files run in a process pool."""
+    """Build all jobs; with ``workers`` > 1 files run in a process pool, or, for a
+    single file, each alignment's deliverables do."""
     results: list[list[ItemResult]] = [[] for _ in jobs]
     if workers > 1 and len(jobs) > 1:
         import multiprocessing
@@ -247,7 +304,7 @@ def build(
                     progress(1)
     else:
         for i, j in enumerate(jobs):
-            results[i] = build_file(j, outroot)
+            results[i] = build_file(j, outroot, workers)
             if progress:
                 progress(1)
     return [r for rs in results for r in rs]

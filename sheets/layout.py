@@ -76,6 +76,11 @@ def clip_segments(
     >>> t0.tolist(), t1.tolist(), inside.tolist()
     ([0.25], [0.5], [True])
     """
+    if len(seg) <= 8:
+        try:
+            return _clip_few(seg, box)
+        except (OverflowError, ZeroDivisionError):
+            pass  # absurd coordinates: numpy's rules (inf, nan) below
     x0, y0, x1, y1 = box
     sx0, sy0, sx1, sy1 = seg.T
     dx, dy = sx1 - sx0, sy1 - sy0
@@ -89,6 +94,38 @@ def clip_segments(
             t0 = np.where(~parallel & (p < 0), np.maximum(t0, r), t0)
             t1 = np.where(~parallel & (p > 0), np.minimum(t1, r), t1)
     return t0, t1, ~outside & (t0 <= t1)
+
+
+def _nan_max(a: float, b: float) -> float:
+    # np.maximum: NaN wins
+    return a if a != a else (b if b != b or b > a else a)
+
+
+def _nan_min(a: float, b: float) -> float:
+    return a if a != a else (b if b != b or b < a else a)
+
+
+def _clip_few(
+    seg: np.ndarray, box: tuple[float, float, float, float]
+) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """:func:`clip_segments` for a handful of segments, one at a time in plain floats
+    (the same operations, so the same results, without numpy's per-call cost)."""
+    x0, y0, x1, y1 = (float(v) for v in box)
+    t0s, t1s, ins = [], [], []
+    for sx0, sy0, sx1, sy1 in seg.tolist():
+        dx, dy = sx1 - sx0, sy1 - sy0
+        t0, t1, outside = 0.0, 1.0, False
+        for p, q in ((-dx, sx0 - x0), (dx, x1 - sx0), (-dy, sy0 - y0), (dy, y1 - sy0)):
+            if p == 0:
+                outside = outside or q < 0
+            elif p < 0:
+                t0 = _nan_max(t0, q / p)
+            elif p > 0:
+                t1 = _nan_min(t1, q / p)
+        t0s.append(t0)
+        t1s.append(t1)
+        ins.append(not outside and t0 <= t1)
+    return np.array(t0s, dtype=float), np.array(t1s, dtype=float), np.array(ins, dtype=bool)
 
 
 def clip_polyline(pts: np.ndarray, vp: Viewport) -> list[np.ndarray]:

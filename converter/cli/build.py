@@ -102,7 +102,7 @@ def run(args: argparse.Namespace) -> int:
     jobs = [BuildJob(f, opts) for f in files]
     if auto:
         jobs = auto_ground(jobs)
-    workers = args.jobs or min(len(files), os.cpu_count() or 1)
+    workers = args.jobs or (os.cpu_count() or 1)
     return run_jobs(jobs, args.output, workers)
 
 

@@ -498,7 +498,7 @@ def _last_at_or_before(starts: NDArray[np.float64], s: NDArray[np.float64]) -> N
     as ``searchsorted(starts, s, "right") - 1`` clipped at 0, by a uniform bucket table
     of the starts and a few steps forward, without a binary search per station."""
     n = len(starts)
-    if n < 8:
+    if n < 8 or len(s) < 16 * n:  # few stations: the table would cost more than it saves
         return np.maximum(np.searchsorted(starts, s, side="right") - 1, 0)
     lo, hi = float(starts[0]), float(starts[-1])
     nb = 4 * n
