@@ -437,3 +437,27 @@ def test_direction_convention_detected_from_stated_values():
     for stated, conv in ((90.0, "cw-north"), (270.0, "ccw-north"), (0.0, "ccw-east")):
         a = HLine((0.0, 0.0), (0.0, 100.0), stated=(("dir", stated),))
         assert H.solve(HorizontalAlignment((a,))).convention == conv
+
+
+@settings(max_examples=40, deadline=None)
+@given(st.integers(1, 400_000), st.integers(0, 2**32 - 1))
+def test_chunks_and_lookup_give_the_same_bits(n, seed):
+    # property (no outside source): the bucket lookup equals searchsorted, and a
+    # station's coordinates do not depend on what else is evaluated in the call
+    from bench._common import synthetic_plan
+    from gradeline.geometry.horizontal import _last_at_or_before
+
+    geom = _BENCH_PLAN.setdefault("g", H.solve(synthetic_plan(12), 0.0))
+    rng = np.random.default_rng(seed)
+    s = rng.uniform(geom.start - 5, geom.end + 5, n)
+    s[: min(n, 50)] = rng.choice(np.concatenate([geom.s0, geom.panel_s]), min(n, 50))
+    want = np.maximum(np.searchsorted(geom.s0, s, side="right") - 1, 0)
+    assert np.array_equal(_last_at_or_before(geom.s0, s), want)
+    n_all, e_all, h_all = H.evaluate(geom, s)
+    pick = rng.integers(0, n, min(n, 7))
+    n_one, e_one, h_one = H.evaluate(geom, s[pick])
+    for a, b in ((n_all[pick], n_one), (e_all[pick], e_one), (h_all[pick], h_one)):
+        assert np.array_equal(a, b, equal_nan=True)
+
+
+_BENCH_PLAN: dict = {}
