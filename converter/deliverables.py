@@ -455,6 +455,137 @@ def review_report(solved: SolvedAlignment, opts: ReviewOptions) -> tuple[str, bo
     return text, rev.failed
 
 
+# --------------------------------------------------------------------------- design
+@dataclass(frozen=True, slots=True)
+class DesignOptions:
+    """Design speed, controls and rounding of ``gradeline design``."""
+
+    speed: float
+    speed_unit: str | None = None
+    curbed: bool = False
+    passing: bool = False
+    criteria: str | None = None
+    step: float = 50.0
+    min_length: float | None = None
+
+
+def design_input(
+    path: str,
+    alignment: str | None = None,
+    profile: str | None = None,
+    length_unit: str | None = None,
+    name: str | None = None,
+) -> tuple[Document, Any, Any]:
+    """(document, alignment, profile) to design: a LandXML profile, or a CSV of PVIs
+    (``station,elevation`` rows; stations as numbers or ``12+34.56``; a header
+    row and ``#`` comments are skipped)."""
+    if not path.lower().endswith(".csv"):
+        from gradeline.io import landxml
+
+        if length_unit is not None or name is not None:
+            raise UsageError("--length-unit and --name are for CSV input")
+        doc = landxml.read(path)
+        al = doc.alignment(alignment)
+        return doc, al, al.profile(profile)
+    return _csv_input(path, length_unit or "foot", name)
+
+
+def _csv_input(path: str, length_unit: str, name: str | None) -> tuple[Document, Any, Any]:
+    import csv
+    import math
+
+    from gradeline.errors import InputError
+    from gradeline.geometry.stations import parse_station
+    from gradeline.model import Alignment, Profile, PVISpec, SourceRef
+    from gradeline.model.units import Units
+
+    units = Units(length_unit)
+    station_length = 1000.0 if units.metric else 100.0
+    pvis: list[PVISpec] = []
+    try:
+        with open(path, newline="", encoding="utf-8-sig") as fh:
+            rows = list(csv.reader(fh))
+    except (OSError, UnicodeDecodeError) as err:
+        raise InputError(f"cannot read the file ({err})", SourceRef(path), "CSV") from None
+    for line, row in enumerate(rows, start=1):
+        cells = [c.strip() for c in row]
+        if not cells or not any(cells) or cells[0].startswith("#"):
+            continue
+        if len(cells) < 2:
+            raise InputError("a row needs station and elevation", SourceRef(path, line), "CSV")
+        try:
+            s = parse_station(cells[0], station_length)
+            z = float(cells[1])
+        except (UsageError, ValueError):
+            if not pvis and line == next(i for i, r in enumerate(rows, 1) if any(r)):
+                continue  # the header
+            raise InputError(
+                f"not a station and elevation: {','.join(cells[:2])!r}",
+                SourceRef(path, line),
+                "CSV",
+            ) from None
+        if not (math.isfinite(s) and math.isfinite(z)):
+            raise InputError("station and elevation must be finite", SourceRef(path, line), "CSV")
+        pvis.append(PVISpec(s, z, source=SourceRef(path, line)))
+    if len(pvis) < 2:
+        raise InputError("a profile needs at least two PVIs", SourceRef(path), "CSV")
+    label = name or os.path.splitext(os.path.basename(path))[0]
+    prof = Profile("Design", tuple(pvis), SourceRef(path))
+    al = Alignment(label, pvis[0].station, pvis[-1].station - pvis[0].station, profiles=(prof,))
+    return Document(path, units, (al,)), al, prof
+
+
+def design(doc: Document, al: Any, prof: Any, opts: DesignOptions) -> tuple[Any, Document]:
+    """The design of ``prof`` and a copy of ``doc`` with the designed profile in its place."""
+    from dataclasses import replace
+
+    from gradeline.analysis import design as des
+    from gradeline.analysis import review
+
+    crit = review.load_criteria(opts.criteria, doc.units.metric)
+    speed = opts.speed
+    given = opts.speed_unit or crit.speed_unit
+    if given != crit.speed_unit:
+        speed = speed * review.MPH_TO_KMH if given == "mph" else speed / review.MPH_TO_KMH
+    result = des.design_profile(
+        prof,
+        crit,
+        speed,
+        step=opts.step,
+        passing=opts.passing,
+        curbed=opts.curbed,
+        min_length=opts.min_length,
+        length_unit=doc.units.symbol,
+    )
+    profiles = tuple(result.profile if p is prof else p for p in al.profiles)
+    new_al = replace(al, profiles=profiles)
+    alignments = tuple(new_al if a is al else a for a in doc.alignments)
+    return result, replace(doc, alignments=alignments)
+
+
+def design_report(
+    result: Any, doc: Document, alignment: str, source: str, as_json: bool = False
+) -> str:
+    """The design report, text or JSON; stations labelled as the alignment labels them."""
+    from gradeline.render.design_report import design_payload, design_text
+    from gradeline.render.outputs import json_text
+    from gradeline.solved import solve_alignment
+
+    al = doc.alignment(alignment)
+    solved = solve_alignment(doc, al, al.profile(result.name), need_profile=False)
+    label = solved.stationing.label
+    if as_json:
+        return json_text(design_payload(result, label, source))
+    return design_text(result, label, source)
+
+
+def landxml_bytes(doc: Document) -> bytes:
+    """``doc`` as LandXML 1.2."""
+    from gradeline.io.landxml_write import write_landxml
+
+    return write_landxml(doc)
+
+
 # --------------------------------------------------------------------------- check
 @dataclass(frozen=True, slots=True)
 class CheckOptions:

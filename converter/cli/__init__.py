@@ -32,7 +32,19 @@ CHOICE_OPTIONS = {
 }
 
 #: Command modules of :mod:`gradeline.cli`, in the order of ``--help``.
-COMMANDS = ("info", "table", "dxf", "sheets", "review", "check", "fit", "build", "demo", "curves")
+COMMANDS = (
+    "info",
+    "table",
+    "dxf",
+    "sheets",
+    "review",
+    "design",
+    "check",
+    "fit",
+    "build",
+    "demo",
+    "curves",
+)
 
 
 def build_parser() -> Parser:
