@@ -19,7 +19,7 @@ from typing import Any
 
 from gradeline.errors import GradelineError
 from gradeline.io import landxml
-from gradeline.render.outputs import json_text, refuse_overwrite, write_atomic
+from gradeline.render.outputs import input_name, json_text, refuse_overwrite, write_atomic
 
 __all__ = ["BuildJob", "BuildOptions", "ItemResult", "build", "collect_inputs", "write_index"]
 
@@ -310,6 +310,11 @@ def build(
     return [r for rs in results for r in rs]
 
 
+#: The first word of each line of index.txt: built and clean, built with check
+#: or review findings, not built.
+INDEX_WORDS = {"clean": "built", "findings": "FINDINGS", "failed": "FAILED"}
+
+
 def write_index(results: Sequence[ItemResult], outroot: str) -> tuple[str, str]:
     """The summary index, as JSON and text, written into ``outroot``."""
     root = Path(outroot)
@@ -319,9 +324,18 @@ def write_index(results: Sequence[ItemResult], outroot: str) -> tuple[str, str]:
 
     items = [
         {
-            "file": r.file,
+            "file": input_name(r.file),
             "alignment": r.alignment,
             "profile": r.profile,
+            "status": (
+                "terrain"
+                if r.terrain
+                else "failed"
+                if r.failed
+                else "findings"
+                if r.check_over or r.review_failed
+                else "clean"
+            ),
             "terrain": r.terrain,
             "failed": r.failed,
             "error": r.error,
@@ -343,16 +357,16 @@ def write_index(results: Sequence[ItemResult], outroot: str) -> tuple[str, str]:
     lines = [head, ""]
     for r in results:
         who = (
-            f"{r.file}"
+            f"{input_name(r.file)}"
             + (f" / {r.alignment}" if r.alignment else "")
             + (f" / {r.profile}" if r.profile else "")
         )
         if r.terrain:
-            lines.append(f"terrain {who}")
+            lines.append(f"{'terrain':<9} {who}")
             lines += [f"          note: {n}" for n in r.notes]
             continue
         if r.failed:
-            lines.append(f"FAILED  {who}: {r.error}")
+            lines.append(f"{INDEX_WORDS['failed']:<9} {who}: {r.error}")
             continue
         flags = []
         if r.check_over:
@@ -361,7 +375,8 @@ def write_index(results: Sequence[ItemResult], outroot: str) -> tuple[str, str]:
             flags.append("review: fails")
         elif r.review_failed is False:
             flags.append("review: passes")
-        lines.append(f"ok      {who}" + (f" ({'; '.join(flags)})" if flags else ""))
+        word = INDEX_WORDS["findings" if r.check_over or r.review_failed else "clean"]
+        lines.append(f"{word:<9} {who}" + (f" ({'; '.join(flags)})" if flags else ""))
         lines += [f"          {rel(o)}" for o in r.outputs]
         lines += [f"          note: {n}" for n in r.notes]
     text = "\n".join(lines) + "\n"

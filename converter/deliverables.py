@@ -17,6 +17,7 @@ from typing import TYPE_CHECKING, Any
 
 from gradeline.errors import GradelineError, UsageError
 from gradeline.model import Document
+from gradeline.render.outputs import input_name
 from gradeline.solved import SolvedAlignment, solve, with_surface
 
 if TYPE_CHECKING:
@@ -185,7 +186,7 @@ def _payload(
 
     units = solved.document.units
     return {
-        "file": solved.document.path,
+        "file": input_name(solved.document.path),
         "alignment": solved.alignment.name,
         "profile": solved.profile.name if solved.profile else None,
         "linear_unit": units.linear,
@@ -201,8 +202,18 @@ def _payload(
 def _render(
     solved: SolvedAlignment, fmt: str, columns: Sequence[str], rows: list[dict[str, Any]]
 ) -> str:
+    from gradeline.present.tables import column_decimals
     from gradeline.render.outputs import csv_text, json_text
 
+    decimals = column_decimals(columns, solved.document.units)
+
+    def rounded(value: Any, nd: int | None) -> Any:
+        if nd is None or not isinstance(value, float):
+            return value
+        out = round(value, nd)
+        return 0.0 if out == 0 else out  # never -0.0
+
+    rows = [{c: rounded(r.get(c), decimals[c]) for c in columns} for r in rows]
     if fmt == "json":
         return json_text(_payload(solved, columns, rows))
     return csv_text(rows, columns)

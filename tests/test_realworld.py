@@ -86,7 +86,8 @@ def test_profile_that_stops_short_leaves_blank_rows_not_a_refusal(capsys):
     lines = out.splitlines()
     assert lines[1].startswith("0.0,0+000.000,,") and lines[1].endswith(",POB")
     assert lines[2].endswith(",START")
-    assert lines[-1].startswith("48.601865,0+048.602,,") and lines[-1].endswith(",POE")
+    # the plan's end, 48.601865 m in the file, exported to 4 decimals (README)
+    assert lines[-1].startswith("48.6019,0+048.602,,") and lines[-1].endswith(",POE")
     assert err.count("warning") == 0
     assert main(["table", path, "--at", "0+000.000"]) == 0
     out, err = capsys.readouterr()
@@ -101,7 +102,7 @@ def test_ends_within_rounding_are_one_end(capsys):
     assert "to 1+266.246" in capsys.readouterr().out
     assert main(["table", path, "--at", "1+266.246"]) == 0
     row = capsys.readouterr().out.splitlines()[1]
-    assert row.startswith("1266.246171,1+266.246,") and row.endswith("END;POE")
+    assert row.startswith("1266.2462,1+266.246,") and row.endswith("END;POE")  # 4 decimals
 
 
 def test_build_the_folder_with_its_terrain(tmp_path, capsys):

@@ -10,7 +10,11 @@ NAME = "demo"
 
 def add_parser(sub: Any) -> None:
     """Register the command."""
-    p = sub.add_parser(NAME, help="build everything from the bundled samples")
+    p = sub.add_parser(
+        NAME,
+        help="build everything from the bundled samples (exit 0 when all was built; "
+        "the samples fail a check on purpose)",
+    )
     p.add_argument(
         "-o",
         "--output",
@@ -52,4 +56,16 @@ def run(args: argparse.Namespace) -> int:
             ),
         ),
     ]
-    return run_jobs(jobs, args.output, args.jobs or 1)
+    import os
+    import sys
+
+    code = run_jobs(jobs, args.output, args.jobs or (os.cpu_count() or 1))
+    if code == 1:
+        # findings are part of the demonstration, not a failure of it
+        sys.stdout.write(
+            "\nEverything was built. The samples are an invented scenario that fails "
+            "some checks on purpose (the FINDINGS lines above), to show how findings "
+            "are reported.\n"
+        )
+        return 0
+    return code

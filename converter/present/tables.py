@@ -121,6 +121,36 @@ def column_units(columns: Sequence[str], units) -> dict[str, str | None]:
     return out
 
 
+#: Decimals of exported numbers (CSV and JSON tables), by quantity: lengths,
+#: stations, elevations and coordinates 4 (0.0001 ft or m); grades in percent 6;
+#: K 3; angles and directions 6 (decimal degrees: 0.004"). Documented in README.
+DECIMALS = {"length": 4, "percent": 6, "K": 3, "angle": 6}
+
+
+def column_decimals(columns: Sequence[str], units) -> dict[str, int | None]:
+    """Decimals each column is rounded to on export (None for text columns).
+
+    Examples
+    --------
+    >>> from gradeline.model.units import Units
+    >>> column_decimals(["station", "grade", "K", "delta", "point"], Units("foot"))
+    {'station': 4, 'grade': 6, 'K': 3, 'delta': 6, 'point': None}
+    """
+    out: dict[str, int | None] = {}
+    for c, unit in column_units(columns, units).items():
+        if unit is None:
+            out[c] = None
+        elif unit == "percent":
+            out[c] = DECIMALS["percent"]
+        elif c == "K":
+            out[c] = DECIMALS["K"]
+        elif c in ("delta", "direction", "degree_of_curve"):
+            out[c] = DECIMALS["angle"]
+        else:
+            out[c] = DECIMALS["length"]
+    return out
+
+
 def table_stations(
     ctx: SolvedAlignment,
     interval: float | None = None,

@@ -17,7 +17,7 @@ from typing import Any
 from gradeline.errors import UsageError
 from gradeline.present.labels import data_number
 
-__all__ = ["csv_text", "json_text", "refuse_overwrite", "write_atomic"]
+__all__ = ["csv_text", "input_name", "json_text", "refuse_overwrite", "write_atomic"]
 
 
 def _cell(value: Any) -> Any:
@@ -43,6 +43,12 @@ def csv_text(rows: Iterable[Mapping[str, Any]], columns: Sequence[str]) -> str:
             out.append("" if v is None else _float_text(v) if isinstance(v, float) else v)
         writer.writerow(out)
     return buf.getvalue()
+
+
+def input_name(path: str) -> str:
+    """How deliverables name their input: its file name, the same on every machine
+    and in every folder (so two builds of the same files are byte-identical)."""
+    return os.path.basename(path) or path
 
 
 def json_text(payload: Any) -> str:

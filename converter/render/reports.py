@@ -11,6 +11,7 @@ from typing import Any
 
 from gradeline.analysis.review import Review
 from gradeline.present import labels
+from gradeline.render.outputs import input_name
 from gradeline.solved import SolvedAlignment
 
 __all__ = ["review_payload", "review_text"]
@@ -43,7 +44,7 @@ def review_text(ctx: SolvedAlignment, rev: Review) -> str:
     st = ctx.stationing
     lines = [
         review_summary(rev),
-        f"file {ctx.document.path}, alignment {ctx.alignment.name!r}, profile "
+        f"file {input_name(ctx.document.path)}, alignment {ctx.alignment.name!r}, profile "
         f"{ctx.profile.name if ctx.profile else '-'!r}",
         f"design speed {rev.speed:g} {labels.speed_unit_text(rev.speed_unit)}; "
         f"controls: {rev.criteria.name}; "
@@ -112,7 +113,7 @@ def review_payload(ctx: SolvedAlignment, rev: Review) -> dict[str, Any]:
     return {
         "summary": review_summary(rev),
         "failed": rev.failed,
-        "file": ctx.document.path,
+        "file": input_name(ctx.document.path),
         "alignment": ctx.alignment.name,
         "profile": ctx.profile.name if ctx.profile else None,
         "design_speed": rev.speed,
@@ -206,7 +207,7 @@ def check_text(
     units = doc.units
     lines = [
         check_summary(findings, drawing),
-        f"file {doc.path}; tolerances: {tol.distance:g} {units.symbol} for distances, "
+        f"file {input_name(doc.path)}; tolerances: {tol.distance:g} {units.symbol} for distances, "
         f'{math.degrees(tol.angle) * 3600:g}" for angles',
         "",
     ]
@@ -268,7 +269,7 @@ def check_payload(
     """The cross-check as JSON-ready data."""
     out: dict[str, Any] = {
         "summary": check_summary(findings, drawing),
-        "file": doc.path,
+        "file": input_name(doc.path),
         "tolerance": tol.distance,
         "angle_tolerance_seconds": math.degrees(tol.angle) * 3600,
         "findings": [
