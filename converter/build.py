@@ -122,9 +122,11 @@ def _deliverable(name: str) -> tuple[str, str | bytes, Any]:
         findings = dl.check_findings(solved, tol)
         text, _ = dl.check_report(doc, findings, tol, check_opts)
         return name, text, sum(f.verdict == "over" for f in findings)
-    if name == "review.txt":
-        text, failed = dl.review_report(solved, dl.ReviewOptions(opts.speed, opts.speed_unit))
-        return name, text, failed
+    if name == "review.txt":  # with its picture, review.pdf, from the same review
+        text, failed, picture = dl.review_outputs(
+            solved, dl.ReviewOptions(opts.speed, opts.speed_unit)
+        )
+        return name, text, (failed, picture)
     raise ValueError(name)
 
 
@@ -198,7 +200,11 @@ def _build_alignment(
     for name in names:  # written here, in a fixed order, each atomically
         _write(outdir / name, done[name][0], inputs, written)
     over = done["check.txt"][1]
-    review_failed = done["review.txt"][1] if "review.txt" in done else None
+    review_failed = None
+    if "review.txt" in done:
+        review_failed, picture = done["review.txt"][1]
+        if picture is not None:
+            _write(outdir / "review.pdf", picture, inputs, written)
     if solved.horizontal is not None and solved.horizontal.findings:
         notes.append(f"{len(solved.horizontal.findings)} plan geometry findings (see check.txt)")
     return ItemResult(doc.path, al.name, tuple(written), None, over, review_failed, tuple(notes))

@@ -441,9 +441,16 @@ class ReviewOptions:
 
 def review_report(solved: SolvedAlignment, opts: ReviewOptions) -> tuple[str, bool]:
     """The review report (text or JSON) and whether anything fails (needs a profile)."""
-    from gradeline.analysis import review
     from gradeline.render.outputs import json_text
     from gradeline.render.reports import review_payload, review_text
+
+    rev = _review(solved, opts)
+    text = json_text(review_payload(solved, rev)) if opts.json else review_text(solved, rev)
+    return text, rev.failed
+
+
+def _review(solved: SolvedAlignment, opts: ReviewOptions) -> Any:
+    from gradeline.analysis import review
 
     units = solved.document.units
     crit = review.load_criteria(opts.criteria, units.metric)
@@ -451,7 +458,7 @@ def review_report(solved: SolvedAlignment, opts: ReviewOptions) -> tuple[str, bo
     given = opts.speed_unit or crit.speed_unit
     if given != crit.speed_unit:  # the file's units decide the controls; convert the speed
         speed = speed * review.MPH_TO_KMH if given == "mph" else speed / review.MPH_TO_KMH
-    rev = review.review_profile(
+    return review.review_profile(
         solved.geometry,
         crit,
         speed,
@@ -462,8 +469,6 @@ def review_report(solved: SolvedAlignment, opts: ReviewOptions) -> tuple[str, bo
         horizontal_curves=solved.curves,
         e_max=opts.e_max,
     )
-    text = json_text(review_payload(solved, rev)) if opts.json else review_text(solved, rev)
-    return text, rev.failed
 
 
 # --------------------------------------------------------------------------- design
@@ -595,6 +600,20 @@ def landxml_bytes(doc: Document) -> bytes:
     from gradeline.io.landxml_write import write_landxml
 
     return write_landxml(doc)
+
+
+def review_outputs(solved: SolvedAlignment, opts: ReviewOptions) -> tuple[str, bool, bytes | None]:
+    """The review report, whether anything fails, and the review as a one-page PDF
+    picture (None without a profile), from one review."""
+    from gradeline.present.review_chart import review_chart
+    from gradeline.render.outputs import json_text
+    from gradeline.render.reports import review_payload, review_text
+    from gradeline.sheets.review_page import review_pdf
+
+    rev = _review(solved, opts)
+    text = json_text(review_payload(solved, rev)) if opts.json else review_text(solved, rev)
+    chart = review_chart(solved, rev)
+    return text, rev.failed, None if chart is None else review_pdf(chart)
 
 
 # --------------------------------------------------------------------------- check

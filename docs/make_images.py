@@ -108,6 +108,24 @@ def sheet_pages() -> None:
         _pdf_png(pdf2, 4, docs / "sheet-equation.png", 80, (13.5, 2.5, 7.0, 13.5))
 
 
+def review_page() -> None:
+    """The review picture: the sample bypass reviewed at 60 mph, above its design
+    speed, so that some ranges lack sight distance (needs pdftoppm)."""
+    import tempfile
+
+    from gradeline.deliverables import ReviewOptions, review_outputs
+    from gradeline.deliverables import open_alignment as select
+
+    bypass = select(ROOT / "samples" / "orrin-vale-bypass.xml", "Orrin Vale Bypass")
+    _, _, pdf_bytes = review_outputs(bypass, ReviewOptions(60.0))
+    assert pdf_bytes is not None
+    with tempfile.TemporaryDirectory() as tmp:
+        pdf = Path(tmp) / "r.pdf"
+        pdf.write_bytes(pdf_bytes)
+        _pdf_png(pdf, 1, ROOT / "docs" / "review.png", 80)
+
+
 if __name__ == "__main__":
     main()
     sheet_pages()
+    review_page()

@@ -193,3 +193,23 @@ def test_bad_inputs_are_one_line(tmp_path, capsys):
     assert err.count("\n") == 1 and "bad.csv:3" in err
     assert main(["design", str(US_SAMPLE), "--speed", "50", "--round", "-5"]) == 2
     assert main(["design", str(US_SAMPLE), "--speed", "50", "--build", str(tmp_path)]) == 2
+
+
+def test_review_picture_in_build(tmp_path, capsys):
+    # the review page of a build: one page, its three panels, the verdict, every
+    # glyph on the page (read back with pdfplumber)
+    pdfplumber = pytest.importorskip("pdfplumber")
+    out = tmp_path / "b"
+    assert main(["build", str(US_SAMPLE), "-o", str(out), "--speed", "50", "--jobs", "1"]) == 1
+    capsys.readouterr()
+    path = out / "orrin-vale-bypass" / "kettle-lane" / "review.pdf"
+    with pdfplumber.open(path) as pdf:
+        assert len(pdf.pages) == 1
+        page = pdf.pages[0]
+        text = page.extract_text()
+        for title in ("Finished grade", "Available sight distance", "K provided"):
+            assert title in text
+        assert "The review FAILS" in text and "1 of 1 horizontal curves" in text
+        for ch in page.chars:
+            assert 0 <= ch["x0"] < ch["x1"] <= page.width
+            assert 0 <= ch["top"] < ch["bottom"] <= page.height

@@ -427,6 +427,9 @@ class Review:
     deficiencies: tuple[Deficiency, ...]
     notes: tuple[str, ...] = field(default=())
     radius_checks: tuple[tuple[float, Check], ...] = ()  # (PC/TS station, check)
+    #: required stopping sight distance at each sight-distance station, travelling
+    #: up-station and down-station (grade-corrected); None without a profile
+    required: tuple[np.ndarray, np.ndarray] | None = None
 
     @property
     def failed(self) -> bool:
@@ -522,4 +525,15 @@ def review_profile(
         + _runs(sd.stations, sd.headlight_behind, req_behind, "headlight", "behind")
     )
     notes_t = tuple(notes)
-    return Review(crit, speed, crit.speed_unit, ssd, curves, sd, tuple(defs), notes_t, radii)
+    return Review(
+        crit,
+        speed,
+        crit.speed_unit,
+        ssd,
+        curves,
+        sd,
+        tuple(defs),
+        notes_t,
+        radii,
+        (req_ahead, req_behind),
+    )
