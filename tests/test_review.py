@@ -218,3 +218,22 @@ def test_radius_check_flags_a_tight_curve(capsys):
     # 65 mph: R = 65^2 / (15 (0.08 + 0.11)) = 1482 ft; the sample curves are 1200 and 1500 ft
     assert [r["verdict"] for r in radii] == ["fail", "pass"]
     assert radii[0]["required_radius"] == pytest.approx(65**2 / (15 * 0.19))
+
+
+def test_report_wording_no_negative_zero_and_none_for_no_length(capsys):
+    # issue 17: a check whose formula gives no length prints "none", not 0.00;
+    # no "-0.00" in reports; horizontal curves named by the CoordGeom elements the
+    # check report numbers (common practice of cross-referencing, no outside source)
+    assert (
+        main(["review", str(US_SAMPLE), "--alignment", "Orrin Vale Bypass", "--speed", "50"]) == 0
+    )
+    text = capsys.readouterr().out
+    assert "S < L: the sight line ends on the curve" in text
+    curve5 = text.split("curve 5")[1].split("\n\n")[0]
+    assert "none" in curve5 and " 0.00 " not in curve5
+    assert "curve 1 (CoordGeom elements 2 to 4) at 19+00.00" in text
+    main(["check", str(US_SAMPLE), "--alignment", "Orrin Vale Bypass"])
+    check = capsys.readouterr().out
+    assert "Spiral 2 at 19+00.00" in check and "Curve 3 at 21+50.00" in check
+    for report in (text, check):
+        assert "-0.00" not in report

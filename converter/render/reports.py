@@ -23,6 +23,33 @@ def _num(value: float, decimals: int = 2) -> str:
     return f"{value:.{decimals}f}"
 
 
+def _signed(value: float, decimals: int) -> str:
+    """``+1.25`` / ``-0.40``; a value that rounds to zero prints ``+0.00``, never ``-0.00``."""
+    text = f"{value:+.{decimals}f}"
+    return "+" + text[1:] if float(text) == 0 else text
+
+
+def _elements(ctx: SolvedAlignment, start: float, end: float) -> str:
+    """The CoordGeom elements (numbered as the check numbers them) from ``start`` to ``end``."""
+    hz = ctx.horizontal
+    if hz is None:
+        return ""
+    nums = sorted(
+        {g.index + 1 for g in hz.elements if start - 1e-6 <= g.start_station < end - 1e-6}
+    )
+    if not nums:
+        return ""
+    return f"element {nums[0]}" if len(nums) == 1 else f"elements {nums[0]} to {nums[-1]}"
+
+
+#: What the two cases of the sight-distance formulas mean, printed under the review's header.
+SIGHT_CASES = (
+    "S < L: the sight line ends on the curve (L = A S^2 / C); S > L: it reaches past the "
+    "curve onto the tangents (L = 2 S - C / A). A check whose formula gives no length "
+    "(small A) is met by the grades alone and shows 'none'."
+)
+
+
 def review_summary(rev: Review) -> str:
     """The first line: what failed, out of how much."""
     return labels.review_headline(
@@ -50,6 +77,7 @@ def review_text(ctx: SolvedAlignment, rev: Review) -> str:
         f"controls: {rev.criteria.name}; "
         f"stopping sight distance {rev.ssd:g} {lu} on level grade "
         f"(eye {rev.criteria.eye_height:g} {lu}, object {rev.criteria.object_height:g} {lu})",
+        SIGHT_CASES,
         "",
     ]
     for cr in rev.curves:
@@ -65,19 +93,25 @@ def review_text(ctx: SolvedAlignment, rev: Review) -> str:
         )
         for ch in cr.checks:
             margin = ch.margin
-            m = "-" if not math.isfinite(margin) else f"{margin:+.2f}"
+            m = "-" if not math.isfinite(margin) else _signed(margin, 2)
+            required = _num(ch.required)
+            if not ch.at_most and ch.required <= 0:
+                required, m = "none", "-"
             lines.append(
-                f"  {ch.name:<{width}}  {_num(ch.required):>10}  {_num(ch.provided):>10}  "
+                f"  {ch.name:<{width}}  {required:>10}  {_num(ch.provided):>10}  "
                 f"{m:>10}  {ch.verdict.upper() if ch.verdict != 'pass' else 'pass'}"
                 + (f"  ({ch.note})" if ch.note else "")
             )
         lines.append("")
     if rev.radius_checks:
         lines.append("horizontal curves:")
+        ends = {c.start_station: c.end_station for c in ctx.curves}
         for i, (station, ch) in enumerate(rev.radius_checks, start=1):
+            span = _elements(ctx, station, ends.get(station, station + 1e-3))
             lines.append(
-                f"  curve {i} at {st.label(station)}: {ch.name}: required R {ch.required:.1f} "
-                f"{lu}, provided {ch.provided:.1f} {lu}, margin {ch.margin:+.1f}  "
+                f"  curve {i}{f' (CoordGeom {span})' if span else ''} at {st.label(station)}: "
+                f"{ch.name}: required R {ch.required:.1f} "
+                f"{lu}, provided {ch.provided:.1f} {lu}, margin {_signed(ch.margin, 1)}  "
                 f"{'pass' if ch.verdict == 'pass' else ch.verdict.upper()}"
             )
         lines.append("")
@@ -162,6 +196,9 @@ def review_payload(ctx: SolvedAlignment, rev: Review) -> dict[str, Any]:
         "horizontal_curves": [
             {
                 "number": i,
+                "coordgeom_elements": _elements(
+                    ctx, s, {c.start_station: c.end_station for c in ctx.curves}.get(s, s + 1e-3)
+                ),
                 "pc_station": s,
                 "pc_label": st.label(s),
                 "name": ch.name,
@@ -233,7 +270,7 @@ def check_text(
             body = (
                 f"{f.quantity}: stated {_val(f.stated, f.unit)}, "
                 f"computed {_val(f.computed, f.unit)}, "
-                f"difference {f.difference:+.4f}" + (f" {f.unit}" if f.unit else "")
+                f"difference {_signed(f.difference, 4)}" + (f" {f.unit}" if f.unit else "")
             )
         else:
             body = f"{f.quantity}: {f.message}"
@@ -256,7 +293,9 @@ def check_text(
         if not d.over:
             lines.append(f"  ok    within {tol.distance:g} {units.symbol} everywhere it is drawn")
         for a, b, w in d.over:
-            lines.append(f"  OVER  {lab(a)} to {lab(b)}: deviation up to {w:+.4f} {units.symbol}")
+            lines.append(
+                f"  OVER  {lab(a)} to {lab(b)}: deviation up to {_signed(w, 4)} {units.symbol}"
+            )
         for a, b in d.uncovered:
             lines.append(f"  OVER  {lab(a)} to {lab(b)}: not covered by the drawing")
     lines += ["", f"CAUTION: {labels.CAUTION}"]
