@@ -21,10 +21,14 @@ def _tree(root):
 
 def test_demo_builds_everything(tmp_path, capsys):
     out = tmp_path / "demo"
-    code = main(["demo", "-o", str(out)])
+    code = main(["demo", "-o", str(out), "--jobs", "1"])
     text = capsys.readouterr().out
-    assert code in (0, 1)
+    assert code == 0  # everything was built; the samples' findings are on purpose
     assert text.startswith("3 alignments built, 0 failed")
+    assert "fails some checks on purpose" in text
+    assert {
+        ln.split()[0] for ln in text.splitlines() if ln and not ln.startswith((" ", "3 ", "Every"))
+    } <= {"built", "FINDINGS"}
     index = json.loads((out / "index.json").read_text())
     for item in index["items"]:
         names = {os.path.basename(o) for o in item["outputs"]}
@@ -36,6 +40,7 @@ def test_demo_builds_everything(tmp_path, capsys):
             "table.csv",
             "check.txt",
             "review.txt",
+            "review.pdf",
         }
     table = (out / "orrin-vale-bypass" / "orrin-vale-bypass" / "table.csv").read_text()
     assert table.splitlines()[0].endswith(",ground,cut_fill")
@@ -133,3 +138,20 @@ def test_deliverables_side_by_side_give_the_same_bytes(tmp_path):
         assert code in (0, 1)
         trees.append(_tree(out))
     assert len(trees[0]) >= 8 and trees[0] == trees[1]
+
+
+def test_builds_in_different_folders_are_byte_identical(tmp_path, capsys):
+    # issue 17: deliverables name inputs by file name, so the same samples built from
+    # two different folders into two different folders give the same bytes
+    import shutil
+
+    trees = []
+    for k in range(2):
+        src = tmp_path / f"copy{k}" / ("deep" * (k + 1))
+        src.mkdir(parents=True)
+        shutil.copy(US_SAMPLE, src / US_SAMPLE.name)
+        out = tmp_path / f"out{k}" / ("x" * (k + 1))
+        assert main(["build", str(src / US_SAMPLE.name), "-o", str(out), "--jobs", "1"]) in (0, 1)
+        capsys.readouterr()
+        trees.append(_tree(out))
+    assert trees[0] == trees[1] and len(trees[0]) > 8
