@@ -449,15 +449,25 @@ def review_report(solved: SolvedAlignment, opts: ReviewOptions) -> tuple[str, bo
     return text, rev.failed
 
 
+def criteria_and_speed(
+    units: Any, criteria: str | None, speed: float, speed_unit: str | None
+) -> tuple[Any, float]:
+    """The design controls for the file's units and the speed in their speed unit
+    (the file's units decide the controls; a speed given in the other unit is converted)."""
+    from gradeline.analysis import review
+
+    crit = review.load_criteria(criteria, units.metric)
+    given = speed_unit or crit.speed_unit
+    if given != crit.speed_unit:
+        speed = speed * review.MPH_TO_KMH if given == "mph" else speed / review.MPH_TO_KMH
+    return crit, speed
+
+
 def _review(solved: SolvedAlignment, opts: ReviewOptions) -> Any:
     from gradeline.analysis import review
 
     units = solved.document.units
-    crit = review.load_criteria(opts.criteria, units.metric)
-    speed = opts.speed
-    given = opts.speed_unit or crit.speed_unit
-    if given != crit.speed_unit:  # the file's units decide the controls; convert the speed
-        speed = speed * review.MPH_TO_KMH if given == "mph" else speed / review.MPH_TO_KMH
+    crit, speed = criteria_and_speed(units, opts.criteria, opts.speed, opts.speed_unit)
     return review.review_profile(
         solved.geometry,
         crit,
@@ -556,13 +566,8 @@ def design(doc: Document, al: Any, prof: Any, opts: DesignOptions) -> tuple[Any,
     from dataclasses import replace
 
     from gradeline.analysis import design as des
-    from gradeline.analysis import review
 
-    crit = review.load_criteria(opts.criteria, doc.units.metric)
-    speed = opts.speed
-    given = opts.speed_unit or crit.speed_unit
-    if given != crit.speed_unit:
-        speed = speed * review.MPH_TO_KMH if given == "mph" else speed / review.MPH_TO_KMH
+    crit, speed = criteria_and_speed(doc.units, opts.criteria, opts.speed, opts.speed_unit)
     result = des.design_profile(
         prof,
         crit,

@@ -23,6 +23,7 @@ __all__ = [
     "add_ground",
     "add_output",
     "add_report",
+    "add_speed",
     "drawing_mapping",
     "emit",
     "layer_names",
@@ -105,6 +106,23 @@ def add_report(p: argparse.ArgumentParser) -> None:
     p.add_argument(
         "-o", "--output", metavar="PATH", help="write the report here instead of standard output"
     )
+
+
+def add_speed(p: argparse.ArgumentParser, criteria_help: str = "TOML design controls") -> None:
+    """--speed, --units, --curbed, --passing and --criteria (review and design)."""
+    p.add_argument("--speed", type=float, required=True, metavar="V", help="design speed")
+    p.add_argument(
+        "--units",
+        choices=("mph", "kmh"),
+        help="unit of --speed (default: mph for files in feet, kmh for metres)",
+    )
+    p.add_argument(
+        "--curbed", action="store_true", help="curbed section: flag drainage on flat curves"
+    )
+    p.add_argument(
+        "--passing", action="store_true", help="also check passing sight distance on crests"
+    )
+    p.add_argument("--criteria", metavar="FILE", help=criteria_help)
 
 
 def with_ground(solved: SolvedAlignment, args: argparse.Namespace) -> SolvedAlignment:

@@ -6,7 +6,7 @@ import argparse
 import os
 from typing import Any
 
-from gradeline.cli._common import emit, warn, write_file
+from gradeline.cli._common import add_speed, emit, write_file
 from gradeline.errors import UsageError
 
 NAME = "design"
@@ -33,18 +33,7 @@ def add_parser(sub: Any) -> None:
     p.add_argument("file", metavar="FILE", help="LandXML file, or CSV of station,elevation")
     p.add_argument("--alignment", metavar="NAME", help="alignment (LandXML with several)")
     p.add_argument("--profile", metavar="NAME", help="profile (ProfAlign) to design")
-    p.add_argument("--speed", type=float, required=True, metavar="V", help="design speed")
-    p.add_argument(
-        "--units",
-        choices=("mph", "kmh"),
-        help="unit of --speed (default: mph for files in feet, kmh for metres)",
-    )
-    p.add_argument(
-        "--curbed", action="store_true", help="curbed section: flag K above the drainage limit"
-    )
-    p.add_argument(
-        "--passing", action="store_true", help="size crests for passing sight distance too"
-    )
+    add_speed(p)
     p.add_argument(
         "--round",
         metavar="STEP",
@@ -52,7 +41,6 @@ def add_parser(sub: Any) -> None:
         help="round lengths up to this step (default 50 ft / 10 m; 'station': 100)",
     )
     p.add_argument("--min-length", type=float, metavar="L", help="shortest curve to use")
-    p.add_argument("--criteria", metavar="FILE", help="TOML design controls")
     p.add_argument(
         "--length-unit",
         choices=("foot", "USSurveyFoot", "meter"),
@@ -128,5 +116,4 @@ def run(args: argparse.Namespace) -> int:
         code = run_jobs([BuildJob(args.output, opts)], args.build, os.cpu_count() or 1)
         if code == 2:
             return 2
-    warn([])
     return 0 if design.complete else 1

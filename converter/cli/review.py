@@ -5,7 +5,7 @@ from __future__ import annotations
 import argparse
 from typing import Any
 
-from gradeline.cli._common import add_common, add_report, emit, warn
+from gradeline.cli._common import add_common, add_report, add_speed, emit, warn
 
 NAME = "review"
 
@@ -27,21 +27,7 @@ def add_parser(sub: Any) -> None:
         ),
     )
     add_common(p)
-    p.add_argument("--speed", type=float, required=True, metavar="V", help="design speed")
-    p.add_argument(
-        "--units",
-        choices=("mph", "kmh"),
-        help="unit of --speed (default: mph for files in feet, kmh for metres)",
-    )
-    p.add_argument(
-        "--curbed", action="store_true", help="curbed section: flag drainage on flat curves"
-    )
-    p.add_argument(
-        "--passing", action="store_true", help="also check passing sight distance on crests"
-    )
-    p.add_argument(
-        "--criteria", metavar="FILE", help="TOML design controls (see converter/criteria/)"
-    )
+    add_speed(p, "TOML design controls (see converter/criteria/)")
     p.add_argument(
         "--emax",
         type=float,
