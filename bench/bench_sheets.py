@@ -1,6 +1,6 @@
 """Benchmark: PDF plan-and-profile sheets of a 50-mile alignment at 1" = 50'.
 
-Run: ``python bench/bench_sheets.py [--quick]``. Prints, for sets of 10, 50 and
+Run: ``python bench/bench_sheets.py [--quick]``. Prints, for sets of 10, 50, 100 and
 200 plan groups (line, spiral, arc, spiral) and their profiles: pages, the time
 of ``render_sheets`` and, as the baseline measured in the same run, the time of
 a bare reportlab canvas replaying exactly the drawing operations the product
@@ -138,7 +138,7 @@ def alignment(groups: int):
 
 
 def main() -> None:
-    sizes = (10, 50) if "--quick" in sys.argv else (10, 50, 200)
+    sizes = (10, 50) if "--quick" in sys.argv else (10, 50, 100, 200)
     opts = SheetOptions(size="ansi-d", scale=50, project="Benchmark", date="2026-11-30")
     print(
         f"{'groups':>6} {'miles':>6} {'pages':>6} {'product s':>10} {'bare s':>8} "

@@ -233,8 +233,9 @@ def test_table_gains_ground_and_cut_fill(capsys):
     assert list(rows[0])[-2:] == ["ground", "cut_fill"]
     for r in rows:
         if r["ground"]:
+            # each column is exported to 4 decimals (README): within two roundings
             assert float(r["cut_fill"]) == pytest.approx(
-                float(r["elevation"]) - float(r["ground"]), abs=2e-6
+                float(r["elevation"]) - float(r["ground"]), abs=1.5e-4
             )
     assert any(r["ground"] == "" for r in rows)  # the pond
 
