@@ -588,13 +588,11 @@ def design_report(
     result: Any, doc: Document, alignment: str, source: str, as_json: bool = False
 ) -> str:
     """The design report, text or JSON; stations labelled as the alignment labels them."""
+    from gradeline.geometry.stations import Stationing
     from gradeline.render.design_report import design_payload, design_text
     from gradeline.render.outputs import json_text
-    from gradeline.solved import solve_alignment
 
-    al = doc.alignment(alignment)
-    solved = solve_alignment(doc, al, al.profile(result.name), need_profile=False)
-    label = solved.stationing.label
+    label = Stationing(doc.units, doc.alignment(alignment).equations).label
     if as_json:
         return json_text(design_payload(result, label, source))
     return design_text(result, label, source)

@@ -143,7 +143,7 @@ def _controls(
     out: list[Control] = []
     if a_pct < 0:  # crest
         c = crit.crest_constant
-        case = "S < L" if a * ssd * ssd / c >= ssd else "S > L"
+        case = review.sight_case(a, ssd, c)
         formula = f"L = A S^2 / {c:g}" if case == "S < L" else f"L = 2 S - {c:g} / A"
         out.append(
             Control(
@@ -157,10 +157,7 @@ def _controls(
         if passing:
             psd = crit.psd(speed)
             if psd is not None:
-                cp = (
-                    200.0
-                    * (math.sqrt(crit.eye_height) + math.sqrt(crit.passing_object_height)) ** 2
-                )
+                cp = crit.passing_constant
                 out.append(
                     Control(
                         f"passing sight distance {psd:g} {lu}",
@@ -170,7 +167,7 @@ def _controls(
                 )
     else:  # sag
         den = crit.sag_denominator(ssd)
-        case = "S < L" if a * ssd * ssd / den >= ssd else "S > L"
+        case = review.sight_case(a, ssd, den)
         formula = (
             f"L = A S^2 / ({crit.sag_constant:g} + {crit.sag_per_distance:g} S)"
             if case == "S < L"

@@ -104,6 +104,11 @@ class Criteria:
         """200 (sqrt h1 + sqrt h2)^2: 2158 ft with 3.5/2.0 ft, 658 m with 1.08/0.60 m."""
         return 200.0 * (math.sqrt(self.eye_height) + math.sqrt(self.object_height)) ** 2
 
+    @property
+    def passing_constant(self) -> float:
+        """200 (sqrt h1 + sqrt h2)^2 with the passing object height: 2800 ft (3.5/3.5 ft)."""
+        return 200.0 * (math.sqrt(self.eye_height) + math.sqrt(self.passing_object_height)) ** 2
+
     def sag_denominator(self, s: float) -> float:
         """200 (h + S tan(beta)) as the published formula writes it.
 
@@ -217,6 +222,11 @@ def design_k_sag(crit: Criteria, ssd: float) -> float:
     return _round_k(ssd**2 / crit.sag_denominator(ssd), crit)
 
 
+def sight_case(a_pct: float, s: float, constant: float) -> str:
+    """ "S < L" when the sight line S ends on the curve (A S^2 / C >= S), else "S > L"."""
+    return "S < L" if abs(a_pct) * s * s / constant >= s else "S > L"
+
+
 def crest_length(a_pct: float, s: float, constant: float) -> float:
     """Minimum crest length for sight distance S: A S^2/C when S < L, else 2S - C/A."""
     a = abs(a_pct)
@@ -306,7 +316,7 @@ def check_curve(
     )
     if curve.curve_type == "crest":
         need = crest_length(a, ssd, crit.crest_constant)
-        case = "S < L" if a * ssd * ssd / crit.crest_constant >= ssd else "S > L"
+        case = sight_case(a, ssd, crit.crest_constant)
         out.append(
             Check(
                 f"stopping sight distance {ssd:g} {lu} ({case})",
@@ -322,11 +332,7 @@ def check_curve(
         if passing:
             psd = crit.psd(speed)
             if psd is not None:
-                cp = (
-                    200.0
-                    * (math.sqrt(crit.eye_height) + math.sqrt(crit.passing_object_height)) ** 2
-                )
-                need = crest_length(a, psd, cp)
+                need = crest_length(a, psd, crit.passing_constant)
                 out.append(
                     Check(
                         f"passing sight distance {psd:g} {lu}",
@@ -338,7 +344,7 @@ def check_curve(
                 )
     elif curve.curve_type == "sag":
         need = sag_length(a, ssd, crit)
-        case = "S < L" if a * ssd * ssd / crit.sag_denominator(ssd) >= ssd else "S > L"
+        case = sight_case(a, ssd, crit.sag_denominator(ssd))
         out.append(
             Check(
                 f"headlight sight distance {ssd:g} {lu} ({case})",

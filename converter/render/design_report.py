@@ -19,7 +19,7 @@ STATUS_TEXT = {
 }
 
 
-def _station(design: ProfileDesign, s: float, label) -> str:
+def _station(s: float, label) -> str:
     return label(s) if label is not None else f"{s:.2f}"
 
 
@@ -52,7 +52,7 @@ def design_text(design: ProfileDesign, station_label=None, source: str = "") -> 
 def _curve_lines(design: ProfileDesign, c: CurveDesign, station_label) -> list[str]:
     lu = design.length_unit
     head = (
-        f"PVI {c.index} at {_station(design, c.station, station_label)}, elevation "
+        f"PVI {c.index} at {_station(c.station, station_label)}, elevation "
         f"{c.elevation:.2f}: grades {100 * c.grade_in:+.3f} % -> {100 * c.grade_out:+.3f} %, "
         f"A = {c.a_pct:+.3f} % ({c.curve_type})"
     )
@@ -98,7 +98,7 @@ def design_payload(design: ProfileDesign, station_label=None, source: str = "") 
             {
                 "pvi": c.index,
                 "station": r(c.station),
-                "station_label": _station(design, c.station, station_label),
+                "station_label": _station(c.station, station_label),
                 "elevation": r(c.elevation),
                 "grade_in_pct": r(100 * c.grade_in, 6),
                 "grade_out_pct": r(100 * c.grade_out, 6),
