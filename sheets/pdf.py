@@ -91,19 +91,13 @@ def _style(c, role: str, f: float) -> None:
 
 
 def _inside(paper: Text, vp: Viewport) -> bool:
-    """Whether the text box lies inside ``vp`` (exactly as its numpy corners say)."""
+    """Whether the text box lies inside ``vp``."""
     # a quick bound first: the box lies within its reach of its anchor point
     reach = paper.width + paper.height
     x0, y0, x1, y1 = vp.x, vp.y, vp.x + vp.w, vp.y + vp.h
     if x0 + reach < paper.x < x1 - reach and y0 + reach < paper.y < y1 - reach:
         return True
-    box = paper.corners()
-    return bool(
-        box[:, 0].min() >= x0
-        and box[:, 0].max() <= x1
-        and box[:, 1].min() >= y0
-        and box[:, 1].max() <= y1
-    )
+    return _within(paper.corner_points(), (x0, y0, x1, y1))
 
 
 def _text(c, item: Text, xf: _Xform, vp: Viewport | None) -> None:
@@ -123,7 +117,14 @@ def _paper_text(c, paper: Text, vp: Viewport | None, bold: bool = False) -> None
     c.restoreState()
 
 
+def _within(points, box: tuple[float, float, float, float]) -> bool:
+    """Whether every point lies in ``box`` (NaN never does)."""
+    x0, y0, x1, y1 = box
+    return all(x0 <= x <= x1 and y0 <= y <= y1 for x, y in points)
+
+
 def _draw_items(c, items, xf: _Xform, vp: Viewport, f: float) -> None:
+    box = (vp.x, vp.y, vp.x + vp.w, vp.y + vp.h)
     c.saveState()
     p = c.beginPath()
     p.rect(vp.x, vp.y, vp.w, vp.h)
@@ -133,8 +134,13 @@ def _draw_items(c, items, xf: _Xform, vp: Viewport, f: float) -> None:
             continue
         _style(c, item.role, f)
         if isinstance(item, Path) or isinstance(item, ArcItem):
-            pts = xf.many(item.points if isinstance(item, Path) else item.polyline)
-            for piece in clip_polyline(pts, vp):  # nothing invisible stays in the file
+            model = item.points if isinstance(item, Path) else item.polyline
+            paper = [xf(x, y) for x, y in model] if len(model) <= 16 else None
+            if paper is not None and _within(paper, box):
+                pieces: list = [paper]  # the common case, in plain floats
+            else:  # nothing invisible stays in the file
+                pieces = clip_polyline(xf.many(model) if paper is None else np.array(paper), vp)
+            for piece in pieces:
                 path = c.beginPath()
                 path.moveTo(*piece[0])
                 for q in piece[1:]:
@@ -176,8 +182,9 @@ def _item_boxes(drawing: Drawing) -> np.ndarray:
     out = np.empty((len(drawing.items), 4))
     for i, it in enumerate(drawing.items):
         if isinstance(it, Text):
-            pts = it.corners()
-        elif isinstance(it, Path):
+            out[i] = it.bounds()
+            continue
+        if isinstance(it, Path):
             pts = np.asarray(it.points)
         elif isinstance(it, (ArcItem,)):
             pts = np.asarray(it.polyline)

@@ -45,6 +45,11 @@ __all__ = [
 NOTE_PITCH = 1.45
 
 
+#: Up to this many points, :meth:`PaperXform.many` works in plain floats (numpy's
+#: per-call cost dominates; the operations, and so the results, are the same).
+_FEW = 16
+
+
 class PaperXform:
     """Model -> paper: optional rotation about a model point, then scale and shift."""
 
@@ -69,6 +74,8 @@ class PaperXform:
         )
 
     def many(self, pts) -> np.ndarray:
+        if len(pts) <= _FEW and not isinstance(pts, np.ndarray):
+            return np.array([self(x, y) for x, y in pts], dtype=float).reshape(-1, 2)
         a = np.asarray(pts, dtype=float).reshape(-1, 2)
         dx, dy = a[:, 0] - self.ox, a[:, 1] - self.oy
         out = np.empty_like(a)
@@ -242,18 +249,29 @@ def _segments(items, xf: PaperXform) -> np.ndarray:
     return np.vstack(parts) if parts else np.zeros((0, 4))
 
 
-def _hits_segments(seg: np.ndarray, box: tuple[float, float, float, float]) -> bool:
-    """True when any segment meets the axis-aligned ``box``."""
-    if not len(seg):
-        return False
-    x0, y0, x1, y1 = box
-    near = ~(
-        (np.maximum(seg[:, 0], seg[:, 2]) < x0)
-        | (np.minimum(seg[:, 0], seg[:, 2]) > x1)
-        | (np.maximum(seg[:, 1], seg[:, 3]) < y0)
-        | (np.minimum(seg[:, 1], seg[:, 3]) > y1)
-    )
-    return bool(near.any() and clip_segments(seg[near], box)[2].any())
+class _Segments:
+    """Paper segments (n, 4) with their extents kept, for many box tests."""
+
+    def __init__(self, seg: np.ndarray) -> None:
+        self.seg = seg
+        self.xmax = np.maximum(seg[:, 0], seg[:, 2])
+        self.xmin = np.minimum(seg[:, 0], seg[:, 2])
+        self.ymax = np.maximum(seg[:, 1], seg[:, 3])
+        self.ymin = np.minimum(seg[:, 1], seg[:, 3])
+
+    def hit(self, box: tuple[float, float, float, float]) -> bool:
+        """True when any segment meets the axis-aligned ``box``."""
+        if not len(self.seg):
+            return False
+        x0, y0, x1, y1 = box
+        near = ~((self.xmax < x0) | (self.xmin > x1) | (self.ymax < y0) | (self.ymin > y1))
+        return bool(near.any() and clip_segments(self.seg[near], box)[2].any())
+
+
+def _extent(box: np.ndarray) -> tuple[float, float, float, float]:
+    """x0, y0, x1, y1 of a corner array (NaN as numpy's min and max give it)."""
+    lo, hi = box.min(axis=0).tolist(), box.max(axis=0).tolist()
+    return lo[0], lo[1], hi[0], hi[1]
 
 
 def _rect_corners(x0: float, y0: float, x1: float, y1: float) -> np.ndarray:
@@ -265,8 +283,9 @@ class _Room:
 
     def __init__(self, vp: Viewport, segments: np.ndarray, boxes: list[np.ndarray], gap: float):
         self.vp = vp
-        self.segments = segments
+        self.segments = _Segments(segments)
         self.boxes = list(boxes)
+        self.bounds = [_extent(b) for b in self.boxes]
         self.gap = gap
 
     def free(self, box: tuple[float, float, float, float]) -> bool:
@@ -276,22 +295,24 @@ class _Room:
         if x0 < vp.x + g or y0 < vp.y + g or x1 > vp.x + vp.w - g or y1 > vp.y + vp.h - g:
             return False
         grown = (x0 - g, y0 - g, x1 + g, y1 + g)
-        if _hits_segments(self.segments, grown):
+        if self.segments.hit(grown):
             return False
         corners = _rect_corners(*grown)
-        for b in self.boxes:
+        for b, (bx0, by0, bx1, by1) in zip(self.boxes, self.bounds, strict=True):
             if (
-                b[:, 0].max() >= grown[0]
-                and b[:, 0].min() <= grown[2]
-                and b[:, 1].max() >= grown[1]
-                and b[:, 1].min() <= grown[3]
+                bx1 >= grown[0]
+                and bx0 <= grown[2]
+                and by1 >= grown[1]
+                and by0 <= grown[3]
                 and boxes_overlap(corners, b)
             ):
                 return False
         return True
 
     def take(self, box: tuple[float, float, float, float]) -> None:
-        self.boxes.append(_rect_corners(*box))
+        corners = _rect_corners(*box)
+        self.boxes.append(corners)
+        self.bounds.append(_extent(corners))
 
 
 def _place_note(note: CurveNote, xf: PaperXform, room: _Room, size: float) -> PlacedNote | None:

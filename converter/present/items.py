@@ -85,15 +85,28 @@ class Text:
         """Estimated text width (see :func:`gradeline.present.labels.text_width`)."""
         return labels.text_width(self.text, self.height)
 
-    def corners(self) -> np.ndarray:
-        """The four corners of the text box in model coordinates, shape (4, 2)."""
+    def corner_points(self) -> list[tuple[float, float]]:
+        """The four corners of the text box in model coordinates, counter-clockwise."""
         w, h = self.width, self.height
         dx = {"left": 0.0, "center": -w / 2, "right": -w}[self.halign]
         dy = {"bottom": 0.0, "middle": -h / 2, "top": -h}[self.valign]
-        local = np.array([[dx, dy], [dx + w, dy], [dx + w, dy + h], [dx, dy + h]])
         a = math.radians(self.rotation)
-        rot = np.array([[math.cos(a), -math.sin(a)], [math.sin(a), math.cos(a)]])
-        return local @ rot.T + np.array([self.x, self.y])
+        c, s = math.cos(a), math.sin(a)
+        x, y = self.x, self.y
+        return [
+            (px * c - py * s + x, px * s + py * c + y)
+            for px, py in ((dx, dy), (dx + w, dy), (dx + w, dy + h), (dx, dy + h))
+        ]
+
+    def bounds(self) -> tuple[float, float, float, float]:
+        """Axis-aligned extent of the text box: x0, y0, x1, y1."""
+        pts = self.corner_points()
+        xs, ys = [p[0] for p in pts], [p[1] for p in pts]
+        return min(xs), min(ys), max(xs), max(ys)
+
+    def corners(self) -> np.ndarray:
+        """The four corners of the text box in model coordinates, shape (4, 2)."""
+        return np.array(self.corner_points())
 
 
 def boxes_overlap(a: np.ndarray, b: np.ndarray, gap: float = 0.0) -> bool:
@@ -117,9 +130,11 @@ class _BoxIndex:
 
     def __init__(self, boxes: list[np.ndarray]) -> None:
         self.boxes = list(boxes)
-        self.bb = np.array(
-            [[b[:, 0].min(), b[:, 1].min(), b[:, 0].max(), b[:, 1].max()] for b in self.boxes]
-        ).reshape(-1, 4)
+        if self.boxes:
+            stack = np.array(self.boxes)  # (n, 4, 2)
+            self.bb = np.hstack([stack.min(axis=1), stack.max(axis=1)])
+        else:
+            self.bb = np.zeros((0, 4))
 
     def hits(self, box: np.ndarray, gap: float = 0.0) -> bool:
         x0, y0 = box.min(axis=0) - gap
