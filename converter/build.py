@@ -116,18 +116,30 @@ def _deliverable(name: str) -> tuple[str, str | bytes, Any]:
     if name == "table.csv":
         interval = float(opts.sheet.get("interval") or doc.units.defaults.table_interval)
         return name, dl.station_table(solved, dl.TableOptions(interval)), None
-    if name == "check.txt":
-        check_opts = dl.CheckOptions()
-        tol = check_opts.tolerances()
-        findings = dl.check_findings(solved, tol)
-        text, _ = dl.check_report(doc, findings, tol, check_opts)
-        return name, text, sum(f.verdict == "over" for f in findings)
+    if name == "check.txt":  # the report is made once the drawings exist (_check_text)
+        return name, "", dl.check_findings(solved, dl.CheckOptions().tolerances())
     if name == "review.txt":  # with its picture, review.pdf, from the same review
         text, failed, picture = dl.review_outputs(
             solved, dl.ReviewOptions(opts.speed, opts.speed_unit)
         )
         return name, text, (failed, picture)
     raise ValueError(name)
+
+
+def _check_text(solved: Any, findings: list, outdir: Path, written: list[str]) -> tuple[str, int]:
+    """check.txt: the file's own values, and a self-check of the drawings just written
+    (their linework and every label against the geometry). Returns the text and the
+    number of findings over tolerance."""
+    from gradeline import deliverables as dl
+
+    opts = dl.CheckOptions()
+    tol = opts.tolerances()
+    names = [n for n in ("profile.dxf", "plan.dxf") if str(outdir / n) in written]
+    paths = [str(outdir / n) for n in names]
+    audits = dl.drawing_audits(solved, paths, tol, shown=names) if names else []
+    text, _ = dl.check_report(solved.document, findings, tol, opts, audits, solved.stationing)
+    over = sum(f.verdict == "over" for f in findings) + sum(a.counts()[0] for a in audits)
+    return text, over
 
 
 def _render_all(names: list[str], workers: int) -> dict[str, tuple[str | bytes, Any]]:
@@ -197,9 +209,12 @@ def _build_alignment(
         done = _render_all(names, workers)
     finally:
         _CURRENT.clear()
+    over = 0
     for name in names:  # written here, in a fixed order, each atomically
-        _write(outdir / name, done[name][0], inputs, written)
-    over = done["check.txt"][1]
+        data = done[name][0]
+        if name == "check.txt":  # last of the drawings' readers: they are written by now
+            data, over = _check_text(solved, done[name][1], outdir, written)
+        _write(outdir / name, data, inputs, written)
     review_failed = None
     if "review.txt" in done:
         review_failed, picture = done["review.txt"][1]

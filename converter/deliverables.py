@@ -35,6 +35,7 @@ __all__ = [
     "check_sheet_config",
     "check_findings",
     "check_report",
+    "drawing_audits",
     "curve_table",
     "document_warnings",
     "unit_hints",
@@ -650,14 +651,46 @@ def check_findings(
     return check.check_document(target, alignment, tol)
 
 
+def drawing_audits(
+    solved: SolvedAlignment,
+    paths: Sequence[str],
+    tol: Tolerances,
+    opts: Any = None,
+    shown: Sequence[str] | None = None,
+) -> list[Any]:
+    """Audit each drawing (linework and labels) against ``solved``; see
+    :mod:`gradeline.analysis.drawing_audit` (``opts``: its ``AuditOptions``). Reports
+    name each drawing by ``shown`` (default: its path as given)."""
+    import math
+
+    from gradeline.analysis.drawing_audit import AuditOptions, audit_world
+    from gradeline.io.dxf_read import read_drawing, read_mapping, read_world
+
+    opts = opts or AuditOptions()
+    out = []
+    for i, path in enumerate(paths):
+        dxf_doc = read_drawing(path)
+        view = read_world(dxf_doc, tol.distance / 20.0)
+        out.append(
+            audit_world(
+                view,
+                read_mapping(dxf_doc),
+                shown[i] if shown is not None else str(path),
+                solved,
+                tol.distance,
+                math.degrees(tol.angle) * 3600.0,
+                opts,
+            )
+        )
+    return out
+
+
 def check_report(
     doc: Document,
     findings: list[Finding],
     tol: Tolerances,
     opts: CheckOptions,
-    drawing: Any = None,
-    drawing_name: str = "",
-    layer: str = "",
+    drawings: Sequence[Any] = (),
     stationing: Any = None,
 ) -> tuple[str, bool]:
     """The cross-check report (text or JSON) and whether anything is over tolerance."""
@@ -665,8 +698,8 @@ def check_report(
     from gradeline.render.reports import check_counts, check_payload, check_text
 
     if opts.json:
-        text = json_text(check_payload(doc, findings, drawing, tol, drawing_name, layer))
+        text = json_text(check_payload(doc, findings, drawings, tol))
     else:
-        text = check_text(doc, findings, drawing, tol, drawing_name, layer, stationing)
-    over, total = check_counts(findings, drawing)
+        text = check_text(doc, findings, drawings, tol, stationing)
+    over, total = check_counts(findings, drawings)
     return text, bool(over) or total == 0  # nothing compared is never a pass

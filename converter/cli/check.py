@@ -1,12 +1,11 @@
-"""``gradeline check``: cross-check stated LandXML values and DXF profile linework."""
+"""``gradeline check``: cross-check stated LandXML values, and drawings' linework and labels."""
 
 from __future__ import annotations
 
 import argparse
 from typing import Any
 
-from gradeline.cli._common import add_common, add_ground, add_report, drawing_mapping, emit, warn
-from gradeline.errors import UsageError
+from gradeline.cli._common import add_common, add_ground, add_report, emit, warn
 
 NAME = "check"
 
@@ -15,23 +14,38 @@ def add_parser(sub: Any) -> None:
     """Register the command."""
     p = sub.add_parser(
         NAME,
-        help="cross-check stated LandXML values and DXF profile linework (exit 1 on findings)",
+        help="cross-check stated LandXML values, and DXF drawings' linework and labels "
+        "(exit 1 on findings)",
         description=(
             "Recompute every stated value of the file from its coordinates (continuity, "
             "tangency, lengths, staStart, chord, delta, radius, directions, spiral values, PI "
             "points, alignment length; PVIs inside the alignment, curve overlaps, CircCurve "
-            "lengths, ground profiles inside the alignment) and, with --dxf, compare the "
-            "profile linework on a layer with the computed finished grade. Exit 0 when "
+            "lengths, ground profiles inside the alignment) and, with --dxf, audit drawings: "
+            "profile linework against the computed finished grade, plan linework against "
+            "the computed alignment, and every text stating a station, elevation, grade, "
+            "L, K, A, E, R, delta, D or T against the value it names. Exit 0 when "
             "everything agrees within tolerance, 1 when any finding exceeds it, 2 for bad input."
         ),
     )
     add_common(p)
-    p.add_argument("--dxf", metavar="DRAWING", help="DXF with drafted profile linework")
+    p.add_argument(
+        "--dxf",
+        metavar="DRAWING",
+        action="append",
+        default=[],
+        help="DXF profile or plan drawing to audit: linework and labels (repeatable)",
+    )
     add_ground(p)
     p.add_argument(
         "--layer",
         metavar="NAME",
-        help="layer of the finished-grade linework (default PROFILE-GRADE when present)",
+        help="profile drawings: layer of the finished-grade linework (default PROFILE-GRADE)",
+    )
+    p.add_argument(
+        "--plan-layer",
+        metavar="NAME",
+        help="plan drawings: layer of the centreline (default PLAN-ALIGNMENT, else the layer "
+        "lying nearest the alignment)",
     )
     p.add_argument(
         "--exaggeration", type=float, metavar="E", help="vertical exaggeration of the drawing"
@@ -42,6 +56,21 @@ def add_parser(sub: Any) -> None:
         metavar="D",
         help="elevation at y = 0 (default: read from a gradeline drawing, else fitted)",
     )
+    p.add_argument(
+        "--transform",
+        default="none",
+        metavar="T",
+        help="plan drawings: none (default), fit (rotation and shift fitted to the "
+        "alignment), or DX,DY,DEG[,SCALE] (file = SCALE x drawing turned DEG, then shifted)",
+    )
+    p.add_argument(
+        "--drawing-units",
+        default="auto",
+        metavar="U",
+        help="units of the drawings: auto ($INSUNITS; refused when they differ from the "
+        "file's), as-file, foot, us-foot, metre, millimetre, centimetre, inch",
+    )
+    p.add_argument("--no-labels", action="store_true", help="skip the audit of the drawings' texts")
     p.add_argument(
         "--tolerance",
         type=float,
@@ -58,41 +87,6 @@ def add_parser(sub: Any) -> None:
     )
     add_report(p)
     p.set_defaults(func=run)
-
-
-def _drawing(args: argparse.Namespace, doc: Any, tol: Any) -> tuple[Any, Any, str]:
-    """The DXF linework check: (result, stationing, layer)."""
-    from gradeline import deliverables as dl
-    from gradeline.analysis import drawing_check
-    from gradeline.io.dxf_read import layer_names, read_drawing, read_linework, read_mapping
-    from gradeline.present.roles import LAYER_ROLES
-
-    solved = dl.open_alignment(doc, args.alignment, args.profile, need_profile=True)
-    assert solved.geometry is not None
-    dxf_doc = read_drawing(args.dxf)
-    names = layer_names(dxf_doc)
-    layer = args.layer or ""
-    if not layer:
-        layer = next((n for n in names if n.upper() == LAYER_ROLES["grade"]), "")
-        if not layer:
-            raise UsageError(
-                f"{args.dxf}: name the profile layer with --layer; layers with "
-                "linework: " + (", ".join(names) or "none")
-            )
-    lines = read_linework(dxf_doc, layer, tol.distance / 20.0)
-    if not lines:
-        raise UsageError(
-            f"{args.dxf}: no LINE, LWPOLYLINE, POLYLINE, SPLINE or ARC on layer "
-            f"{layer!r}; layers with linework: " + (", ".join(names) or "none")
-        )
-    found = drawing_mapping(args, read_mapping(dxf_doc))
-    if found is not None:
-        exag, datum, how = found
-    else:
-        exag, datum = drawing_check.fit_mapping(lines, solved.geometry)
-        how = "fitted by least squares"
-    result = drawing_check.check_linework(lines, solved.geometry, tol.distance, exag, datum, how)
-    return result, solved.stationing, layer
 
 
 def run(args: argparse.Namespace) -> int:
@@ -112,11 +106,22 @@ def run(args: argparse.Namespace) -> int:
         findings += check.check_ground_against_surface(
             base.alignment, with_tin.ground_at, tol, with_tin.alignment.grounds[0].name
         )
-    drawing, stationing, layer = (None, None, args.layer or "")
+    drawings, stationing = [], None
     if args.dxf:
-        drawing, stationing, layer = _drawing(args, doc, tol)
-    text, over = dl.check_report(
-        doc, findings, tol, opts, drawing, args.dxf or "", layer, stationing
-    )
-    emit(text, args.output, [args.file] + ([args.dxf] if args.dxf else []))
+        from gradeline.analysis.drawing_audit import AuditOptions
+
+        solved = dl.open_alignment(doc, args.alignment, args.profile)
+        audit = AuditOptions(
+            layer=args.layer,
+            plan_layer=args.plan_layer,
+            exaggeration=args.exaggeration,
+            datum=args.datum,
+            transform=args.transform,
+            drawing_units=args.drawing_units,
+            labels=not args.no_labels,
+        )
+        drawings = dl.drawing_audits(solved, args.dxf, tol, audit)
+        stationing = solved.stationing
+    text, over = dl.check_report(doc, findings, tol, opts, drawings, stationing)
+    emit(text, args.output, [args.file, *args.dxf])
     return 1 if over else 0

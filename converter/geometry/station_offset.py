@@ -11,7 +11,7 @@ from numpy.typing import ArrayLike, NDArray
 
 from gradeline.geometry.horizontal import HorizontalGeometry, _state
 
-__all__ = ["foot_points", "station_offset"]
+__all__ = ["Projector", "foot_points", "station_offset"]
 
 
 def _samples(geom: HorizontalGeometry) -> NDArray[np.float64]:
@@ -76,35 +76,49 @@ def station_offset(
     status : ndarray of int8
         0 on the alignment, -1 before its start, +1 after its end.
     """
-    from scipy.spatial import cKDTree  # nearest-neighbour index; heavy import kept local
+    return Projector(geom, candidates)(northing, easting)
 
-    n_in = np.asarray(northing, dtype=np.float64)
-    px = np.asarray(easting, dtype=np.float64).reshape(-1)
-    py = n_in.reshape(-1)
-    samples = _samples(geom)
-    sx, sy, _, _ = _state(geom, samples)
-    tree = cKDTree(np.column_stack([sx, sy]))
-    k = min(candidates, len(samples))
-    _, nearest = tree.query(np.column_stack([px, py]), k=k)
-    nearest = np.asarray(nearest).reshape(len(px), k)
-    best_d = np.full(len(px), np.inf)
-    best_s = np.zeros(len(px))
-    best_t = np.zeros(len(px))
-    best_o = np.zeros(len(px))
-    for j in range(k):
-        s, t_along, o, dist = foot_points(geom, px, py, samples[nearest[:, j]])
-        better = dist < best_d - 1e-12
-        best_d = np.where(better, dist, best_d)
-        best_s = np.where(better, s, best_s)
-        best_t = np.where(better, t_along, best_t)
-        best_o = np.where(better, o, best_o)
-    tol = 1e-9 * max(1.0, abs(geom.end))
-    status = np.zeros(len(px), dtype=np.int8)
-    before = (best_s <= geom.start + tol) & (best_t < -tol)
-    after = (best_s >= geom.end - tol) & (best_t > tol)
-    status[before] = -1
-    status[after] = 1
-    station = np.where(before | after, best_s + best_t, best_s)
-    offset = -best_o
-    shape = n_in.shape
-    return station.reshape(shape), offset.reshape(shape), status.reshape(shape)
+
+class Projector:
+    """:func:`station_offset` with its sample index built once, for many calls."""
+
+    def __init__(self, geom: HorizontalGeometry, candidates: int = 3) -> None:
+        from scipy.spatial import cKDTree  # nearest-neighbour index; heavy import kept local
+
+        self.geom = geom
+        self.samples = _samples(geom)
+        sx, sy, _, _ = _state(geom, self.samples)
+        self.tree = cKDTree(np.column_stack([sx, sy]))
+        self.k = min(candidates, len(self.samples))
+
+    def __call__(
+        self, northing: ArrayLike, easting: ArrayLike
+    ) -> tuple[NDArray[np.float64], NDArray[np.float64], NDArray[np.int8]]:
+        """Station, offset (right +) and status of points, as :func:`station_offset`."""
+        geom, samples, k = self.geom, self.samples, self.k
+        n_in = np.asarray(northing, dtype=np.float64)
+        px = np.asarray(easting, dtype=np.float64).reshape(-1)
+        py = n_in.reshape(-1)
+        _, nearest = self.tree.query(np.column_stack([px, py]), k=k)
+        nearest = np.asarray(nearest).reshape(len(px), k)
+        best_d = np.full(len(px), np.inf)
+        best_s = np.zeros(len(px))
+        best_t = np.zeros(len(px))
+        best_o = np.zeros(len(px))
+        for j in range(k):
+            s, t_along, o, dist = foot_points(geom, px, py, samples[nearest[:, j]])
+            better = dist < best_d - 1e-12
+            best_d = np.where(better, dist, best_d)
+            best_s = np.where(better, s, best_s)
+            best_t = np.where(better, t_along, best_t)
+            best_o = np.where(better, o, best_o)
+        tol = 1e-9 * max(1.0, abs(geom.end))
+        status = np.zeros(len(px), dtype=np.int8)
+        before = (best_s <= geom.start + tol) & (best_t < -tol)
+        after = (best_s >= geom.end - tol) & (best_t > tol)
+        status[before] = -1
+        status[after] = 1
+        station = np.where(before | after, best_s + best_t, best_s)
+        offset = -best_o
+        shape = n_in.shape
+        return station.reshape(shape), offset.reshape(shape), status.reshape(shape)

@@ -3,6 +3,8 @@
 from __future__ import annotations
 
 import contextlib
+import math
+from dataclasses import dataclass
 from typing import Any
 
 import ezdxf
@@ -111,3 +113,230 @@ def layer_names(doc: DxfDocument) -> list[str]:
     """Names of the layers that hold linework."""
     names = {e.dxf.layer for e in doc.modelspace().query(" ".join(LINEWORK_TYPES))}
     return sorted(names)
+
+
+# --------------------------------------------------------------------------- world view
+#: $INSUNITS codes of the drawing units this reader converts, with metres per unit.
+INSUNITS: dict[int, tuple[str, float]] = {
+    1: ("inch", 0.0254),
+    2: ("foot", 0.3048),
+    4: ("millimetre", 0.001),
+    5: ("centimetre", 0.01),
+    6: ("metre", 1.0),
+    21: ("US survey foot", 1200.0 / 3937.0),
+}
+
+#: Deepest block nesting followed; deeper references are counted as skipped.
+MAX_NESTING = 16
+
+
+@dataclass(frozen=True, slots=True)
+class DrawnPiece:
+    """One drawn primitive in world coordinates.
+
+    ``kind`` is ``line`` (two points), ``arc`` (a circular arc: ``radius`` and
+    ``center`` exact, ``points`` flattened within the reading tolerance) or
+    ``curve`` (a SPLINE or other curve, flattened: its true form is unknown).
+    """
+
+    kind: str
+    points: np.ndarray
+    layer: str
+    handle: str
+    radius: float | None = None
+    center: tuple[float, float] | None = None
+
+
+@dataclass(frozen=True, slots=True)
+class DrawnText:
+    """One text of a drawing in world coordinates, its formatting codes removed."""
+
+    text: str
+    x: float
+    y: float
+    height: float
+    rotation: float  # degrees, counter-clockwise
+    layer: str
+    source: str  # TEXT, MTEXT, ATTRIB, ATTDEF or DIMENSION
+    handle: str
+    lines: int = 1  # lines of an MTEXT (the others are one line each)
+
+
+@dataclass
+class WorldView:
+    """Everything the audit reads from a drawing, in world coordinates."""
+
+    pieces: list[DrawnPiece]
+    texts: list[DrawnText]
+    skipped: dict[str, int]  # reason -> count (never silently dropped)
+    unit: str | None  # from $INSUNITS, None when unitless or unknown
+
+    def layers(self) -> list[str]:
+        """Layers holding linework, sorted."""
+        return sorted({p.layer for p in self.pieces})
+
+
+def drawing_unit(doc: DxfDocument) -> tuple[str | None, float | None]:
+    """Name and metres per unit of the drawing's $INSUNITS (None, None if unitless)."""
+    try:
+        code = int(doc.header.get("$INSUNITS", 0))
+    except (TypeError, ValueError):
+        return None, None
+    found = INSUNITS.get(code)
+    return (found[0], found[1]) if found else (None, None)
+
+
+_TEXT_CODES = {"%%D": "\u00b0", "%%P": "\u00b1", "%%C": "\u00d8", "%%U": "", "%%O": "", "%%%": "%"}
+
+
+def _plain(text: str) -> str:
+    """TEXT special codes (%%d for the degree sign, ...) as the characters they stand for."""
+    import re
+
+    return re.sub(r"%%[dpcuo%]", lambda m: _TEXT_CODES[m.group(0).upper()], text, flags=re.I)
+
+
+def read_world(doc: DxfDocument, tolerance: float) -> WorldView:
+    """Linework and texts of model space in world coordinates, block references expanded.
+
+    Block content on layer ``0`` takes the layer of its reference, as CAD programs
+    show it. Curves are flattened within ``tolerance``; arcs and polyline bulges keep
+    their exact radius. Entities that cannot be evaluated, or hold non-finite
+    coordinates, are counted in ``skipped`` by reason.
+    """
+    view = WorldView([], [], {}, drawing_unit(doc)[0])
+    _walk(doc.modelspace(), None, 0, view, tolerance)
+    return view
+
+
+def _skip(view: WorldView, reason: str) -> None:
+    view.skipped[reason] = view.skipped.get(reason, 0) + 1
+
+
+def _walk(entities: Any, parent_layer: str | None, depth: int, view: WorldView, tol: float) -> None:
+    for entity in entities:
+        e: Any = entity
+        kind = e.dxftype()
+        layer = e.dxf.get("layer", "0")
+        if layer == "0" and parent_layer is not None:
+            layer = parent_layer
+        try:
+            if kind == "INSERT":
+                for attrib in e.attribs:
+                    _text(attrib, layer if attrib.dxf.layer == "0" else attrib.dxf.layer, view)
+                if depth >= MAX_NESTING:
+                    _skip(view, f"block nested deeper than {MAX_NESTING}")
+                    continue
+                _walk(e.virtual_entities(), layer, depth + 1, view, tol)
+            elif kind in ("TEXT", "MTEXT", "ATTRIB", "ATTDEF", "DIMENSION"):
+                _text(e, layer, view)
+            elif kind in LINEWORK_TYPES:
+                for piece in _pieces(e, kind, layer, tol):
+                    if np.isfinite(piece.points).all():
+                        view.pieces.append(piece)
+                    else:
+                        _skip(view, f"{kind} with non-finite coordinates")
+        except Exception as err:  # noqa: BLE001 - an entity ezdxf cannot evaluate
+            _skip(view, f"{kind} that cannot be evaluated ({type(err).__name__})")
+
+
+def _pieces(e: Any, kind: str, layer: str, tol: float) -> list[DrawnPiece]:
+    handle = str(e.dxf.get("handle", ""))
+    if kind == "LINE":
+        a, b = e.dxf.start, e.dxf.end
+        return [DrawnPiece("line", np.array([(a[0], a[1]), (b[0], b[1])], float), layer, handle)]
+    if kind == "ARC":
+        tool = e.construction_tool()  # in WCS
+        pts = np.array([(p[0], p[1]) for p in tool.flattening(tol)], float)
+        c = tool.center
+        return [DrawnPiece("arc", pts, layer, handle, float(tool.radius), (c[0], c[1]))]
+    if kind == "SPLINE":
+        pts = np.array([(p[0], p[1]) for p in e.construction_tool().flattening(tol)], float)
+        return [DrawnPiece("curve", pts, layer, handle)]
+    if kind == "LWPOLYLINE":
+        verts = [(x, y, b) for x, y, b in e.get_points("xyb")]
+        closed, elevation = bool(e.closed), float(e.dxf.get("elevation", 0.0))
+    elif e.is_2d_polyline:
+        verts = [
+            (v.dxf.location[0], v.dxf.location[1], v.dxf.get("bulge", 0.0)) for v in e.vertices
+        ]
+        closed, elevation = bool(e.is_closed), float(e.dxf.get("elevation", (0, 0, 0))[2])
+    elif e.is_3d_polyline:  # in WCS, straight
+        locs = [v.dxf.location for v in e.vertices]
+        return [
+            DrawnPiece("line", np.array([(a[0], a[1]), (b[0], b[1])], float), layer, handle)
+            for a, b in zip(locs, locs[1:], strict=False)
+        ]
+    else:
+        return []  # meshes and polyface: no linework to compare
+    return _polyline_parts(verts, closed, elevation, e.ocs(), layer, handle, tol)
+
+
+def _polyline_parts(verts, closed, elevation, ocs, layer, handle, tol) -> list[DrawnPiece]:
+    """Each vertex-to-vertex part of a 2D polyline: a line, or an arc from its bulge."""
+    from ezdxf.math import Vec3, bulge_to_arc
+
+    def wcs(x: float, y: float) -> tuple[float, float]:
+        p = ocs.to_wcs(Vec3(x, y, elevation))
+        return (p.x, p.y)
+
+    if closed and len(verts) > 1:
+        verts = [*verts, (verts[0][0], verts[0][1], 0.0)]
+    out: list[DrawnPiece] = []
+    for (x0, y0, bulge), (x1, y1, _) in zip(verts, verts[1:], strict=False):
+        if not bulge:
+            pts = np.array([wcs(x0, y0), wcs(x1, y1)], float)
+            out.append(DrawnPiece("line", pts, layer, handle))
+            continue
+        center, a0, a1, r = bulge_to_arc((x0, y0), (x1, y1), bulge)
+        sweep = (a1 - a0) % (2 * math.pi)
+        step = 2 * math.acos(max(-1.0, 1 - tol / r)) if r > tol else math.pi / 2
+        n = max(2, min(100_000, math.ceil(sweep / max(step, 1e-6)) + 1))
+        t = a0 + sweep * np.linspace(0.0, 1.0, n)
+        ocs_pts = [(center.x + r * math.cos(v), center.y + r * math.sin(v)) for v in t]
+        if bulge < 0:  # bulge_to_arc gives the arc counter-clockwise: walk it backwards
+            ocs_pts.reverse()
+        pts = np.array([wcs(x, y) for x, y in ocs_pts], float)
+        pts[0], pts[-1] = wcs(x0, y0), wcs(x1, y1)
+        out.append(DrawnPiece("arc", pts, layer, handle, float(r), wcs(center.x, center.y)))
+    return out
+
+
+def _text(e: Any, layer: str, view: WorldView) -> None:
+    kind = e.dxftype()
+    lines = 1
+    if kind == "MTEXT":
+        text = e.plain_text(split=False)
+        lines = text.count("\n") + 1
+        x, y = e.dxf.insert[0], e.dxf.insert[1]
+        height = float(e.dxf.get("char_height", 1.0))
+        rotation = float(e.get_rotation())
+    elif kind == "DIMENSION":
+        text = e.dxf.get("text", "")
+        if text in ("", "<>") or "<>" in text:
+            try:
+                measured = f"{float(e.get_measurement()):.2f}"
+            except Exception:  # noqa: BLE001 - an angular or unusual dimension
+                measured = ""
+            text = measured if text in ("", "<>") else text.replace("<>", measured)
+        if not e.dxf.hasattr("text_midpoint"):
+            _skip(view, "DIMENSION without a text position")
+            return
+        p = e.dxf.text_midpoint
+        x, y, height, rotation = p[0], p[1], 0.0, float(e.dxf.get("text_rotation", 0.0))
+    else:  # TEXT, ATTRIB, ATTDEF
+        text = _plain(e.dxf.get("text", "") if kind != "ATTDEF" else e.dxf.get("text", ""))
+        _, p, _ = e.get_placement()
+        x, y = p[0], p[1]
+        height = float(e.dxf.get("height", 1.0))
+        rotation = float(e.dxf.get("rotation", 0.0))
+    text = text.strip()
+    if not text:
+        return
+    if not (math.isfinite(x) and math.isfinite(y)):
+        _skip(view, f"{kind} with non-finite coordinates")
+        return
+    handle = str(e.dxf.get("handle", ""))
+    view.texts.append(
+        DrawnText(text, float(x), float(y), height, rotation, layer, kind, handle, lines)
+    )

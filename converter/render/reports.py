@@ -221,29 +221,32 @@ def _val(v: float | None, unit: str = "") -> str:
     return f"{v:.4f}" if unit not in ("decimal dd.mm.ss",) else f"{v:.6f}"
 
 
-def check_summary(findings, drawing) -> str:
+def check_summary(findings, drawings=()) -> str:
     """The first line: findings over tolerance out of all checks."""
-    over, total = check_counts(findings, drawing)
+    over, total = check_counts(findings, drawings)
     return labels.check_headline(over, total)
 
 
-def check_counts(findings, drawing) -> tuple[int, int]:
+def check_counts(findings, drawings=()) -> tuple[int, int]:
     """(over tolerance, comparisons made): notes that compare nothing are not checks."""
     over = sum(f.verdict == "over" for f in findings)
     total = sum(f.verdict in ("ok", "over") for f in findings)
-    if drawing is not None:
-        total += 2
-        over += (1 if drawing.over else 0) + (1 if drawing.uncovered else 0)
+    for d in drawings:
+        o, t = d.counts()
+        over += o
+        total += t
     return over, total
 
 
-def check_text(
-    doc, findings, drawing, tol, drawing_name: str = "", layer: str = "", stationing=None
-) -> str:
-    """Readable cross-check report grouped by alignment and element; summary first."""
+def check_text(doc, findings, drawings, tol, drawing_stationing=None) -> str:
+    """Readable cross-check report grouped by alignment and element; summary first.
+
+    ``drawing_stationing`` labels the stations of the drawing audits (the checked
+    alignment's, with its equations).
+    """
     units = doc.units
     lines = [
-        check_summary(findings, drawing),
+        check_summary(findings, drawings),
         f"file {input_name(doc.path)}; tolerances: {tol.distance:g} {units.symbol} for distances, "
         f'{math.degrees(tol.angle) * 3600:g}" for angles',
         "",
@@ -280,34 +283,16 @@ def check_text(
             else ""
         )
         lines.append(f"  {verdict:<4}  {where}: {body}{note}")
-    if drawing is not None:
-        d = drawing
-        lab = stationing.label if stationing is not None else (lambda s: f"{s:.3f}")
-        lines += [
-            "",
-            f"drawing {drawing_name}, layer {layer!r}: x = station, y = (elevation - "
-            f"{d.datum:.4f}) x {d.exaggeration:.6g} ({d.mapping_from})",
-            f"  {d.samples} samples; deviation from the computed grade: max {d.max_deviation:.4f} "
-            f"{units.symbol} at {lab(d.worst_station)}, mean {d.mean_deviation:.4f} {units.symbol}",
-        ]
-        if not d.over:
-            lines.append(f"  ok    within {tol.distance:g} {units.symbol} everywhere it is drawn")
-        for a, b, w in d.over:
-            lines.append(
-                f"  OVER  {lab(a)} to {lab(b)}: deviation up to {_signed(w, 4)} {units.symbol}"
-            )
-        for a, b in d.uncovered:
-            lines.append(f"  OVER  {lab(a)} to {lab(b)}: not covered by the drawing")
+    for d in drawings:
+        lines += _drawing_lines(d, tol, units, drawing_stationing or stationing)
     lines += ["", f"CAUTION: {labels.CAUTION}"]
     return "\n".join(lines) + "\n"
 
 
-def check_payload(
-    doc, findings, drawing, tol, drawing_name: str = "", layer: str = ""
-) -> dict[str, Any]:
+def check_payload(doc, findings, drawings, tol) -> dict[str, Any]:
     """The cross-check as JSON-ready data."""
     out: dict[str, Any] = {
-        "summary": check_summary(findings, drawing),
+        "summary": check_summary(findings, drawings),
         "file": input_name(doc.path),
         "tolerance": tol.distance,
         "angle_tolerance_seconds": math.degrees(tol.angle) * 3600,
@@ -333,19 +318,153 @@ def check_payload(
         ],
         "caution": labels.CAUTION,
     }
-    if drawing is not None:
-        d = drawing
-        out["drawing"] = {
-            "file": drawing_name,
-            "layer": layer,
-            "exaggeration": d.exaggeration,
-            "datum": d.datum,
-            "mapping": d.mapping_from,
-            "samples": d.samples,
-            "max_deviation": d.max_deviation,
-            "mean_deviation": d.mean_deviation,
-            "worst_station": d.worst_station,
-            "over_tolerance": [{"start": a, "end": b, "worst": w} for a, b, w in d.over],
-            "not_covered": [{"start": a, "end": b} for a, b in d.uncovered],
+    out["drawings"] = [_drawing_payload(d) for d in drawings]
+    return out
+
+
+def _drawing_lines(d, tol, units, stationing) -> list[str]:
+    """The text report of one drawing audit."""
+    u = units.symbol
+    lab = stationing.label if stationing is not None else (lambda s: f"{s:.3f}")
+    lines = ["", f"drawing {d.name} ({d.kind}): {d.units_note}"]
+    if d.profile is not None:
+        p = d.profile
+        lines += [
+            f"  profile linework, layer {d.layer!r}: x = station, y = (elevation - "
+            f"{p.datum:.4f}) x {p.exaggeration:.6g} ({p.mapping_from})",
+            f"  {p.samples} samples; deviation from the computed grade: max "
+            f"{p.max_deviation:.4f} {u} at {lab(p.worst_station)}, mean {p.mean_deviation:.4f} {u}",
+        ]
+        if not p.over:
+            lines.append(f"  ok    within {tol.distance:g} {u} everywhere it is drawn")
+        for a, b, w in p.over:
+            lines.append(f"  OVER  {lab(a)} to {lab(b)}: deviation up to {_signed(w, 4)} {u}")
+        for a, b in p.uncovered:
+            lines.append(f"  OVER  {lab(a)} to {lab(b)}: not covered by the drawing")
+    if d.plan is not None:
+        p = d.plan
+        fit = f", RMS {p.rms_fit:.4f} {u}" if p.rms_fit is not None else ""
+        lines += [
+            f"  plan linework, layer {d.layer!r}: {p.transform.text()}{fit}",
+            f"  {p.samples} samples; lateral deviation from the computed alignment: max "
+            f"{p.max_deviation:.4f} {u} at {lab(p.worst_station)}, mean {p.mean_deviation:.4f} {u}",
+        ]
+        if not p.over:
+            lines.append(f"  ok    within {tol.distance:g} {u} everywhere it is drawn")
+        for a, b, w in p.over:
+            side = "right" if w > 0 else "left"
+            lines.append(f"  OVER  {lab(a)} to {lab(b)}: off by up to {_signed(w, 4)} {u} ({side})")
+        for a, b in p.uncovered:
+            lines.append(f"  OVER  {lab(a)} to {lab(b)}: not covered by the drawing")
+        for f in p.pieces:
+            what = (
+                f"arc drawn with R {f.drawn:.4f}, computed {f.computed:.4f} {u}"
+                if f.what == "radius"
+                else f"{f.what} (drawn R {f.drawn:.4f} {u})"
+            )
+            lines.append(f"  OVER  {f.element}, {lab(f.start)} to {lab(f.end)}: {what}")
+        if p.beyond:
+            lines.append(f"  note  {p.beyond} samples lie beyond the alignment's ends")
+    for reason, n in sorted(d.skipped.items()):
+        lines.append(f"  note  {n} skipped: {reason}")
+    lines += _label_lines(d.labels, lab)
+    return lines
+
+
+def _label_lines(checks, lab) -> list[str]:
+    if not checks:
+        return ["  labels: no text states a value"]
+    ok = sum(c.verdict == "ok" for c in checks)
+    over = [c for c in checks if c.verdict == "over"]
+    other = [c for c in checks if c.verdict in ("unread", "untied")]
+    lines = [
+        f"  labels: {ok + len(over)} stated values compared, {ok} agree, {len(over)} OVER; "
+        f"{len(other)} not read or not tied"
+    ]
+    for c in over:
+        where = f" at {lab(c.station)}" if c.station is not None else ""
+        unit = f" {c.unit}" if c.unit else ""
+        if c.stated is None:
+            body = c.note
+        else:
+            body = (
+                f"stated {c.stated:.6g}, computed {c.computed:.6g}, difference "
+                f"{_signed(c.difference, 4)}{unit}"
+            )
+        lines.append(
+            f"  OVER  {c.quantity} of {c.feature}{where}: {body}  [{c.text!r} at "
+            f"{c.x:.2f}, {c.y:.2f}, layer {c.layer}]"
+        )
+    for c in other:
+        lines.append(f"  {c.verdict:<6} {c.text!r} at {c.x:.2f}, {c.y:.2f}: {c.note}")
+    return lines
+
+
+def _drawing_payload(d) -> dict[str, Any]:
+    out: dict[str, Any] = {"file": d.name, "kind": d.kind, "layer": d.layer, "units": d.units_note}
+    if d.profile is not None:
+        p = d.profile
+        out["linework"] = {
+            "exaggeration": p.exaggeration,
+            "datum": p.datum,
+            "mapping": p.mapping_from,
+            "samples": p.samples,
+            "max_deviation": p.max_deviation,
+            "mean_deviation": p.mean_deviation,
+            "worst_station": p.worst_station,
+            "over_tolerance": [{"start": a, "end": b, "worst": w} for a, b, w in p.over],
+            "not_covered": [{"start": a, "end": b} for a, b in p.uncovered],
         }
+    if d.plan is not None:
+        p = d.plan
+        t = p.transform
+        out["linework"] = {
+            "transform": {
+                "dx": t.dx,
+                "dy": t.dy,
+                "rotation_degrees": math.degrees(t.angle),
+                "scale": t.scale,
+                "how": t.how,
+                "rms": p.rms_fit,
+            },
+            "samples": p.samples,
+            "max_deviation": p.max_deviation,
+            "mean_deviation": p.mean_deviation,
+            "worst_station": p.worst_station,
+            "over_tolerance": [{"start": a, "end": b, "worst": w} for a, b, w in p.over],
+            "not_covered": [{"start": a, "end": b} for a, b in p.uncovered],
+            "beyond_ends": p.beyond,
+            "pieces": [
+                {
+                    "start": f.start,
+                    "end": f.end,
+                    "finding": f.what,
+                    "drawn_radius": f.drawn,
+                    "computed_radius": f.computed,
+                    "element": f.element,
+                    "handle": f.handle,
+                }
+                for f in p.pieces
+            ],
+        }
+    out["skipped"] = dict(d.skipped)
+    out["labels"] = [
+        {
+            "text": c.text,
+            "x": c.x,
+            "y": c.y,
+            "layer": c.layer,
+            "handle": c.handle,
+            "quantity": c.quantity,
+            "feature": c.feature,
+            "station": c.station,
+            "stated": c.stated,
+            "computed": c.computed,
+            "difference": c.difference,
+            "unit": c.unit,
+            "verdict": c.verdict,
+            "note": c.note,
+        }
+        for c in d.labels
+    ]
     return out
