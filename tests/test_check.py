@@ -188,7 +188,7 @@ def test_our_own_dxf_checks_clean(tmp_path, capsys, curves):
     )
     report = json.loads(capsys.readouterr().out)
     assert code == 0, report["summary"]
-    d = report["drawing"]
+    d = report["drawings"][0]["linework"]
     assert d["mapping"] == "from the drawing" and d["max_deviation"] < 0.006
     assert d["over_tolerance"] == [] and d["not_covered"] == []
 
@@ -206,7 +206,7 @@ def test_moved_vertex_is_flagged_at_its_station(tmp_path, capsys):
     code = main(
         ["check", str(US_SAMPLE), "--alignment", "Orrin Vale Bypass", "--dxf", str(out), "--json"]
     )
-    d = json.loads(capsys.readouterr().out)["drawing"]
+    d = json.loads(capsys.readouterr().out)["drawings"][0]["linework"]
     assert code == 1
     assert d["max_deviation"] == pytest.approx(0.1, abs=1e-6)
     assert d["worst_station"] == pytest.approx(x, abs=1e-6)
@@ -222,6 +222,7 @@ def test_coarse_chords_flagged_only_where_the_chord_error_is_large(tmp_path, cap
     s = np.arange(g.start, g.end + 1e-9, 50.0)  # 50-ft chords
     z = vertical.elevation(g, s)
     doc = ezdxf.new("R2010")
+    doc.header["$INSUNITS"] = 2  # drawn in feet, as the file
     doc.layers.add("FG")
     doc.modelspace().add_lwpolyline(
         np.column_stack([s, (z - 500.0) * 5.0]).tolist(), dxfattribs={"layer": "FG"}
@@ -245,7 +246,7 @@ def test_coarse_chords_flagged_only_where_the_chord_error_is_large(tmp_path, cap
             "--json",
         ]
     )
-    d = json.loads(capsys.readouterr().out)["drawing"]
+    d = json.loads(capsys.readouterr().out)["drawings"][0]["linework"]
     assert code == 1
     # a parabola y = c x^2 deviates from a chord of length h by c h^2 / 4 at its middle
     worst_curve = float(np.max(np.abs(g.c))) * 50.0**2 / 4
@@ -275,7 +276,7 @@ def test_fitted_mapping_when_not_given(tmp_path, capsys):
     out = tmp_path / "other.dxf"
     doc.saveas(out)
     code = main(["check", str(METRIC_SAMPLE), "--dxf", str(out), "--layer", "GRADE", "--json"])
-    d = json.loads(capsys.readouterr().out)["drawing"]
+    d = json.loads(capsys.readouterr().out)["drawings"][0]["linework"]
     assert code == 0
     assert d["mapping"] == "fitted by least squares"
     assert d["exaggeration"] == pytest.approx(4.0, rel=1e-6)
@@ -307,7 +308,7 @@ def test_partial_drawing_reports_uncovered(tmp_path, capsys):
             "--json",
         ]
     )
-    d = json.loads(capsys.readouterr().out)["drawing"]
+    d = json.loads(capsys.readouterr().out)["drawings"][0]["linework"]
     assert code == 1
     assert d["not_covered"][0]["start"] == pytest.approx(999.0, abs=1.0)
     assert d["not_covered"][0]["end"] == pytest.approx(g.end)

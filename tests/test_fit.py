@@ -49,8 +49,9 @@ def test_round_trip_through_our_dxf(tmp_path, capsys, path, name, unit, curves):
     assert [p.kind for p in fitted.pvis] == [
         p.kind for p in open_alignment(path, name).profile.pvis
     ]
-    # check and fit agree on the same drawing
-    assert main(["check", str(out), "--dxf", str(dxf)]) == 0
+    # check and fit agree on the same drawing's linework (its labels state the original's
+    # station equations, which the fitted file, made from linework alone, does not have)
+    assert main(["check", str(out), "--dxf", str(dxf), "--no-labels"]) == 0
 
 
 @pytest.mark.parametrize(("path", "name", "unit"), SAMPLES, ids=["bypass-ft", "tarnholm-m"])

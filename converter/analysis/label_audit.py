@@ -172,6 +172,9 @@ def normalize(text: str) -> str:
         "\u2206": "Δ",
     }
     out = "".join(table.get(ch, ch) for ch in text).replace("''", '"')
+    # TEXT special codes, should a label still carry them: %%d degree, %%p plus-minus, ...
+    out = re.sub(r"%%[dD]", "°", out)
+    out = re.sub(r"%%[pPcCuUoO]", " ", out)
     return re.sub(r"\s+", " ", out.upper()).strip()
 
 
@@ -418,11 +421,14 @@ class _Audit:
         )
 
 
-def _clauses(statements: list[Statement]) -> list[tuple[Statement | None, list[Statement]]]:
-    """Split at each tagged station: (that station or None, the values that follow)."""
+def _clauses(
+    statements: list[Statement], untagged: bool = False
+) -> list[tuple[Statement | None, list[Statement]]]:
+    """Split at each tagged station (and, with ``untagged``, at every station): (that
+    station or None, the values that follow)."""
     out: list[tuple[Statement | None, list[Statement]]] = [(None, [])]
     for st in statements:
-        if st.quantity == "station" and st.tag is not None:
+        if st.quantity == "station" and (st.tag is not None or untagged):
             out.append((st, []))
         else:
             out[-1][1].append(st)
@@ -492,9 +498,13 @@ def audit_profile_labels(
             if re.search(r"\d", rest):
                 audit.listed(blk, "unread", "digits that read as no statement")
             continue
-        for head, values in _clauses(statements):
+        for head, values in _clauses(statements, untagged=True):
             feature = None
-            if head is not None:
+            if head is not None and head.tag is None:
+                feature = _untagged(audit, blk, head, every, g, ctx, x, internal(head))
+                if feature is None:
+                    continue
+            elif head is not None:
                 cands = points.get(head.tag or "", [])
                 if not cands:
                     audit.listed(blk, "untied", f"{head.tag} is not a profile point", "station")
@@ -522,6 +532,43 @@ def audit_profile_labels(
     return audit.checks
 
 
+def _untagged(audit, blk, head, every, g, ctx, x, s_in):
+    """The feature of a station stated without a tag, or None (its check made or listed).
+
+    A bare station is a grid label, checked against its place; one at a key point
+    (within its rounding) is that point; any other names a spot on the finished grade.
+    """
+    from gradeline.geometry import vertical
+
+    label = ctx.stationing.label_value
+    t = blk.first
+    if _BARE.match(blk.text):
+        reach = (0.3 * len(t.text) + 1.0) * t.height
+        audit.compare(
+            blk,
+            head,
+            "grid station",
+            "grid line",
+            x,
+            float(label(x)),
+            unit="",
+            note=f"read from the text's place; allowed {reach:.3g}",
+        )
+        last = audit.checks[-1]
+        if abs(last.difference or 0) <= reach:
+            audit.checks[-1] = _replace_verdict(last, "ok")
+        return None
+    near = every[_nearest(every, [s_in])] if every else None
+    if near is not None and abs(near[0] - s_in) <= max(audit.tol, 0.5 * 10.0**-head.decimals):
+        audit.compare(blk, head, "station", near[2], near[0], float(label(near[0])), unit="")
+        return near
+    if g.start - 1e-9 <= s_in <= g.end + 1e-9:
+        z = float(vertical.elevation(g, np.array([s_in]))[0])
+        return (s_in, z, "finished grade", None)
+    audit.listed(blk, "untied", "a station beyond the profile", "station")
+    return None
+
+
 def _internal(stationing, labelled: float, lo: float, hi: float) -> float:
     found = stationing.regions_of_label(labelled, lo - 1e6, hi + 1e6)
     return found[0][1] if found else labelled
@@ -541,48 +588,17 @@ def _profile_value(
     from gradeline.geometry import vertical
 
     q = st.quantity
-    label = ctx.stationing.label_value
-    if q == "station":
-        t = blk.first
-        if _BARE.match(blk.text):  # a grid label under its line: read from its place
-            reach = (0.3 * len(t.text) + 1.0) * t.height
-            audit.compare(
-                blk,
-                st,
-                "grid station",
-                "grid line",
-                x,
-                float(label(x)),
-                unit="",
-                note=f"read from the text's place; allowed {reach:.3g}",
-            )
-            last = audit.checks[-1]
-            if abs(last.difference or 0) <= reach:
-                audit.checks[-1] = _replace_verdict(last, "ok")
-            return
-        s_in = internal(st)  # untagged: a key point, or the station of a spot elevation
-        i = _nearest(every, [s_in])
-        near = every[i] if i is not None else None
-        if near is not None and abs(near[0] - s_in) <= max(audit.tol, 0.5 * 10.0**-st.decimals):
-            audit.compare(blk, st, "station", near[2], near[0], float(label(near[0])), unit="")
-        elif not any(o.quantity == "elevation" for o in _siblings(blk)):
-            audit.listed(blk, "untied", "a station at no profile point", q)
-        return
     if q == "elevation":
         if feature is not None:
             s, z, name, _ = feature
-            audit.compare(blk, st, "elevation", name, s, z)
+            note = ""
+            if name.startswith("PVI"):  # a PVI's elevation is off the curve: say both
+                zg = float(vertical.elevation(g, np.array([s]))[0])
+                note = f"the finished grade at that station is {zg:.4f}"
+            audit.compare(blk, st, "elevation", name, s, z, note=note)
             return
-        # "12+34.56 EL 852.70": the station stated in the same clause, else the nearest point
-        sta = next((o for o in _siblings(blk) if o.quantity == "station"), None)
-        if sta is not None:
-            s_in = internal(sta)
-            if g.start - 1e-9 <= s_in <= g.end + 1e-9:
-                z = float(vertical.elevation(g, np.array([s_in]))[0])
-                audit.compare(blk, st, "elevation", "finished grade", s_in, z)
-                return
         i = _nearest(every, [x])
-        if i is not None and abs(every[i][0] - x) <= 6 * max(blk.first.height, 1e-9):
+        if every and abs(every[i][0] - x) <= 6 * max(blk.first.height, 1e-9):
             s, z, name, _ = every[i]
             audit.compare(blk, st, "elevation", name, s, z, note="tied by position")
             return
@@ -597,7 +613,12 @@ def _profile_value(
             return
         name = f"vertical curve at PVI {curve.index + 1}"
         if q == "L":
-            audit.compare(blk, st, "curve length L", name, curve.pvi_station, curve.length)
+            # a circular curve's L may be its horizontal length or its arc length
+            length, note = curve.length, ""
+            arc = curve.arc_length
+            if arc is not None and abs(st.value - arc) < abs(st.value - length):
+                length, note = arc, "the arc length of a circular curve"
+            audit.compare(blk, st, "curve length L", name, curve.pvi_station, length, note=note)
         elif q == "L1":
             audit.compare(blk, st, "curve length L1", name, curve.pvi_station, curve.length_in)
         elif q == "L2":
@@ -666,10 +687,6 @@ def _replace_verdict(c: LabelCheck, verdict: str) -> LabelCheck:
     from dataclasses import replace
 
     return replace(c, verdict=verdict)
-
-
-def _siblings(blk: Block) -> list[Statement]:
-    return read_statements(blk.text)[0]
 
 
 def _tangent_at(g, curves, x: float) -> int | None:

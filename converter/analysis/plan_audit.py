@@ -104,7 +104,12 @@ def _sample(pieces: list[DrawnPiece], step: float) -> NDArray[np.float64]:
         owner = np.repeat(np.arange(len(seg)), n)
         k = np.arange(int(n.sum())) - np.repeat(np.cumsum(n) - n, n)
         t = (k / n[owner])[:, None]
-        out.append(np.vstack([pts[owner] + t * seg[owner], pts[-1:]]))
+        part = np.vstack([pts[owner] + t * seg[owner], pts[-1:]])
+        if p.kind == "arc" and p.center is not None and p.radius:  # on the circle itself
+            rel = part - np.asarray(p.center)
+            dist = np.hypot(rel[:, 0], rel[:, 1])
+            part = np.asarray(p.center) + rel * (p.radius / np.where(dist > 0, dist, 1.0))[:, None]
+        out.append(part)
     return np.concatenate(out) if out else np.zeros((0, 2))
 
 
@@ -262,9 +267,16 @@ def audit_plan(
     order = np.argsort(s, kind="stable")
     s, o = s[order], o[order]
     absd = np.abs(o)
+    # runs over tolerance; pieces meeting at a joint interleave their samples there, so
+    # runs closer than a few steps are one stretch
+    runs: list[list[int]] = []
+    for i, j in true_runs(absd > tol):
+        if runs and s[i] - s[runs[-1][1]] <= 3.0 * step:
+            runs[-1][1] = j
+        else:
+            runs.append([i, j])
     over = [
-        (float(s[i]), float(s[j]), float(o[i + int(np.argmax(absd[i : j + 1]))]))
-        for i, j in true_runs(absd > tol)
+        (float(s[i]), float(s[j]), float(o[i + int(np.argmax(absd[i : j + 1]))])) for i, j in runs
     ]
     # coverage: where consecutive samples are farther apart than a few steps
     uncovered = []
