@@ -352,6 +352,22 @@ def _labels(report: dict, verdict: str) -> list[dict]:
         ("STA EQ 1+200.000 BK = 1+250.000 AH", [("equation", None, 1200.0)]),
         ("A = +5.029%  E = 5.03", [("A", None, 5.029), ("E", None, 5.03)]),
         ("PC 36+86.43", [("station", "PC", 3686.43)]),
+        ("G = +2.0 %", [("grade", None, 2.0)]),
+        ("GRADE 1.5%", [("grade", None, 1.5)]),
+        ("ELEVATION: 852.70'", [("elevation", None, 852.70)]),
+        ("RADIUS = 1800.00 ft", [("R", None, 1800.0)]),
+        ("12+00 BACK = 12+50 AHEAD", [("equation", None, 1200.0)]),
+        ("STA. 12+34.56", [("station", None, 1234.56)]),
+        ("LVC = 400", [("L", None, 400.0)]),
+        (
+            "HIGH POINT 17+73.02 EL 526.87",
+            [("station", "HIGH PT", 1773.02), ("elevation", None, 526.87)],
+        ),
+        ("BVCE 14+50.00", [("station", "BVC", 1450.0)]),
+        ("D = 3°49'11.0\"", [("D", None, 3 + 49 / 60 + 11 / 3600)]),
+        ("CURVE 3", []),
+        ("C3", []),
+        ("SHEET 2 OF 9", []),
     ],
 )
 def test_label_forms(text, expected):

@@ -101,7 +101,7 @@ _PATTERNS: list[tuple[str, re.Pattern[str]]] = [
         "equation",
         re.compile(
             rf"(?:STA(?:TION)?\.?\s*EQ(?:UATION)?\.?\s*)?(?P<back>{_STA})\s*(?:BK|BACK)\.?\s*="
-            rf"\s*(?P<ahead>{_STA})\s*(?:AH|AHD|AHEAD)\.?"
+            rf"\s*(?P<ahead>{_STA})\s*(?:AHEAD|AHD|AH)\.?"
         ),
     ),
     ("curve_name", re.compile(r"\b(?:CURVE|CRV\.?|C)\s*(?:NO\.?\s*)?\d+\b(?!\s*[=+.])")),
