@@ -105,10 +105,10 @@ def _deliverable(name: str) -> tuple[str, str | bytes, Any]:
 
     c = _CURRENT
     solved, opts, doc = c["solved"], c["opts"], c["doc"]
-    if name == "profile.dxf":
-        return name, dl.profile_dxf(solved, c["drawing"]), None
-    if name == "plan.dxf":
-        return name, dl.plan_dxf(solved, c["drawing"]), None
+    if name in ("profile.dxf", "plan.dxf"):  # each audited where it is made (self-check)
+        make = dl.profile_dxf if name == "profile.dxf" else dl.plan_dxf
+        data = make(solved, c["drawing"])
+        return name, data, dl.drawing_audit_of(solved, data, name, dl.CheckOptions().tolerances())
     if name == "sheets.pdf":
         return name, dl.sheets_pdf(solved, c["sheet_opts"]), None
     if name == "curves.csv":
@@ -126,17 +126,14 @@ def _deliverable(name: str) -> tuple[str, str | bytes, Any]:
     raise ValueError(name)
 
 
-def _check_text(solved: Any, findings: list, outdir: Path, written: list[str]) -> tuple[str, int]:
-    """check.txt: the file's own values, and a self-check of the drawings just written
-    (their linework and every label against the geometry). Returns the text and the
-    number of findings over tolerance."""
+def _check_text(solved: Any, findings: list, audits: list) -> tuple[str, int]:
+    """check.txt: the file's own values, and the self-check of the drawings made (their
+    linework and every label against the geometry). Returns the text and the number of
+    findings over tolerance."""
     from gradeline import deliverables as dl
 
     opts = dl.CheckOptions()
     tol = opts.tolerances()
-    names = [n for n in ("profile.dxf", "plan.dxf") if str(outdir / n) in written]
-    paths = [str(outdir / n) for n in names]
-    audits = dl.drawing_audits(solved, paths, tol, shown=names) if names else []
     text, _ = dl.check_report(solved.document, findings, tol, opts, audits, solved.stationing)
     over = sum(f.verdict == "over" for f in findings) + sum(a.counts()[0] for a in audits)
     return text, over
@@ -213,7 +210,8 @@ def _build_alignment(
     for name in names:  # written here, in a fixed order, each atomically
         data = done[name][0]
         if name == "check.txt":  # last of the drawings' readers: they are written by now
-            data, over = _check_text(solved, done[name][1], outdir, written)
+            audits = [done[n][1] for n in ("profile.dxf", "plan.dxf") if n in done]
+            data, over = _check_text(solved, done[name][1], audits)
         _write(outdir / name, data, inputs, written)
     review_failed = None
     if "review.txt" in done:

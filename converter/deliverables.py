@@ -35,6 +35,7 @@ __all__ = [
     "check_sheet_config",
     "check_findings",
     "check_report",
+    "drawing_audit_of",
     "drawing_audits",
     "curve_table",
     "document_warnings",
@@ -683,6 +684,17 @@ def drawing_audits(
             )
         )
     return out
+
+
+def drawing_audit_of(solved: SolvedAlignment, data: bytes, shown: str, tol: Tolerances) -> Any:
+    """The audit of a drawing held in memory (as ``build`` makes it), named ``shown``."""
+    import tempfile
+
+    with tempfile.TemporaryDirectory(prefix="gradeline-audit-") as tmp:
+        path = os.path.join(tmp, "drawing.dxf")
+        with open(path, "wb") as fh:
+            fh.write(data)
+        return drawing_audits(solved, [path], tol, shown=[shown])[0]
 
 
 def check_report(

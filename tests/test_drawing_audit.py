@@ -325,6 +325,21 @@ def _audit(args: list[str], capsys) -> tuple[int, dict]:
     return code, json.loads(capsys.readouterr().out)
 
 
+def _profile_args(dxf: Path) -> list[str]:
+    """The check of a profile drawn as :func:`_profile_drawing` draws it."""
+    return [
+        str(ROAD),
+        "--dxf",
+        str(dxf),
+        "--layer",
+        "FG-LINE",
+        "--exaggeration",
+        "10",
+        "--datum",
+        "10",
+    ]
+
+
 def _labels(report: dict, verdict: str) -> list[dict]:
     return [c for d in report["drawings"] for c in d["labels"] if c["verdict"] == verdict]
 
@@ -502,17 +517,7 @@ def test_given_transform_and_nested_blocks(tmp_path, capsys):
 def test_clean_profile_drawing_passes(tmp_path, capsys):
     dxf = _profile_drawing(ROAD, tmp_path / "prof.dxf")
     code, rep = _audit(
-        [
-            str(ROAD),
-            "--dxf",
-            str(dxf),
-            "--layer",
-            "FG-LINE",
-            "--exaggeration",
-            "10",
-            "--datum",
-            "10",
-        ],
+        _profile_args(dxf),
         capsys,
     )
     d = rep["drawings"][0]
@@ -530,17 +535,7 @@ def test_stale_elevation_label_is_found(tmp_path, capsys, pvi):
     _, pvis = _file_values(ROAD)
     dxf = _profile_drawing(ROAD, tmp_path / "prof.dxf", stale_el=pvi)
     code, rep = _audit(
-        [
-            str(ROAD),
-            "--dxf",
-            str(dxf),
-            "--layer",
-            "FG-LINE",
-            "--exaggeration",
-            "10",
-            "--datum",
-            "10",
-        ],
+        _profile_args(dxf),
         capsys,
     )
     over = _labels(rep, "over")
@@ -556,17 +551,7 @@ def test_wrong_k_and_stale_grade_are_found(tmp_path, capsys):
     _, pvis = _file_values(ROAD)
     dxf = _profile_drawing(ROAD, tmp_path / "prof.dxf", wrong_k=3, stale_grade=6)
     code, rep = _audit(
-        [
-            str(ROAD),
-            "--dxf",
-            str(dxf),
-            "--layer",
-            "FG-LINE",
-            "--exaggeration",
-            "10",
-            "--datum",
-            "10",
-        ],
+        _profile_args(dxf),
         capsys,
     )
     over = {c["quantity"]: c for c in _labels(rep, "over")}

@@ -22,7 +22,7 @@ from gradeline.errors import GradelineError
 from gradeline.geometry import horizontal
 from gradeline.geometry._runs import true_runs
 from gradeline.geometry.horizontal import HorizontalGeometry
-from gradeline.geometry.station_offset import Projector, station_offset
+from gradeline.geometry.station_offset import Projector
 from gradeline.io.dxf_read import DrawnPiece
 
 __all__ = ["PieceFinding", "PlanAudit", "Similarity", "audit_plan", "fit_similarity"]
@@ -220,14 +220,24 @@ def _element_at(hz: HorizontalGeometry, s: float) -> int:
 
 
 def _piece_findings(
-    pieces: list[DrawnPiece], hz: HorizontalGeometry, t: Similarity, tol: float
+    pieces: list[DrawnPiece], proj: Projector, t: Similarity, tol: float
 ) -> list[PieceFinding]:
+    hz = proj.geom
+    arcs = [p for p in pieces if p.kind == "arc" and p.radius is not None]
+    if not arcs:
+        return []
+    world = t.apply(np.concatenate([p.points for p in arcs]))
+    st_all, off_all, status_all = proj(world[:, 1], world[:, 0])  # all arcs in one call
+    cuts = np.cumsum([len(p.points) for p in arcs])[:-1]
     out = []
-    for p in pieces:
-        if p.kind != "arc" or p.radius is None:
-            continue
-        world = t.apply(p.points)
-        st, off, status = station_offset(hz, world[:, 1], world[:, 0])
+    for p, st, off, status in zip(
+        arcs,
+        np.split(st_all, cuts),
+        np.split(off_all, cuts),
+        np.split(status_all, cuts),
+        strict=True,
+    ):
+        assert p.radius is not None
         if (status != 0).all() or np.abs(off).max() > max(50 * tol, 0.02 * p.radius * t.scale):
             continue  # not on the alignment: other linework, reported by the offsets if at all
         a, b = float(st.min()), float(st.max())
@@ -261,7 +271,8 @@ def audit_plan(
     t = transform or Similarity()
     step = _step(pieces, hz)
     world = t.apply(_sample(pieces, step))
-    st, off, status = station_offset(hz, world[:, 1], world[:, 0])
+    proj = Projector(hz)
+    st, off, status = proj(world[:, 1], world[:, 0])
     on = status == 0
     s, o = st[on], off[on]
     order = np.argsort(s, kind="stable")
@@ -295,6 +306,6 @@ def audit_plan(
         tuple(over),
         tuple(uncovered),
         int((~on).sum()),
-        tuple(_piece_findings(pieces, hz, t, tol)),
+        tuple(_piece_findings(pieces, proj, t, tol)),
         rms_fit,
     )

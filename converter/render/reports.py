@@ -332,30 +332,17 @@ def _drawing_lines(d, tol, units, stationing) -> list[str]:
         lines += [
             f"  profile linework, layer {d.layer!r}: x = station, y = (elevation - "
             f"{p.datum:.4f}) x {p.exaggeration:.6g} ({p.mapping_from})",
-            f"  {p.samples} samples; deviation from the computed grade: max "
-            f"{p.max_deviation:.4f} {u} at {lab(p.worst_station)}, mean {p.mean_deviation:.4f} {u}",
         ]
-        if not p.over:
-            lines.append(f"  ok    within {tol.distance:g} {u} everywhere it is drawn")
-        for a, b, w in p.over:
-            lines.append(f"  OVER  {lab(a)} to {lab(b)}: deviation up to {_signed(w, 4)} {u}")
-        for a, b in p.uncovered:
-            lines.append(f"  OVER  {lab(a)} to {lab(b)}: not covered by the drawing")
+        lines += _deviation_lines(p, "deviation from the computed grade", tol, u, lab, False)
     if d.plan is not None:
         p = d.plan
         fit = f", RMS {p.rms_fit:.4f} {u}" if p.rms_fit is not None else ""
         lines += [
             f"  plan linework, layer {d.layer!r}: {p.transform.text()}{fit}",
-            f"  {p.samples} samples; lateral deviation from the computed alignment: max "
-            f"{p.max_deviation:.4f} {u} at {lab(p.worst_station)}, mean {p.mean_deviation:.4f} {u}",
         ]
-        if not p.over:
-            lines.append(f"  ok    within {tol.distance:g} {u} everywhere it is drawn")
-        for a, b, w in p.over:
-            side = "right" if w > 0 else "left"
-            lines.append(f"  OVER  {lab(a)} to {lab(b)}: off by up to {_signed(w, 4)} {u} ({side})")
-        for a, b in p.uncovered:
-            lines.append(f"  OVER  {lab(a)} to {lab(b)}: not covered by the drawing")
+        lines += _deviation_lines(
+            p, "lateral deviation from the computed alignment", tol, u, lab, True
+        )
         for f in p.pieces:
             what = (
                 f"arc drawn with R {f.drawn:.4f}, computed {f.computed:.4f} {u}"
@@ -369,6 +356,34 @@ def _drawing_lines(d, tol, units, stationing) -> list[str]:
         lines.append(f"  note  {n} skipped: {reason}")
     lines += _label_lines(d.labels, lab)
     return lines
+
+
+def _deviation_lines(p, what: str, tol, u: str, lab, sided: bool) -> list[str]:
+    """Samples, worst and mean deviation, ranges over tolerance and gaps of a linework check."""
+    lines = [
+        f"  {p.samples} samples; {what}: max {p.max_deviation:.4f} {u} at "
+        f"{lab(p.worst_station)}, mean {p.mean_deviation:.4f} {u}"
+    ]
+    if not p.over:
+        lines.append(f"  ok    within {tol.distance:g} {u} everywhere it is drawn")
+    for a, b, w in p.over:
+        side = (" (right)" if w > 0 else " (left)") if sided else ""
+        lines.append(f"  OVER  {lab(a)} to {lab(b)}: off by up to {_signed(w, 4)} {u}{side}")
+    for a, b in p.uncovered:
+        lines.append(f"  OVER  {lab(a)} to {lab(b)}: not covered by the drawing")
+    return lines
+
+
+def _linework_payload(p) -> dict[str, Any]:
+    """The fields profile and plan linework checks share, for JSON."""
+    return {
+        "samples": p.samples,
+        "max_deviation": p.max_deviation,
+        "mean_deviation": p.mean_deviation,
+        "worst_station": p.worst_station,
+        "over_tolerance": [{"start": a, "end": b, "worst": w} for a, b, w in p.over],
+        "not_covered": [{"start": a, "end": b} for a, b in p.uncovered],
+    }
 
 
 def _label_lines(checks, lab) -> list[str]:
@@ -408,12 +423,7 @@ def _drawing_payload(d) -> dict[str, Any]:
             "exaggeration": p.exaggeration,
             "datum": p.datum,
             "mapping": p.mapping_from,
-            "samples": p.samples,
-            "max_deviation": p.max_deviation,
-            "mean_deviation": p.mean_deviation,
-            "worst_station": p.worst_station,
-            "over_tolerance": [{"start": a, "end": b, "worst": w} for a, b, w in p.over],
-            "not_covered": [{"start": a, "end": b} for a, b in p.uncovered],
+            **_linework_payload(p),
         }
     if d.plan is not None:
         p = d.plan
@@ -427,12 +437,7 @@ def _drawing_payload(d) -> dict[str, Any]:
                 "how": t.how,
                 "rms": p.rms_fit,
             },
-            "samples": p.samples,
-            "max_deviation": p.max_deviation,
-            "mean_deviation": p.mean_deviation,
-            "worst_station": p.worst_station,
-            "over_tolerance": [{"start": a, "end": b, "worst": w} for a, b, w in p.over],
-            "not_covered": [{"start": a, "end": b} for a, b in p.uncovered],
+            **_linework_payload(p),
             "beyond_ends": p.beyond,
             "pieces": [
                 {
