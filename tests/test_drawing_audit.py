@@ -663,3 +663,30 @@ def test_build_checks_its_own_drawings(tmp_path):
     assert "drawing profile.dxf (profile)" in text
     assert "drawing plan.dxf (plan)" in text
     assert "0 OVER" in text and " OVER  " not in text
+
+
+@pytest.mark.skipif(not REALWORLD.is_dir(), reason=f"{REALWORLD} is absent")
+@pytest.mark.parametrize(
+    ("name", "alignment"),
+    [
+        ("im_m3_rs_cl.xml", None),
+        ("im_y10_rs_cl.xml", None),
+        ("im_y11_rs_cl.xml", None),
+        ("lx2gltf_subdivision_v20.xml", "1stave"),
+    ],
+)
+def test_our_drawings_of_the_real_world_files_pass(tmp_path, capsys, name, alignment):
+    # other people's files (grads, large coordinates, a plan without profile): every
+    # label of our own drawings is read and agrees
+    path = str(REALWORLD / name)
+    base = [path] + (["--alignment", alignment] if alignment else [])
+    prof, plan = tmp_path / "p.dxf", tmp_path / "pl.dxf"
+    main(["dxf", *base, "-o", str(prof), "--plan", str(plan)])
+    dxfs = [p for p in (prof, plan) if p.exists()]
+    capsys.readouterr()
+    _, rep = _audit([*base] + [a for p in dxfs for a in ("--dxf", str(p))], capsys)
+    assert len(rep["drawings"]) == len(dxfs) >= 1
+    for d in rep["drawings"]:
+        assert d["labels"]
+        assert {c["verdict"] for c in d["labels"]} == {"ok"}, d["file"]
+        assert not d["linework"]["over_tolerance"] and not d["linework"]["not_covered"]

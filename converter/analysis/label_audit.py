@@ -96,7 +96,7 @@ _TAG_RE = "|".join(sorted((re.escape(t) for t in TAGS), key=len, reverse=True))
 
 # (name, pattern): tried in this order; what a pattern matched is not read again
 _PATTERNS: list[tuple[str, re.Pattern[str]]] = [
-    ("mapping", re.compile(r"X\s*=\s*STATION.*$")),
+    ("mapping", re.compile(r"^.*\bX\s*=\s*STATION.*$")),
     (
         "equation",
         re.compile(
