@@ -20,7 +20,6 @@ import tempfile
 import time
 from pathlib import Path
 
-
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
 from bench._common import synthetic_plan, synthetic_profile  # noqa: E402
