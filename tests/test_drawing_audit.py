@@ -690,3 +690,31 @@ def test_our_drawings_of_the_real_world_files_pass(tmp_path, capsys, name, align
         assert d["labels"]
         assert {c["verdict"] for c in d["labels"]} == {"ok"}, d["file"]
         assert not d["linework"]["over_tolerance"] and not d["linework"]["not_covered"]
+
+
+def test_hostile_texts_are_listed_quickly(tmp_path, capsys):
+    # a 100,000-digit text and a text of non-finite height: listed, in bounded time
+    base = [str(US_SAMPLE), "--alignment", "Orrin Vale Bypass"]
+    plan = tmp_path / "pl.dxf"
+    assert main(["dxf", *base, "-o", str(tmp_path / "p.dxf"), "--plan", str(plan)]) == 0
+    doc = ezdxf.readfile(plan)
+    msp = doc.modelspace()
+    msp.add_text("7" * 100_000, height=5.0, dxfattribs={"insert": (0, 0)})
+    msp.add_text("EL 999.99", height=float("nan"), dxfattribs={"insert": (10, 10)})
+    doc.saveas(plan)
+    code, rep = _audit([*base, "--dxf", str(plan)], capsys)
+    notes = [c["note"] for c in _labels(rep, "unread") + _labels(rep, "untied")]
+    assert "longer than 1000 characters: not read" in notes
+    assert code == 0
+
+
+def test_hostile_text_in_a_profile_is_listed(tmp_path, capsys):
+    base = [str(US_SAMPLE), "--alignment", "Orrin Vale Bypass"]
+    prof = tmp_path / "p.dxf"
+    assert main(["dxf", *base, "-o", str(prof)]) == 0
+    doc = ezdxf.readfile(prof)
+    doc.modelspace().add_text("1." * 50_000, height=5.0, dxfattribs={"insert": (2000, 50)})
+    doc.saveas(prof)
+    code, rep = _audit([*base, "--dxf", str(prof)], capsys)
+    assert [c["note"] for c in _labels(rep, "unread")] == ["longer than 1000 characters: not read"]
+    assert code == 0

@@ -199,6 +199,11 @@ def _angle(m: re.Match[str], p: str) -> tuple[float, int] | None:
     return None
 
 
+#: Longest label text read; a longer one (no label is) is listed unread, which also keeps
+#: the patterns' work bounded on hostile drawings.
+MAX_LABEL_CHARS = 1000
+
+
 def read_statements(text: str) -> tuple[list[Statement], str]:
     """The statements of one label text, and what of it was read as none.
 
@@ -212,6 +217,8 @@ def read_statements(text: str) -> tuple[list[Statement], str]:
     >>> read_statements("-1.850%")[0][0].quantity
     'grade'
     """
+    if len(text) > MAX_LABEL_CHARS:
+        return [], text
     work = normalize(text)
     found: list[tuple[int, Statement]] = []
     for name, pat in _PATTERNS:
@@ -421,6 +428,14 @@ class _Audit:
         )
 
 
+def _unread(audit: _Audit, blk: Block, rest: str) -> None:
+    """List a block that states nothing, if it holds digits (a text without is a word)."""
+    if len(blk.text) > MAX_LABEL_CHARS:
+        audit.listed(blk, "unread", f"longer than {MAX_LABEL_CHARS} characters: not read")
+    elif re.search(r"\d", rest):
+        audit.listed(blk, "unread", "digits that read as no statement")
+
+
 def _clauses(
     statements: list[Statement], untagged: bool = False
 ) -> list[tuple[Statement | None, list[Statement]]]:
@@ -495,8 +510,7 @@ def audit_profile_labels(
         statements, rest = read_statements(blk.text)
         x = blk.first.x
         if not statements:
-            if re.search(r"\d", rest):
-                audit.listed(blk, "unread", "digits that read as no statement")
+            _unread(audit, blk, rest)
             continue
         for head, values in _clauses(statements, untagged=True):
             feature = None
@@ -750,8 +764,7 @@ def audit_plan_labels(
     for b, blk in enumerate(blocks):
         statements, rest = read_statements(blk.text)
         if not statements:
-            if re.search(r"\d", rest):
-                audit.listed(blk, "unread", "digits that read as no statement")
+            _unread(audit, blk, rest)
             continue
         st_here = float(s_text[b])
         for head, values in _clauses(statements):

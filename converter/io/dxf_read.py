@@ -333,6 +333,8 @@ def _text(e: Any, layer: str, view: WorldView) -> None:
     text = text.strip()
     if not text:
         return
+    if not math.isfinite(height):
+        height = 0.0  # read, never grouped with others
     if not (math.isfinite(x) and math.isfinite(y)):
         _skip(view, f"{kind} with non-finite coordinates")
         return
