@@ -41,6 +41,7 @@ COMMANDS = (
     "design",
     "check",
     "fit",
+    "convert",
     "build",
     "demo",
     "curves",

@@ -1,0 +1,141 @@
+"""IFC 4.3 output (``convert``) checked with ifcopenshell, the open IFC toolkit.
+
+Outside references: ifcopenshell's own geometry kernel evaluates the written
+``IfcCompositeCurve`` (plan) and ``IfcGradientCurve`` (plan and elevation), and
+every point it gives must lie on gradeline's computed alignment at gradeline's
+computed elevation; the business-logic values must be the LandXML files' own
+stated lengths and radii (read with lxml), for the bundled samples and the
+real-world road ``im_m3_rs_cl.xml`` (buildingSMART Finland, CC BY 4.0).
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+import numpy as np
+import pytest
+from lxml import etree
+
+from gradeline.cli import main
+from gradeline.deliverables import open_alignment
+from gradeline.geometry import vertical
+from gradeline.geometry.station_offset import station_offset
+from tests.conftest import METRIC_SAMPLE, US_SAMPLE
+
+ifcopenshell = pytest.importorskip("ifcopenshell")
+geom = pytest.importorskip("ifcopenshell.geom")
+
+REALWORLD = Path(__file__).resolve().parents[2] / "shared" / "realworld"
+ROAD = REALWORLD / "im_m3_rs_cl.xml"
+
+CASES = [
+    (US_SAMPLE, "Orrin Vale Bypass"),
+    (US_SAMPLE, "Kettle Lane"),
+    (METRIC_SAMPLE, None),
+    pytest.param(ROAD, None, marks=pytest.mark.skipif(not ROAD.is_file(), reason="absent")),
+]
+
+
+def _convert(tmp_path, path, name) -> Path:
+    out = tmp_path / "out.ifc"
+    args = ["convert", str(path), str(out)] + (["--alignment", name] if name else [])
+    assert main(args) == 0
+    return out
+
+
+def _alignment_of(model, name):
+    for al in model.by_type("IfcAlignment"):
+        if al.Name == name:
+            return al
+    raise AssertionError(name)
+
+
+@pytest.mark.parametrize(("path", "name"), CASES)
+def test_ifc_geometry_lies_on_the_computed_alignment(tmp_path, path, name):
+    ctx = open_alignment(path, name)
+    model = ifcopenshell.open(str(_convert(tmp_path, path, name)))
+    settings = geom.settings()
+    settings.set("convert-back-units", True)  # in the file's unit, as it was written
+    grad = model.by_type("IfcGradientCurve")
+    assert len(grad) == 1
+    v = np.array(geom.create_shape(settings, grad[0]).verts).reshape(-1, 3)
+    assert len(v) > 100
+    st, off, status = station_offset(ctx.horizontal, v[:, 1], v[:, 0])
+    assert (status == 0).all()
+    # spirals: ifcopenshell's and gradeline's evaluations agree to a micro-unit
+    assert np.abs(off).max() < 1e-5
+    assert np.abs(vertical.elevation(ctx.geometry, st) - v[:, 2]).max() < 1e-6
+    hz, g = ctx.horizontal, ctx.geometry
+    # the gradient curve spans the profile (within the plan); its ends to 1e-4
+    assert st.min() == pytest.approx(max(hz.start, g.start), abs=1e-4)
+    assert st.max() == pytest.approx(min(hz.end, g.end), abs=1e-4)
+
+
+def _stated(path: Path, name: str | None):
+    """(element, length, radius, rot) of CoordGeom as the file states them (lxml)."""
+    root = etree.parse(str(path)).getroot()
+    out = []
+    for al in root.iter("{*}Alignment"):
+        if name is not None and al.get("name") != name:
+            continue
+        for el in al.iter("{*}Line", "{*}Curve", "{*}Spiral"):
+            out.append(
+                (
+                    etree.QName(el).localname,
+                    float(el.get("length")),
+                    float(el.get("radius") or el.get("radiusEnd") or 0),
+                    el.get("rot"),
+                )
+            )
+        break
+    return out
+
+
+@pytest.mark.parametrize(("path", "name"), CASES)
+def test_business_logic_holds_the_files_values(tmp_path, path, name):
+    ctx = open_alignment(path, name)
+    model = ifcopenshell.open(str(_convert(tmp_path, path, name)))
+    from ifcopenshell.api import alignment as api
+
+    al = _alignment_of(model, ctx.alignment.name)
+    segs = [s.DesignParameters for s in api.get_layout_segments(api.get_horizontal_layout(al))]
+    assert segs[-1].SegmentLength == 0  # the closing zero-length segment
+    stated = _stated(path, name)
+    assert len(segs) - 1 == len(stated)
+    kinds = {"Line": "LINE", "Curve": "CIRCULARARC", "Spiral": "CLOTHOID"}
+    for seg, (el, length, radius, rot) in zip(segs, stated, strict=False):
+        assert seg.PredefinedType == kinds[el]
+        # stated to 6 decimals, from coordinates also rounded to 6: 1e-5
+        assert seg.SegmentLength == pytest.approx(length, rel=1e-9, abs=1e-5)
+        if el == "Curve":  # IFC: positive radius turns counter-clockwise
+            assert seg.StartRadiusOfCurvature == pytest.approx(
+                radius if rot == "ccw" else -radius, abs=1e-5
+            )
+    start = api.get_alignment_start_station(model, al)
+    assert start == pytest.approx(float(ctx.stationing.label_value(ctx.horizontal.start)))
+
+
+def test_units_equations_and_determinism(tmp_path):
+    a = _convert(tmp_path, METRIC_SAMPLE, None).read_bytes()
+    b = _convert(tmp_path, METRIC_SAMPLE, None).read_bytes()
+    assert a == b
+    model = ifcopenshell.open(str(tmp_path / "out.ifc"))
+    ctx = open_alignment(METRIC_SAMPLE, None)
+    (eq,) = ctx.alignment.equations
+    stations = {
+        p.Name: p.NominalValue.wrappedValue
+        for p in model.by_type("IfcPropertySingleValue")
+        if p.Name in ("Station", "IncomingStation") and p.NominalValue.wrappedValue
+    }
+    assert stations == {"Station": eq.ahead, "IncomingStation": eq.back}
+    us = ifcopenshell.open(str(_convert(tmp_path, US_SAMPLE, "Kettle Lane")))
+    (unit,) = [u for u in us.by_type("IfcConversionBasedUnit") if u.UnitType == "LENGTHUNIT"]
+    # the sample is in US survey feet: 1200/3937 m (NIST)
+    assert unit.ConversionFactor.ValueComponent.wrappedValue == pytest.approx(1200 / 3937)
+
+
+def test_convert_refuses_clearly(tmp_path, capsys):
+    assert main(["convert", str(US_SAMPLE), str(tmp_path / "x.xml")]) == 2
+    assert "must be an .ifc file" in capsys.readouterr().err
+    assert main(["convert", str(tmp_path / "a.ifc"), str(tmp_path / "b.ifc")]) == 2
+    assert "reading IFC is not supported yet" in capsys.readouterr().err
