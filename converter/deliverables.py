@@ -36,6 +36,7 @@ __all__ = [
     "check_findings",
     "check_report",
     "ifc_bytes",
+    "landxml_of",
     "drawing_audit_of",
     "drawing_audits",
     "curve_table",
@@ -718,6 +719,19 @@ def ifc_bytes(doc: Document, alignment: str | None = None) -> tuple[bytes, list[
     if not solved:
         raise UsageError("no alignment could be written to IFC: " + "; ".join(left_out))
     return write_ifc(solved, input_name(doc.path)), left_out
+
+
+def landxml_of(doc: Document, alignment: str | None = None) -> tuple[bytes, list[str]]:
+    """LandXML 1.2 of a document read from elsewhere (IFC): its alignments (or the one
+    named), and the one-line reason of each broken one left out."""
+    from dataclasses import replace
+
+    if alignment is not None:
+        doc = replace(doc, alignments=(doc.alignment(alignment),), broken=())
+    left_out = [f"alignment {b.name!r} left out: {b.error}" for b in doc.broken]
+    if not doc.alignments:
+        raise UsageError("no alignment could be read: " + "; ".join(left_out))
+    return landxml_bytes(doc), left_out
 
 
 def check_report(

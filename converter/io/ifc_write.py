@@ -175,7 +175,12 @@ def write_ifc(solved_alignments: Sequence[Any], project: str = "") -> bytes:
         start = float(solved.horizontal.start)
         _horizontal(f, api.get_horizontal_layout(al), solved)
         if solved.geometry is not None:
-            _vertical(f, api.get_vertical_layout(al), solved, start)
+            vertical_layout = api.get_vertical_layout(al)
+            if solved.profile is not None:
+                vertical_layout.Name = solved.profile.name
+            _vertical(f, vertical_layout, solved, start)
+        if al_model.description:
+            al.Description = al_model.description
         label0 = float(solved.stationing.label_value(start))
         api.add_stationing_referent(f, "start", al, 0.0, label0)
         for eq in al_model.equations:

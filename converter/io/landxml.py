@@ -660,7 +660,7 @@ def _parse_streaming(path: str) -> Document:
 
 
 def read(path: str | os.PathLike[str]) -> Document:
-    """Read a LandXML file from disk.
+    """Read a LandXML file from disk (or an IFC 4.3 file: :mod:`gradeline.io.ifc_read`).
 
     Raises
     ------
@@ -668,6 +668,12 @@ def read(path: str | os.PathLike[str]) -> Document:
         The file is missing, unreadable, too large or not valid LandXML.
     """
     name = os.fspath(path)
+    from gradeline.io.ifc_read import looks_like_ifc
+
+    if looks_like_ifc(name):  # IFC 4.3 alignments read into the same model
+        from gradeline.io.ifc_read import read_ifc
+
+        return read_ifc(name)
     src = SourceRef(name, 1)
     try:
         size = os.path.getsize(name)
