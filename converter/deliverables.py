@@ -35,6 +35,7 @@ __all__ = [
     "check_sheet_config",
     "check_findings",
     "check_report",
+    "comparison",
     "ifc_bytes",
     "landxml_of",
     "drawing_audit_of",
@@ -732,6 +733,28 @@ def landxml_of(doc: Document, alignment: str | None = None) -> tuple[bytes, list
     if not doc.alignments:
         raise UsageError("no alignment could be read: " + "; ".join(left_out))
     return landxml_bytes(doc), left_out
+
+
+def comparison(
+    doc: Document, alignment: str | None, profile: str | None, other_path: str, tol: Tolerances
+) -> list[Finding]:
+    """Findings of the same alignment (by name, else the other file's only one) as
+    ``other_path`` describes it, against ``doc``'s."""
+    from gradeline.analysis.compare import compare_alignments
+    from gradeline.io import landxml
+
+    mine = solve(doc, alignment, profile)
+    other = landxml.read(other_path)
+    name = mine.alignment.name
+    if name not in other.names:
+        if len(other.names) != 1:
+            raise UsageError(
+                f"{other_path}: no alignment named {name!r}; it has "
+                + (", ".join(repr(n) for n in other.names) or "none")
+            )
+        name = other.names[0]
+    theirs = solve(other, name, None)
+    return compare_alignments(mine, theirs, tol, input_name(other_path))
 
 
 def check_report(

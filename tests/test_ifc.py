@@ -183,3 +183,39 @@ def test_convert_refuses_clearly(tmp_path, capsys):
     assert main(["convert", str(bad), str(tmp_path / "b.xml")]) == 2
     err = capsys.readouterr().err.strip().splitlines()
     assert len(err) == 1 and str(bad) in err[0] and "not a readable IFC file" in err[0]
+
+
+def test_check_against_finds_an_injected_change(tmp_path, capsys):
+    # the same alignment as LandXML and IFC agrees; a radius (1500 -> 1510 ft) and a
+    # PVI elevation (+0.5 ft) altered in the IFC are each named with both values
+    base = [str(US_SAMPLE), "--alignment", "Orrin Vale Bypass"]
+    ifc = _convert(tmp_path, US_SAMPLE, "Orrin Vale Bypass")
+    assert main(["check", *base, "--against", str(ifc)]) == 0
+    capsys.readouterr()
+    model = ifcopenshell.open(str(ifc))
+    arc = [
+        s
+        for s in model.by_type("IfcAlignmentHorizontalSegment")
+        if s.PredefinedType == "CIRCULARARC"
+    ][1]
+    assert arc.StartRadiusOfCurvature == pytest.approx(1500.0)  # Curve 6 of the sample
+    arc.StartRadiusOfCurvature = arc.EndRadiusOfCurvature = 1510.0
+    par = [
+        s
+        for s in model.by_type("IfcAlignmentVerticalSegment")
+        if s.PredefinedType == "PARABOLICARC"
+    ]
+    par[1].StartHeight += 0.5  # the curve at PVI 26+00.00
+    bad = tmp_path / "bad.ifc"
+    model.write(str(bad))
+    code = main(["check", *base, "--against", str(bad), "--json"])
+    import json
+
+    over = [f for f in json.loads(capsys.readouterr().out)["findings"] if f["verdict"] == "over"]
+    assert code == 1
+    by = {(f["element"], f["index"], f["quantity"].split(" (")[0]): f for f in over}
+    r = by[("Curve", 6, "radius at start")]
+    assert (r["stated"], r["computed"]) == (pytest.approx(1510.0), pytest.approx(1500.0))
+    z = by[("ParaCurve", 3, "PVI elevation")]
+    assert (z["stated"], z["computed"]) == (pytest.approx(513.4), pytest.approx(512.9))
+    assert z["station"] == pytest.approx(2600.0)

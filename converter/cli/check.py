@@ -72,6 +72,12 @@ def add_parser(sub: Any) -> None:
     )
     p.add_argument("--no-labels", action="store_true", help="skip the audit of the drawings' texts")
     p.add_argument(
+        "--against",
+        metavar="OTHER",
+        help="another description of the same alignment (LandXML or IFC 4.3, found by name): "
+        "compare element by element and by samples along the common stations",
+    )
+    p.add_argument(
         "--tolerance",
         type=float,
         default=0.01,
@@ -106,6 +112,8 @@ def run(args: argparse.Namespace) -> int:
         findings += check.check_ground_against_surface(
             base.alignment, with_tin.ground_at, tol, with_tin.alignment.grounds[0].name
         )
+    if args.against:
+        findings += dl.comparison(doc, args.alignment, args.profile, args.against, tol)
     drawings, stationing = [], None
     if args.dxf:
         from gradeline.analysis.drawing_audit import AuditOptions
@@ -123,5 +131,5 @@ def run(args: argparse.Namespace) -> int:
         drawings = dl.drawing_audits(solved, args.dxf, tol, audit)
         stationing = solved.stationing
     text, over = dl.check_report(doc, findings, tol, opts, drawings, stationing)
-    emit(text, args.output, [args.file, *args.dxf])
+    emit(text, args.output, [args.file, *args.dxf, *([args.against] if args.against else [])])
     return 1 if over else 0
