@@ -219,3 +219,43 @@ def test_check_against_finds_an_injected_change(tmp_path, capsys):
     z = by[("ParaCurve", 3, "PVI elevation")]
     assert (z["stated"], z["computed"]) == (pytest.approx(513.4), pytest.approx(512.9))
     assert z["station"] == pytest.approx(2600.0)
+
+
+@pytest.mark.parametrize(
+    ("ours", "ifc"),
+    [("bloss", "BLOSSCURVE"), ("cosine", "COSINECURVE"), ("sinusoid", "SINECURVE")],
+)
+def test_spiral_types_agree_with_ifcopenshell(tmp_path, ours, ifc):
+    # the sample's first transition given another curvature law: ifcopenshell's own
+    # evaluation of the IFC type lies on gradeline's evaluation of the LandXML type
+    import dataclasses
+
+    from gradeline.io import landxml
+    from gradeline.io.ifc_write import write_ifc
+    from gradeline.solved import solve
+
+    doc = landxml.read(str(US_SAMPLE))
+    al = doc.alignment("Orrin Vale Bypass")
+    els = list(al.horizontal.elements)
+    els[1] = dataclasses.replace(els[1], spi_type=ours)
+    hz = dataclasses.replace(al.horizontal, elements=tuple(els))
+    doc = dataclasses.replace(doc, alignments=(dataclasses.replace(al, horizontal=hz),))
+    ctx = solve(doc, "Orrin Vale Bypass", None)
+    out = tmp_path / "s.ifc"
+    out.write_bytes(write_ifc([ctx]))
+    model = ifcopenshell.open(str(out))
+    from ifcopenshell.api import alignment as api
+
+    layout = api.get_horizontal_layout(model.by_type("IfcAlignment")[0])
+    assert api.get_layout_segments(layout)[1].DesignParameters.PredefinedType == ifc
+    settings = geom.settings()
+    settings.set("convert-back-units", True)
+    curve = [c for c in model.by_type("IfcCompositeCurve") if not c.is_a("IfcGradientCurve")][0]
+    v = np.array(geom.create_shape(settings, curve).verts).reshape(-1, 3)
+    st, off, _ = station_offset(ctx.horizontal, v[:, 1], v[:, 0])
+    g = ctx.horizontal.elements[1]
+    on = (st > g.start_station) & (st < g.end_station)
+    assert on.sum() > 50
+    assert np.abs(off[on]).max() < 1e-5  # a clothoid there instead would be 0.87 ft off
+    again = open_alignment(out, "Orrin Vale Bypass")
+    assert again.horizontal.elements[1].kind == ours

@@ -1,6 +1,7 @@
 """IFC 4.3 reader: ``IfcAlignment`` business logic into the same model LandXML gives.
 
-Horizontal segments become lines, arcs and clothoid spirals whose end is the next
+Horizontal segments become lines, arcs and spirals (clothoid, Bloss, cosine, sine)
+whose end is the next
 segment's start (IFC closes a layout with a zero-length segment); vertical
 segments become PVIs: a grade break between two gradients, a ``ParaCurve`` in
 the middle of a parabolic arc (IFC's parabolic arcs are symmetric), a
@@ -36,6 +37,16 @@ from gradeline.model.base import Broken
 from gradeline.model.units import Units
 
 __all__ = ["looks_like_ifc", "read_ifc"]
+
+
+def _spiral_kinds() -> dict[str, str]:
+    from gradeline.io.ifc_write import SPIRALS
+
+    return {ifc: ours for ours, ifc in SPIRALS.items()}
+
+
+#: IFC spiral segment types read, and the LandXML spiType each becomes.
+_SPIRAL_KINDS = _spiral_kinds()
 
 
 def looks_like_ifc(path: str) -> bool:
@@ -233,7 +244,7 @@ def _horizontal(layout: Any, lk: float, ak: float, path: str) -> tuple:
             rot = "ccw" if r0 > 0 else "cw"
             stated = (("length", length), ("radius", abs(r0)))
             out.append(HCurve(start, (cy, cx), end, rot, None, stated, src))
-        elif kind == "CLOTHOID":
+        elif kind in _SPIRAL_KINDS:
             rot = "ccw" if (r1 if r1 != 0 else r0) > 0 else "cw"
             out.append(
                 HSpiral(
@@ -243,7 +254,7 @@ def _horizontal(layout: Any, lk: float, ak: float, path: str) -> tuple:
                     math.inf if r0 == 0 else abs(r0),
                     math.inf if r1 == 0 else abs(r1),
                     rot,
-                    "clothoid",
+                    _SPIRAL_KINDS[kind],
                     None,
                     (("length", length),),
                     src,
