@@ -103,22 +103,10 @@ def _plan(c: Collector, a, b, unit: str, where: str) -> None:
     c.distance("Alignment", None, ha.end, f"end station ({where})", hb.end, ha.end, None, unit)
     if hi <= lo:
         return
-    s = np.linspace(lo, hi, int(min(SAMPLES, max(2, (hi - lo) / 1.0))))
+    s = _stations(lo, hi)
     na, ea_, _ = a.plan_at(s)
     nb, eb_, _ = b.plan_at(s)
-    d = np.hypot(na - nb, ea_ - eb_)
-    worst = int(np.nanargmax(d))
-    c.distance(
-        "Alignment",
-        None,
-        float(s[worst]),
-        f"plan position at the same station ({where}; worst of {len(s)})",
-        float(d[worst]),
-        0.0,
-        None,
-        unit,
-        miss=True,
-    )
+    _worst(c, "Alignment", "plan position", s, np.hypot(na - nb, ea_ - eb_), unit, where)
 
 
 def _profile(c: Collector, a, b, unit: str, where: str) -> None:
@@ -167,14 +155,23 @@ def _profile(c: Collector, a, b, unit: str, where: str) -> None:
     lo, hi = max(ga.start, gb.start), min(ga.end, gb.end)
     if hi <= lo:
         return
-    s = np.linspace(lo, hi, int(min(SAMPLES, max(2, (hi - lo) / 1.0))))
-    d = np.abs(a.elevation(s) - b.elevation(s))
+    s = _stations(lo, hi)
+    _worst(c, "ProfAlign", "elevation", s, np.abs(a.elevation(s) - b.elevation(s)), unit, where)
+
+
+def _stations(lo: float, hi: float) -> np.ndarray:
+    """A sample every file unit from ``lo`` to ``hi`` (at most :data:`SAMPLES`)."""
+    return np.linspace(lo, hi, int(min(SAMPLES, max(2, hi - lo))))
+
+
+def _worst(c: Collector, element: str, what: str, s, d, unit: str, where: str) -> None:
+    """One finding: the largest of the differences ``d`` at stations ``s``."""
     worst = int(np.nanargmax(d))
     c.distance(
-        "ProfAlign",
+        element,
         None,
         float(s[worst]),
-        f"elevation at the same station ({where}; worst of {len(s)})",
+        f"{what} at the same station ({where}; worst of {len(s)})",
         float(d[worst]),
         0.0,
         None,
