@@ -35,6 +35,7 @@ __all__ = [
     "check_sheet_config",
     "check_findings",
     "check_report",
+    "representation_findings",
     "comparison",
     "ifc_bytes",
     "landxml_of",
@@ -755,6 +756,24 @@ def comparison(
         name = other.names[0]
     theirs = solve(other, name, None)
     return compare_alignments(mine, theirs, tol, input_name(other_path))
+
+
+def representation_findings(
+    doc: Document, path: str, tol: Tolerances, alignment: str | None = None
+) -> list[Finding]:
+    """For an IFC file: each alignment's geometric representation (as ifcopenshell's
+    kernel evaluates it) against the alignment solved from its business logic."""
+    from gradeline.analysis.compare import compare_representation
+    from gradeline.io.ifc_read import representation_points
+
+    curves = representation_points(path)
+    out: list[Finding] = []
+    for al in doc.alignments:
+        if alignment is not None and al.name != alignment:
+            continue
+        plan, curve3d = curves.get(al.name, (None, None))
+        out += compare_representation(solve(doc, al.name, None), plan, curve3d, tol)
+    return out
 
 
 def check_report(

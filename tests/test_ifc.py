@@ -259,3 +259,41 @@ def test_spiral_types_agree_with_ifcopenshell(tmp_path, ours, ifc):
     assert np.abs(off[on]).max() < 1e-5  # a clothoid there instead would be 0.87 ft off
     again = open_alignment(out, "Orrin Vale Bypass")
     assert again.horizontal.elements[1].kind == ours
+
+
+def test_representation_checked_against_business_logic(tmp_path, capsys):
+    # an IFC carries two descriptions; a radius edited in the business logic alone
+    # (1500 -> 1510 ft) leaves the curves ifcopenshell evaluates where they were
+    import json
+
+    base = ["--alignment", "Orrin Vale Bypass", "--json"]
+    ifc = _convert(tmp_path, US_SAMPLE, "Orrin Vale Bypass")
+    assert main(["check", str(ifc), *base]) == 0
+    rep = [
+        f
+        for f in json.loads(capsys.readouterr().out)["findings"]
+        if "representation" in f["quantity"]
+    ]
+    assert [f["element"] for f in rep] == [
+        "IfcCompositeCurve",
+        "IfcGradientCurve",
+        "IfcGradientCurve",
+    ]
+    assert all(f["verdict"] == "ok" and f["stated"] < 1e-5 for f in rep)
+    model = ifcopenshell.open(str(ifc))
+    arc = [
+        s
+        for s in model.by_type("IfcAlignmentHorizontalSegment")
+        if s.PredefinedType == "CIRCULARARC"
+    ][1]
+    arc.StartRadiusOfCurvature = arc.EndRadiusOfCurvature = 1510.0
+    model.write(str(ifc))
+    assert main(["check", str(ifc), *base]) == 1
+    rep = [
+        f
+        for f in json.loads(capsys.readouterr().out)["findings"]
+        if "representation" in f["quantity"]
+    ]
+    plan = rep[0]
+    assert plan["element"] == "IfcCompositeCurve" and plan["verdict"] == "over"
+    assert plan["stated"] > 1.0  # the alignment after the arc has moved by feet

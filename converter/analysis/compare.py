@@ -15,7 +15,7 @@ import numpy as np
 
 from gradeline.analysis.findings import Collector, Finding, Tolerances
 
-__all__ = ["compare_alignments"]
+__all__ = ["compare_alignments", "compare_representation"]
 
 #: Most samples a side for the along-the-road comparison.
 SAMPLES = 200_000
@@ -178,3 +178,38 @@ def _worst(c: Collector, element: str, what: str, s, d, unit: str, where: str) -
         unit,
         miss=True,
     )
+
+
+def compare_representation(a, plan, curve3d, tol: Tolerances) -> list[Finding]:
+    """The geometric representation a file carries (evaluated points) against the
+    alignment solved from its business logic: the largest offset from the plan and,
+    for a 3D curve, the largest elevation difference at the same station."""
+    from gradeline.geometry.station_offset import Projector
+
+    c = Collector(a.alignment.name, tol)
+    unit = a.document.units.symbol
+    if a.horizontal is None:
+        return c.items
+    proj = Projector(a.horizontal)
+    what = "geometric representation against the business logic"
+    for name, pts in (("IfcCompositeCurve", plan), ("IfcGradientCurve", curve3d)):
+        if pts is None or not len(pts):
+            c.note(name, None, None, what, "info", "no such curve in the file, or not evaluated")
+            continue
+        st, off, status = proj(pts[:, 1], pts[:, 0])
+        d = np.where(
+            status == 0,
+            np.abs(off),
+            np.hypot(
+                off, np.minimum(np.abs(st - a.horizontal.start), np.abs(st - a.horizontal.end))
+            ),
+        )
+        _worst(c, name, f"{what}: plan position", st, d, unit, "ifcopenshell's evaluation")
+        if name == "IfcGradientCurve" and a.geometry is not None:
+            inside = (st >= a.geometry.start) & (st <= a.geometry.end)
+            if inside.any():
+                dz = np.abs(a.elevation(st[inside]) - pts[inside, 2])
+                _worst(
+                    c, name, f"{what}: elevation", st[inside], dz, unit, f"{inside.sum()} points"
+                )
+    return c.items

@@ -106,6 +106,10 @@ def run(args: argparse.Namespace) -> int:
     opts = dl.CheckOptions(args.tolerance, args.angle_tolerance, args.json)
     tol = opts.tolerances()
     findings = dl.check_findings(doc, tol, args.alignment)
+    from gradeline.io.ifc_read import looks_like_ifc
+
+    if looks_like_ifc(args.file):  # the file's second description: its geometry
+        findings += dl.representation_findings(doc, args.file, tol, args.alignment)
     if args.ground or args.surface:
         base = dl.open_alignment(doc, args.alignment, args.profile)
         with_tin, _ = dl.attach_ground(base, args.ground, args.surface)

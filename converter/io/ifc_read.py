@@ -347,3 +347,42 @@ def _unsymmetric(a: tuple, b: tuple) -> bool:
         and abs((z0 + g0 * l1) - (z_end - g2 * l2)) <= 1e-9 * size
         and g0 != g2
     )
+
+
+def representation_points(path: str | os.PathLike[str]) -> dict[str, tuple[Any, Any]]:
+    """The geometric representation of each alignment, evaluated by ifcopenshell's
+    geometry kernel: {name: (plan points (n, 2) x y or None, 3D points (n, 3) or None)},
+    in the model's units (the business logic is what the model holds; this is the
+    second description the file carries, for the check to compare)."""
+    import ifcopenshell
+    import ifcopenshell.geom
+    import numpy as np
+
+    model = ifcopenshell.open(os.fspath(path))
+    _, lk, _ = _units(model, SourceRef(os.fspath(path), None))
+    settings = ifcopenshell.geom.settings()
+    settings.set("convert-back-units", True)  # in the file's own length unit
+    out: dict[str, tuple[Any, Any]] = {}
+    for al in model.by_type("IfcAlignment"):
+        plan = curve3d = None
+        rep = getattr(al, "Representation", None)
+        for r in getattr(rep, "Representations", ()) or ():
+            for item in r.Items:
+                kind = (
+                    "3d"
+                    if item.is_a("IfcGradientCurve")
+                    else ("plan" if item.is_a("IfcCompositeCurve") else None)
+                )
+                if kind is None:
+                    continue
+                try:
+                    shape = ifcopenshell.geom.create_shape(settings, item)
+                except Exception:  # noqa: BLE001 - a curve the kernel cannot evaluate
+                    continue
+                v = np.array(shape.verts, dtype=float).reshape(-1, 3) * lk
+                if kind == "3d":
+                    curve3d = v
+                else:
+                    plan = v[:, :2]
+        out[al.Name or f"#{al.id()}"] = (plan, curve3d)
+    return out
