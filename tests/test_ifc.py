@@ -297,3 +297,55 @@ def test_representation_checked_against_business_logic(tmp_path, capsys):
     plan = rep[0]
     assert plan["element"] == "IfcCompositeCurve" and plan["verdict"] == "over"
     assert plan["stated"] > 1.0  # the alignment after the arc has moved by feet
+
+
+def test_cosine_spiral_of_the_buildingsmart_sample(tmp_path):
+    # buildingSMART/IFC4.3.x-sample-models, models/alignment-geometries-and-linear-
+    # positioning/segmented-reference-curve/segmented-reference-curve.ifc (commit
+    # c423674a): one COSINECURVE from (0, 0), direction 0, radius 300 m to 1000 m
+    # over 100 m (#29), closed by a LINE segment starting at (98.929887264154,
+    # 13.1346242263917) in direction 0.216666666666666 rad (#143, #144). The values
+    # are typed here from the public file; the file itself is not copied.
+    import ifcopenshell.api
+    from ifcopenshell.api import alignment as api
+
+    f = ifcopenshell.api.run("project.create_file", version="IFC4X3_ADD2")
+    ifcopenshell.api.run("root.create_entity", f, ifc_class="IfcProject", name="sample")
+    metre = f.createIfcSIUnit(None, "LENGTHUNIT", None, "METRE")
+    radian = f.createIfcSIUnit(None, "PLANEANGLEUNIT", None, "RADIAN")
+    ifcopenshell.api.run("unit.assign_unit", f, units=[metre, radian])
+    model = ifcopenshell.api.run("context.add_context", f, context_type="Model")
+    ifcopenshell.api.run(
+        "context.add_context",
+        f,
+        context_type="Model",
+        context_identifier="Axis",
+        target_view="MODEL_VIEW",
+        parent=model,
+    )
+    al = api.create(f, "sample", include_vertical=True)
+    seg = f.createIfcAlignmentHorizontalSegment(
+        None,
+        None,
+        f.createIfcCartesianPoint((0.0, 0.0)),
+        0.0,
+        300.0,
+        1000.0,
+        100.0,
+        None,
+        "COSINECURVE",
+    )
+    api.create_layout_segment(f, api.get_horizontal_layout(al), seg)
+    vseg = f.createIfcAlignmentVerticalSegment(
+        None, None, 0.0, 100.0, 0.0, 0.0, 0.0, None, "CONSTANTGRADIENT"
+    )
+    api.create_layout_segment(f, api.get_vertical_layout(al), vseg)
+    path = tmp_path / "sample.ifc"
+    f.write(str(path))
+    g = open_alignment(path, "sample").horizontal.elements[0]
+    assert g.kind == "cosine"
+    assert (g.x1, g.y1) == (
+        pytest.approx(98.929887264154, abs=1e-6),
+        pytest.approx(13.1346242263917, abs=1e-6),
+    )
+    assert g.heading1 == pytest.approx(0.216666666666666, abs=1e-12)

@@ -21,6 +21,7 @@ import os
 from typing import Any
 
 from gradeline.errors import GradelineError, InputError
+from gradeline.geometry.curve_data import tangent_intersection
 from gradeline.model import (
     Alignment,
     Document,
@@ -246,6 +247,12 @@ def _horizontal(layout: Any, lk: float, ak: float, path: str) -> tuple:
             out.append(HCurve(start, (cy, cx), end, rot, None, stated, src))
         elif kind in _SPIRAL_KINDS:
             rot = "ccw" if (r1 if r1 != 0 else r0) > 0 else "cw"
+            # the PI where the start and end tangents meet: IFC states both directions
+            h0, h1 = float(seg.StartDirection) * ak, float(nxt.StartDirection) * ak
+            meet = tangent_intersection((start[1], start[0]), h0, (end[1], end[0]), h1)
+            if meet is None:  # parallel tangents: a point on the start tangent
+                meet = (start[1] + length / 2 * math.cos(h0), start[0] + length / 2 * math.sin(h0))
+            pi = (meet[1], meet[0])
             out.append(
                 HSpiral(
                     start,
@@ -255,7 +262,7 @@ def _horizontal(layout: Any, lk: float, ak: float, path: str) -> tuple:
                     math.inf if r1 == 0 else abs(r1),
                     rot,
                     _SPIRAL_KINDS[kind],
-                    None,
+                    pi,
                     (("length", length),),
                     src,
                 )
