@@ -323,7 +323,7 @@ def test_cosine_spiral_of_the_buildingsmart_sample(tmp_path):
         target_view="MODEL_VIEW",
         parent=model,
     )
-    al = api.create(f, "sample", include_vertical=True)
+    al = api.create(f, "sample", include_vertical=True, include_cant=True)
     seg = f.createIfcAlignmentHorizontalSegment(
         None,
         None,
@@ -342,6 +342,10 @@ def test_cosine_spiral_of_the_buildingsmart_sample(tmp_path):
     api.create_layout_segment(f, api.get_vertical_layout(al), vseg)
     path = tmp_path / "sample.ifc"
     f.write(str(path))
+    from gradeline.io.ifc_read import read_ifc
+
+    # the sample has cant too (#61): reported, not silently dropped
+    assert any("IfcAlignmentCant" in n.message for n in read_ifc(path).notices)
     g = open_alignment(path, "sample").horizontal.elements[0]
     assert g.kind == "cosine"
     assert (g.x1, g.y1) == (

@@ -34,7 +34,7 @@ from gradeline.model import (
     SourceRef,
     StationEquation,
 )
-from gradeline.model.base import Broken
+from gradeline.model.base import Broken, Notice
 from gradeline.model.units import Units
 
 __all__ = ["looks_like_ifc", "read_ifc"]
@@ -114,10 +114,21 @@ def read_ifc(path: str | os.PathLike[str]) -> Document:
             f"schema {model.schema} has no IfcAlignment (IFC 4.3 has)", src, "IFC"
         ) from None
     units, lk, ak = _units(model, src)
-    read, broken = [], []
+    read, broken, notices = [], [], []
     for al in alignments:
         if _parent_alignment(al) is not None:
             continue  # a child alignment of another: read with its parent
+        for cant in _nested(al, "IfcAlignmentCant"):
+            n = sum(1 for s in _ordered(cant) if float(s.DesignParameters.HorizontalLength) > 0)
+            notices.append(
+                Notice(
+                    "ignored",
+                    f"alignment {al.Name!r}: its IfcAlignmentCant (#{cant.id()}, {n} segments, "
+                    "rail cant or superelevation) is read past: gradeline does not use cant yet",
+                    src,
+                    "IfcAlignmentCant",
+                )
+            )
         try:
             read.append(_alignment(model, al, lk, ak, name))
         except GradelineError as err:
@@ -125,7 +136,7 @@ def read_ifc(path: str | os.PathLike[str]) -> Document:
     if not read and not broken:
         raise InputError("no IfcAlignment in the file", src, "IFC")
     project = next((p.Name or "" for p in model.by_type("IfcProject")), "")
-    return Document(name, units, tuple(read), project, src, tuple(broken))
+    return Document(name, units, tuple(read), project, src, tuple(broken), tuple(notices))
 
 
 def _parent_alignment(al: Any) -> Any:
