@@ -404,7 +404,7 @@ def _label_lines(checks, lab) -> list[str]:
         else:
             body = (
                 f"stated {c.stated:.6g}, computed {c.computed:.6g}, difference "
-                f"{_signed(c.difference, 4)}{unit}"
+                f"{_signed(c.difference, 4)}{unit}" + (f" ({c.note})" if c.note else "")
             )
         lines.append(
             f"  OVER  {c.quantity} of {c.feature}{where}: {body}  [{c.text!r} at "
