@@ -704,14 +704,14 @@ def drawing_audit_of(solved: SolvedAlignment, data: bytes, shown: str, tol: Tole
 def ifc_bytes(doc: Document, alignment: str | None = None) -> tuple[bytes, list[str]]:
     """IFC 4.3 of the document's alignments (or the one named) and the one-line reason
     of each alignment left out (broken, or holding what the writer does not write)."""
-    from gradeline.io.ifc_write import write_ifc
+    from gradeline.io.ifc_write import segment_types, write_ifc
 
     names = [alignment] if alignment is not None else doc.names
     solved, left_out = [], []
     for name in names:
         try:
             one = solve(doc, name, None)
-            write_ifc([one])  # refuses what it cannot write, before the real file
+            segment_types(one)  # refuses what the writer cannot write
         except GradelineError as err:
             if alignment is not None:
                 raise

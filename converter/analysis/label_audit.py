@@ -25,7 +25,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from gradeline.io.dxf_read import DrawnText
+from gradeline.io.dxf_read import DrawnText, plain_codes
 
 __all__ = [
     "LabelCheck",
@@ -172,9 +172,7 @@ def normalize(text: str) -> str:
         "\u2206": "Δ",
     }
     out = "".join(table.get(ch, ch) for ch in text).replace("''", '"')
-    # TEXT special codes, should a label still carry them: %%d degree, %%p plus-minus, ...
-    out = re.sub(r"%%[dD]", "°", out)
-    out = re.sub(r"%%[pPcCuUoO]", " ", out)
+    out = plain_codes(out)  # TEXT special codes a typed label may still carry (%%d, ...)
     return re.sub(r"\s+", " ", out.upper()).strip()
 
 
@@ -377,9 +375,14 @@ class _Audit:
         kind: str = "distance",
         unit: str | None = None,
         note: str = "",
+        allowed: float | None = None,
     ) -> None:
+        """Record ``st`` against ``computed``; ``allowed`` (a value read from a text's
+        place) replaces the tolerance, the printed rounding still counting."""
         stated = st.value
-        if kind == "angle":
+        if allowed is not None:
+            allowed = max(allowed, _allowed(st.decimals, 0.0, "distance"))
+        elif kind == "angle":
             allowed = _allowed(st.decimals, self.angle_tol_sec, "angle")
         elif kind == "ratio":  # grades, A and K: the rounding of what is printed
             allowed = _allowed(st.decimals, 0.0, "distance")
@@ -539,7 +542,6 @@ def audit_profile_labels(
                     ctx,
                     x,
                     grades,
-                    internal,
                     exaggeration,
                     datum,
                 )
@@ -567,10 +569,8 @@ def _untagged(audit, blk, head, every, g, ctx, x, s_in):
             float(label(x)),
             unit="",
             note=f"read from the text's place; allowed {reach:.3g}",
+            allowed=reach,
         )
-        last = audit.checks[-1]
-        if abs(last.difference or 0) <= reach:
-            audit.checks[-1] = _replace_verdict(last, "ok")
         return None
     near = every[_nearest(every, [s_in])] if every else None
     if near is not None and abs(near[0] - s_in) <= max(audit.tol, 0.5 * 10.0**-head.decimals):
@@ -597,7 +597,7 @@ def _curve_near(curves: dict, x: float):
 
 
 def _profile_value(
-    audit, blk, st, feature, every, curves, g, ctx, x, grades, internal, exaggeration, datum
+    audit, blk, st, feature, every, curves, g, ctx, x, grades, exaggeration, datum
 ) -> None:
     from gradeline.geometry import vertical
 
@@ -655,7 +655,7 @@ def _profile_value(
                 audit.compare(blk, st, "radius R", name, curve.pvi_station, curve.radius)
         return
     if q == "grade":
-        k = _tangent_at(g, curves, x)
+        k = _tangent_at(g, x)
         if k is None:
             audit.listed(blk, "untied", "a grade beyond the profile", q)
             return
@@ -687,23 +687,15 @@ def _profile_value(
                 None,
                 z_at,
                 note=f"read from the text's height; allowed {room:.3g}",
+                allowed=room,
             )
-            last = audit.checks[-1]
-            if abs(last.difference or 0) <= room:
-                audit.checks[-1] = _replace_verdict(last, "ok")
         else:
             audit.listed(blk, "unread", "a bare number that is no grid elevation here", q)
         return
     audit.listed(blk, "untied", f"{q} is not a profile value", q)
 
 
-def _replace_verdict(c: LabelCheck, verdict: str) -> LabelCheck:
-    from dataclasses import replace
-
-    return replace(c, verdict=verdict)
-
-
-def _tangent_at(g, curves, x: float) -> int | None:
+def _tangent_at(g, x: float) -> int | None:
     s = g.pvi_stations
     if not (s[0] <= x <= s[-1]):
         return None
@@ -750,7 +742,7 @@ def audit_plan_labels(
     if not blocks:
         return []
     pos = to_world(np.array([[b.first.x, b.first.y] for b in blocks], float))
-    s_text, off_text, _ = proj(pos[:, 1], pos[:, 0])
+    s_text, _, _ = proj(pos[:, 1], pos[:, 0])
     points: dict[str, list[tuple[float, str, object]]] = {}
     for s, tag in key_points(hz, curves):
         c = _owner(curves, tag, s)
@@ -789,8 +781,6 @@ def audit_plan_labels(
                     st,
                     curve,
                     st_here,
-                    float(off_text[b]),
-                    label,
                     ctx,
                     metric,
                     text_scale,
@@ -810,7 +800,7 @@ def _owner(curves, tag: str, s: float):
     return None
 
 
-def _plan_value(audit, blk, st, curve, s_here, off_here, label, ctx, metric, text_scale) -> None:
+def _plan_value(audit, blk, st, curve, s_here, ctx, metric, text_scale) -> None:
     q = st.quantity
     if q == "equation":
         _equation(audit, blk, st, ctx)
@@ -828,10 +818,8 @@ def _plan_value(audit, blk, st, curve, s_here, off_here, label, ctx, metric, tex
             float(s),
             unit="",
             note=f"read from the text's place; allowed {reach:.3g}",
+            allowed=reach,
         )
-        last = audit.checks[-1]
-        if abs(last.difference or 0) <= reach:
-            audit.checks[-1] = _replace_verdict(last, "ok")
         return
     if curve is None:
         audit.listed(blk, "untied", f"{q} with no horizontal curve", q)

@@ -13,7 +13,15 @@ from ezdxf.document import Drawing as DxfDocument
 
 from gradeline.render.dxf import META_PREFIX
 
-__all__ = ["LINEWORK_TYPES", "layer_names", "read_drawing", "read_linework", "read_mapping"]
+__all__ = [
+    "LINEWORK_TYPES",
+    "layer_names",
+    "plain_codes",
+    "read_drawing",
+    "read_linework",
+    "read_mapping",
+    "read_world",
+]
 
 
 def read_mapping(doc: DxfDocument) -> dict[str, str]:
@@ -189,7 +197,7 @@ def drawing_unit(doc: DxfDocument) -> tuple[str | None, float | None]:
 _TEXT_CODES = {"%%D": "\u00b0", "%%P": "\u00b1", "%%C": "\u00d8", "%%U": "", "%%O": "", "%%%": "%"}
 
 
-def _plain(text: str) -> str:
+def plain_codes(text: str) -> str:
     """TEXT special codes (%%d for the degree sign, ...) as the characters they stand for."""
     import re
 
@@ -325,7 +333,7 @@ def _text(e: Any, layer: str, view: WorldView) -> None:
         p = e.dxf.text_midpoint
         x, y, height, rotation = p[0], p[1], 0.0, float(e.dxf.get("text_rotation", 0.0))
     else:  # TEXT, ATTRIB, ATTDEF
-        text = _plain(e.dxf.get("text", "") if kind != "ATTDEF" else e.dxf.get("text", ""))
+        text = plain_codes(e.dxf.get("text", ""))
         _, p, _ = e.get_placement()
         x, y = p[0], p[1]
         height = float(e.dxf.get("height", 1.0))

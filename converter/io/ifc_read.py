@@ -61,7 +61,7 @@ def looks_like_ifc(path: str) -> bool:
         return False
 
 
-def _units(model: Any, src: SourceRef) -> tuple[Units, float, float]:
+def _units(model: Any) -> tuple[Units, float, float]:
     """(Units, file units per project length unit, radians per project angle unit)."""
     length, length_k, angle_k = "meter", 1.0, 1.0
     for assignment in model.by_type("IfcUnitAssignment")[:1]:
@@ -113,7 +113,7 @@ def read_ifc(path: str | os.PathLike[str]) -> Document:
         raise InputError(
             f"schema {model.schema} has no IfcAlignment (IFC 4.3 has)", src, "IFC"
         ) from None
-    units, lk, ak = _units(model, src)
+    units, lk, ak = _units(model)
     read, broken, notices = [], [], []
     for al in alignments:
         if _parent_alignment(al) is not None:
@@ -377,7 +377,7 @@ def representation_points(path: str | os.PathLike[str]) -> dict[str, tuple[Any, 
     import numpy as np
 
     model = ifcopenshell.open(os.fspath(path))
-    _, lk, _ = _units(model, SourceRef(os.fspath(path), None))
+    _, lk, _ = _units(model)
     settings = ifcopenshell.geom.settings()
     settings.set("convert-back-units", True)  # in the file's own length unit
     out: dict[str, tuple[Any, Any]] = {}

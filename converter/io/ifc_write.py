@@ -24,7 +24,7 @@ from typing import Any
 
 from gradeline.errors import UsageError
 
-__all__ = ["IFC_SCHEMA", "SPIRALS", "write_ifc"]
+__all__ = ["IFC_SCHEMA", "SPIRALS", "segment_types", "write_ifc"]
 
 IFC_SCHEMA = "IFC4X3_ADD2"
 
@@ -63,23 +63,36 @@ def _length_unit(f: Any, linear: str) -> Any:
     return f.createIfcConversionBasedUnit(dims, "LENGTHUNIT", name, measure)
 
 
-def _horizontal(f: Any, layout: Any, solved: Any) -> None:
-    from ifcopenshell.api import alignment as api
+def segment_types(solved: Any) -> list[str]:
+    """The IFC horizontal segment type of each plan element.
 
-    hz = solved.horizontal
-    for g in hz.elements:
-        if g.kind == "line":
-            kind = "LINE"
-        elif g.kind == "arc":
-            kind = "CIRCULARARC"
-        elif g.kind in SPIRALS:
-            kind = SPIRALS[g.kind]
-        else:
+    Raises
+    ------
+    UsageError
+        No plan geometry, or an element the writer does not write (named).
+    """
+    if solved.horizontal is None:
+        raise UsageError(
+            f"alignment {solved.alignment.name!r} has no plan geometry: IFC 4.3 alignments "
+            "need a horizontal layout"
+        )
+    out = []
+    for g in solved.horizontal.elements:
+        kind = {"line": "LINE", "arc": "CIRCULARARC", **SPIRALS}.get(g.kind)
+        if kind is None:
             raise UsageError(
                 f"alignment {solved.alignment.name!r}: element {g.index + 1} is a {g.kind} "
                 "spiral, which this IFC writer does not write yet (lines, arcs, and "
                 "clothoid, Bloss, cosine and sine spirals)"
             )
+        out.append(kind)
+    return out
+
+
+def _horizontal(f: Any, layout: Any, solved: Any) -> None:
+    from ifcopenshell.api import alignment as api
+
+    for g, kind in zip(solved.horizontal.elements, segment_types(solved), strict=True):
         seg = f.createIfcAlignmentHorizontalSegment(
             None,
             None,
@@ -175,11 +188,7 @@ def write_ifc(solved_alignments: Sequence[Any], project: str = "") -> bytes:
     )
     for solved in solved_alignments:
         al_model = solved.alignment
-        if solved.horizontal is None:
-            raise UsageError(
-                f"alignment {al_model.name!r} has no plan geometry: IFC 4.3 alignments "
-                "need a horizontal layout"
-            )
+        segment_types(solved)  # refuses before anything is made
         al = api.create(f, al_model.name, include_vertical=solved.geometry is not None)
         start = float(solved.horizontal.start)
         _horizontal(f, api.get_horizontal_layout(al), solved)
