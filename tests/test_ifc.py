@@ -222,10 +222,19 @@ def test_check_against_finds_an_injected_change(tmp_path, capsys):
 
 
 @pytest.mark.parametrize(
-    ("ours", "ifc"),
-    [("bloss", "BLOSSCURVE"), ("cosine", "COSINECURVE"), ("sinusoid", "SINECURVE")],
+    ("ours", "ifc", "within"),
+    [
+        ("bloss", "BLOSSCURVE", 1e-5),
+        ("cosine", "COSINECURVE", 1e-5),
+        ("sinusoid", "SINECURVE", 1e-5),
+        # ifcopenshell 0.9 draws the Helmert curve as two polynomial spirals and lands
+        # 1.4e-4 ft from gradeline; gradeline's law agrees with buildingSMART's own
+        # reference coordinates for HELMERTCURVE to 1e-13 m (tests/test_spiral_laws.py)
+        ("biquadratic", "HELMERTCURVE", 2e-4),
+        ("revBloss", "BLOSSCURVE", 1e-5),
+    ],
 )
-def test_spiral_types_agree_with_ifcopenshell(tmp_path, ours, ifc):
+def test_spiral_types_agree_with_ifcopenshell(tmp_path, ours, ifc, within):
     # the sample's first transition given another curvature law: ifcopenshell's own
     # evaluation of the IFC type lies on gradeline's evaluation of the LandXML type
     import dataclasses
@@ -256,9 +265,10 @@ def test_spiral_types_agree_with_ifcopenshell(tmp_path, ours, ifc):
     g = ctx.horizontal.elements[1]
     on = (st > g.start_station) & (st < g.end_station)
     assert on.sum() > 50
-    assert np.abs(off[on]).max() < 1e-5  # a clothoid there instead would be 0.87 ft off
+    assert np.abs(off[on]).max() < within  # a clothoid there instead would be 0.87 ft off
     again = open_alignment(out, "Orrin Vale Bypass")
-    assert again.horizontal.elements[1].kind == ours
+    # a rev* type is its base law from the arc: it reads back as the base type
+    assert again.horizontal.elements[1].kind == ours.removeprefix("rev").lower()
 
 
 def test_representation_checked_against_business_logic(tmp_path, capsys):

@@ -1,8 +1,8 @@
 """IFC 4.3 reader: ``IfcAlignment`` business logic into the same model LandXML gives.
 
-Horizontal segments become lines, arcs and spirals (clothoid, Bloss, cosine, sine)
-whose end is the next
-segment's start (IFC closes a layout with a zero-length segment); vertical
+Horizontal segments become lines, arcs and spirals (clothoid, Bloss, cosine, sine,
+Helmert) whose end is the next segment's start (IFC closes a layout with a
+zero-length segment; a layout without it has its end computed, with a notice); vertical
 segments become PVIs: a grade break between two gradients, a ``ParaCurve`` in
 the middle of a parabolic arc (IFC's parabolic arcs are symmetric), a
 ``CircCurve`` at the tangents' intersection of a circular arc. Units come from
@@ -21,6 +21,7 @@ import os
 from typing import Any
 
 from gradeline.errors import GradelineError, InputError
+from gradeline.geometry import horizontal as plan_geometry
 from gradeline.geometry.curve_data import tangent_intersection
 from gradeline.model import (
     Alignment,
@@ -130,7 +131,7 @@ def read_ifc(path: str | os.PathLike[str]) -> Document:
                 )
             )
         try:
-            read.append(_alignment(model, al, lk, ak, name))
+            read.append(_alignment(model, al, lk, ak, name, notices))
         except GradelineError as err:
             broken.append(Broken(al.Name or f"#{al.id()}", err))
     if not read and not broken:
@@ -157,7 +158,9 @@ def _fail(message: str, entity: Any, path: str) -> InputError:
     return InputError(f"{message} (#{entity.id()} {entity.is_a()})", SourceRef(path, None), "IFC")
 
 
-def _alignment(model: Any, al: Any, lk: float, ak: float, path: str) -> Alignment:
+def _alignment(
+    model: Any, al: Any, lk: float, ak: float, path: str, notices: list[Notice]
+) -> Alignment:
     horizontal = next(iter(_nested(al, "IfcAlignmentHorizontal")), None)
     # the vertical layouts: nested directly, or in child alignments (reusing the plan)
     verticals = _nested(al, "IfcAlignmentVertical")
@@ -166,7 +169,7 @@ def _alignment(model: Any, al: Any, lk: float, ak: float, path: str) -> Alignmen
     if horizontal is None:
         raise _fail("an alignment without an IfcAlignmentHorizontal", al, path)
     sta_start, equations = _stationing(al, lk)
-    elements = _horizontal(horizontal, lk, ak, path)
+    elements = _horizontal(horizontal, lk, ak, path, notices)
     profiles = tuple(
         Profile(v.Name or f"vertical {i + 1}", _pvis(v, lk, sta_start, path))
         for i, v in enumerate(verticals)
@@ -229,7 +232,21 @@ def _point(p: Any, lk: float) -> tuple[float, float]:
     return (y * lk, x * lk)  # the model's (northing, easting)
 
 
-def _horizontal(layout: Any, lk: float, ak: float, path: str) -> tuple:
+#: Horizontal segment types not read, and why (the alignment is refused with this).
+_NOT_READ = {
+    "CUBIC": (
+        "a CUBIC transition, which gradeline does not read: the schema describes a cubic "
+        "parabola, while buildingSMART's reference tables for the type give a clothoid's "
+        "coordinates, so the file could mean either"
+    ),
+    "VIENNESEBEND": (
+        "a VIENNESEBEND transition, which gradeline does not read: its plan shape depends "
+        "on the cant and the height of the centre of gravity, and gradeline does not apply cant"
+    ),
+}
+
+
+def _horizontal(layout: Any, lk: float, ak: float, path: str, notices: list[Notice]) -> tuple:
     segs = [s.DesignParameters for s in _ordered(layout)]
     out: list[HLine | HCurve | HSpiral] = []
     for i, seg in enumerate(segs):
@@ -237,52 +254,90 @@ def _horizontal(layout: Any, lk: float, ak: float, path: str) -> tuple:
         if length == 0:
             continue  # the closing zero-length segment (or a joint marker)
         nxt = next((s for s in segs[i + 1 :]), None)
+        start = _point(seg.StartPoint, lk)
+        h0 = float(seg.StartDirection) * ak
         if nxt is None:
-            raise _fail("the layout does not end with a segment giving its end point", seg, path)
-        start, end = _point(seg.StartPoint, lk), _point(nxt.StartPoint, lk)
-        r0 = float(seg.StartRadiusOfCurvature) * lk
-        r1 = float(seg.EndRadiusOfCurvature) * lk
-        kind = seg.PredefinedType
-        src = SourceRef(path, None)
-        if kind == "LINE":
-            out.append(HLine(start, end, (("length", length),), src))
-        elif kind == "CIRCULARARC":
-            if r0 == 0:
-                raise _fail("a CIRCULARARC of zero radius", seg, path)
-            h = float(seg.StartDirection) * ak
-            # the centre lies to the left of the start direction on a positive radius
-            cx = start[1] - r0 * math.sin(h)
-            cy = start[0] + r0 * math.cos(h)
-            rot = "ccw" if r0 > 0 else "cw"
-            stated = (("length", length), ("radius", abs(r0)))
-            out.append(HCurve(start, (cy, cx), end, rot, None, stated, src))
-        elif kind in _SPIRAL_KINDS:
-            rot = "ccw" if (r1 if r1 != 0 else r0) > 0 else "cw"
-            # the PI where the start and end tangents meet: IFC states both directions
-            h0, h1 = float(seg.StartDirection) * ak, float(nxt.StartDirection) * ak
-            meet = tangent_intersection((start[1], start[0]), h0, (end[1], end[0]), h1)
-            if meet is None:  # parallel tangents: a point on the start tangent
-                meet = (start[1] + length / 2 * math.cos(h0), start[0] + length / 2 * math.sin(h0))
-            pi = (meet[1], meet[0])
-            out.append(
-                HSpiral(
-                    start,
-                    end,
-                    length,
-                    math.inf if r0 == 0 else abs(r0),
-                    math.inf if r1 == 0 else abs(r1),
-                    rot,
-                    _SPIRAL_KINDS[kind],
-                    pi,
-                    (("length", length),),
-                    src,
+            # files written before IFC 4.3 ADD2 may stop without the zero-length
+            # segment that states the end: the end follows from the segment itself
+            end, h1 = None, None
+            notices.append(
+                Notice(
+                    "defaulted",
+                    f"the horizontal layout #{layout.id()} ends without the zero-length "
+                    "segment that states its end point; the end is computed from the last "
+                    "segment's start, direction, length and radii",
+                    SourceRef(path, None),
+                    "IfcAlignmentHorizontal",
                 )
             )
         else:
-            raise _fail(f"horizontal segment type {kind} is not read yet", seg, path)
+            end, h1 = _point(nxt.StartPoint, lk), float(nxt.StartDirection) * ak
+        out.append(_element(seg, length, start, h0, end, h1, lk, path))
     if not out:
         raise _fail("a horizontal layout without segments", layout, path)
     return tuple(out)
+
+
+def _element(
+    seg: Any,
+    length: float,
+    start: tuple[float, float],
+    h0: float,
+    end: tuple[float, float] | None,
+    h1: float | None,
+    lk: float,
+    path: str,
+) -> HLine | HCurve | HSpiral:
+    """One horizontal segment; ``end``/``h1`` None: computed from the segment."""
+    r0 = float(seg.StartRadiusOfCurvature) * lk
+    r1 = float(seg.EndRadiusOfCurvature) * lk
+    kind = seg.PredefinedType
+    src = SourceRef(path, None)
+    if kind == "LINE":
+        if end is None:
+            end = (start[0] + length * math.sin(h0), start[1] + length * math.cos(h0))
+        return HLine(start, end, (("length", length),), src)
+    if kind == "CIRCULARARC":
+        if r0 == 0:
+            raise _fail("a CIRCULARARC of zero radius", seg, path)
+        # the centre lies to the left of the start direction on a positive radius
+        cx = start[1] - r0 * math.sin(h0)
+        cy = start[0] + r0 * math.cos(h0)
+        if end is None:  # the start turned about the centre through length / radius
+            a = math.atan2(start[0] - cy, start[1] - cx) + length / r0
+            end = (cy + abs(r0) * math.sin(a), cx + abs(r0) * math.cos(a))
+        rot = "ccw" if r0 > 0 else "cw"
+        stated = (("length", length), ("radius", abs(r0)))
+        return HCurve(start, (cy, cx), end, rot, None, stated, src)
+    if kind in _SPIRAL_KINDS:
+        rot = "ccw" if (r1 if r1 != 0 else r0) > 0 else "cw"
+
+        def spiral(end: tuple[float, float], pi: tuple[float, float]) -> HSpiral:
+            return HSpiral(
+                start,
+                end,
+                length,
+                math.inf if r0 == 0 else abs(r0),
+                math.inf if r1 == 0 else abs(r1),
+                rot,
+                _SPIRAL_KINDS[kind],
+                pi,
+                (("length", length),),
+                src,
+            )
+
+        if end is None or h1 is None:
+            # a PI on the start tangent gives the start direction; the law gives the rest
+            ahead = (start[0] + length / 2 * math.sin(h0), start[1] + length / 2 * math.cos(h0))
+            g = plan_geometry.solve(HorizontalAlignment((spiral(start, ahead),))).elements[0]
+            end, h1 = (float(g.y1), float(g.x1)), float(g.heading1)
+        # the PI where the start and end tangents meet: IFC states both directions
+        meet = tangent_intersection((start[1], start[0]), h0, (end[1], end[0]), h1)
+        if meet is None:  # parallel tangents: a point on the start tangent
+            meet = (start[1] + length / 2 * math.cos(h0), start[0] + length / 2 * math.sin(h0))
+        return spiral(end, (meet[1], meet[0]))
+    why = _NOT_READ.get(kind, f"horizontal segment type {kind}, which gradeline does not read")
+    raise _fail(why, seg, path)
 
 
 def _ordered(layout: Any) -> list[Any]:
@@ -344,8 +399,15 @@ def _pvis(layout: Any, lk: float, sta_start: float, path: str) -> tuple[PVISpec,
             arc = abs(radius * (a1 - a0))
             pvis.append(PVISpec(s0 + t, z0 + g0 * t, "circular", radius=radius, arc_length=arc))
             end = (s0 + length, z1)
+        elif kind == "CLOTHOID":
+            raise _fail(
+                "a vertical CLOTHOID segment, which gradeline does not read (a road profile "
+                "uses parabolic or circular curves)",
+                seg,
+                path,
+            )
         else:
-            raise _fail(f"vertical segment type {kind} is not read yet", seg, path)
+            raise _fail(f"vertical segment type {kind}, which gradeline does not read", seg, path)
         i += 1
     pvis.append(PVISpec(*end))
     return tuple(pvis)
