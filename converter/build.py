@@ -21,7 +21,15 @@ from gradeline.errors import GradelineError
 from gradeline.io import landxml
 from gradeline.render.outputs import input_name, json_text, refuse_overwrite, write_atomic
 
-__all__ = ["BuildJob", "BuildOptions", "ItemResult", "build", "collect_inputs", "write_index"]
+__all__ = [
+    "BuildJob",
+    "BuildOptions",
+    "ItemResult",
+    "build",
+    "collect_inputs",
+    "output_folders",
+    "write_index",
+]
 
 
 @dataclass(frozen=True)
@@ -44,6 +52,8 @@ class BuildJob:
 
     path: str
     options: BuildOptions
+    #: the output folder's name; None: the input's stem, as :func:`output_folders` gives
+    folder: str | None = None
 
 
 @dataclass(frozen=True)
@@ -79,14 +89,31 @@ def slug(name: str) -> str:
 
 
 def collect_inputs(paths: Sequence[str]) -> list[str]:
-    """Files named, plus every ``*.xml`` in folders named (sorted, not recursive)."""
+    """Files named, plus every ``*.xml`` and ``*.ifc`` in folders named (sorted, not
+    recursive)."""
     out: list[str] = []
     for p in paths:
         if os.path.isdir(p):
-            out += sorted(str(q) for q in Path(p).glob("*.xml") if q.is_file())
+            found = [q for q in Path(p).iterdir() if q.suffix.lower() in (".xml", ".ifc")]
+            out += sorted(str(q) for q in found if q.is_file())
         else:
             out.append(p)
     return out
+
+
+def output_folders(paths: Sequence[str]) -> list[str]:
+    """The output folder of each input: its stem, or its whole name where two inputs
+    share a stem (``road.xml`` and ``road.ifc`` build into ``road-xml`` and
+    ``road-ifc``, never into one folder).
+
+    >>> output_folders(["a/road.xml", "b/road.ifc", "c/lane.xml"])
+    ['road-xml', 'road-ifc', 'lane']
+    """
+    stems = [slug(Path(p).stem) for p in paths]
+    return [
+        slug(Path(p).name) if stems.count(stem) > 1 else stem
+        for p, stem in zip(paths, stems, strict=True)
+    ]
 
 
 def _write(path: Path, data: str | bytes, inputs: Sequence[str], written: list[str]) -> None:
@@ -255,7 +282,7 @@ def build_file(job: BuildJob, outroot: str, workers: int = 1) -> list[ItemResult
                 ),
             )
         ]
-    base = Path(outroot) / slug(Path(path).stem)
+    base = Path(outroot) / (job.folder or slug(Path(path).stem))
     out: list[ItemResult] = []
     used: set[str] = set()
     wanted = [opts.alignment] if opts.alignment is not None else doc.names

@@ -363,3 +363,58 @@ def test_cosine_spiral_of_the_buildingsmart_sample(tmp_path):
         pytest.approx(13.1346242263917, abs=1e-6),
     )
     assert g.heading1 == pytest.approx(0.216666666666666, abs=1e-12)
+
+
+def test_vertical_segments_match_the_implementation_guide(tmp_path):
+    """The worked examples of the IFC Alignment Geometry Implementation Guide
+    (repository ``RickBrice/IFC-Alignment-Geometry-Implementation-Guide``,
+    ``3_Vertical_Alignments.md``, sections 3.4.3 and 3.6.3): a crest CIRCULARARC of
+    100 m from height 10 at gradients -0.5 to -1 (R 384.773458895502) is at height
+    -19.93392674 with direction (0.81663096, -0.57716019) 50 m along; a PARABOLICARC of
+    1600 m from 1200 m at height 121, gradients 0.0175 to -0.01, is at 125.4765625
+    with gradient 0.01234375 at 1500 m. IFC states the sag/crest by the gradients,
+    and its RadiusOfCurvature need not be used (the guide's checklist, item 3)."""
+    from gradeline.io.ifc_read import read_ifc
+    from gradeline.solved import solve
+    from tests.ifc_build import write_alignment
+
+    line = [(0.0, 0.0, 0.0, 0.0, 0.0, 3000.0, "LINE")]
+    arc = tmp_path / "arc.ifc"
+    write_alignment(arc, line, [(0.0, 100.0, 10.0, -0.5, -1.0, 384.773458895502, "CIRCULARARC")])
+    g = solve(read_ifc(arc), "Spor", None).geometry
+    assert float(vertical.elevation(g, 50.0)) == pytest.approx(-19.93392674, abs=1e-8)
+    assert float(vertical.grade(g, 50.0)) == pytest.approx(-0.57716019 / 0.81663096, abs=1e-8)
+    par = tmp_path / "par.ifc"
+    write_alignment(
+        par,
+        line,
+        [
+            (0.0, 1200.0, 100.0, 0.0175, 0.0175, None, "CONSTANTGRADIENT"),
+            (1200.0, 1600.0, 121.0, 0.0175, -0.01, None, "PARABOLICARC"),
+            (2800.0, 200.0, 127.0, -0.01, -0.01, None, "CONSTANTGRADIENT"),
+        ],
+    )
+    g = solve(read_ifc(par), "Spor", None).geometry
+    assert float(vertical.elevation(g, 1500.0)) == pytest.approx(125.4765625, abs=1e-9)
+    assert float(vertical.grade(g, 1500.0)) == pytest.approx(0.01234375, abs=1e-12)
+
+
+def test_build_of_a_folder_takes_ifc_and_keeps_same_stem_inputs_apart(tmp_path, capsys):
+    # the metric sample and its own IFC conversion side by side, as a hand-over folder
+    # holds them: both build, each into its own folder, with the same profile table
+    import shutil
+
+    folder = tmp_path / "in"
+    folder.mkdir()
+    shutil.copy(METRIC_SAMPLE, folder / "road.xml")
+    assert main(["convert", str(folder / "road.xml"), str(folder / "road.ifc")]) == 0
+    out = tmp_path / "out"
+    assert main(["build", str(folder), "-o", str(out), "--jobs", "1"]) in (0, 1)
+    capsys.readouterr()
+    built = sorted(p.name for p in out.iterdir() if p.is_dir())
+    assert built == ["road-ifc", "road-xml"]
+    for name in ("table.csv", "curves.csv"):
+        xml, ifc = (sorted((out / d).rglob(name)) for d in ("road-xml", "road-ifc"))
+        assert len(xml) == len(ifc) == 1
+        assert len(xml[0].read_text().splitlines()) > 5
+        assert ifc[0].read_text() == xml[0].read_text()

@@ -97,38 +97,13 @@ def test_transitions_match_the_buildingsmart_reference_tables(case, points):
 
 
 def _single_segment_ifc(path, ifc_type: str, r0: float, r1: float) -> None:
-    """An IFC shaped like the Railway Room's original test files: one horizontal
-    segment, no closing zero-length segment (radius 0 = infinite, as IFC writes it)."""
-    pytest.importorskip("ifcopenshell")
-    import ifcopenshell.api
-    import ifcopenshell.guid
+    """An IFC shaped like the Railway Room's original test files: one 100 m horizontal
+    segment from (0, 0) in direction 0 and no closing zero-length segment (radius 0 =
+    infinite, as IFC writes it)."""
+    from tests.ifc_build import write_alignment
 
-    f = ifcopenshell.api.run("project.create_file", version="IFC4X3_ADD2")
-    ifcopenshell.api.run("root.create_entity", f, ifc_class="IfcProject", name="reference")
-    units = [
-        f.createIfcSIUnit(None, "LENGTHUNIT", None, "METRE"),
-        f.createIfcSIUnit(None, "PLANEANGLEUNIT", None, "RADIAN"),
-    ]
-    ifcopenshell.api.run("unit.assign_unit", f, units=units)
-    al = f.createIfcAlignment(ifcopenshell.guid.new(), None, "Spor")
-    hz = f.createIfcAlignmentHorizontal(ifcopenshell.guid.new())
-    f.createIfcRelNests(ifcopenshell.guid.new(), None, None, None, al, (hz,))
-    seg = f.createIfcAlignmentHorizontalSegment(
-        None,
-        None,
-        f.createIfcCartesianPoint((0.0, 0.0)),
-        0.0,
-        0.0 if math.isinf(r0) else r0,
-        0.0 if math.isinf(r1) else r1,
-        100.0,
-        None,
-        ifc_type,
-    )
-    part = f.createIfcAlignmentSegment(
-        ifcopenshell.guid.new(), None, None, None, None, None, None, seg
-    )
-    f.createIfcRelNests(ifcopenshell.guid.new(), None, None, None, hz, (part,))
-    f.write(str(path))
+    radii = [0.0 if math.isinf(r) else r for r in (r0, r1)]
+    write_alignment(path, [(0.0, 0.0, 0.0, *radii, 100.0, ifc_type)])
 
 
 @pytest.mark.parametrize(("case", "points"), REFERENCE.items(), ids=lambda c: str(c))
@@ -154,23 +129,18 @@ def test_ifc_segments_read_to_the_reference_coordinates(tmp_path, case, points):
 def test_unclosed_ifc_layout_of_a_line_and_an_arc(tmp_path):
     """A line then an arc, the arc last and unclosed: its end is the start turned about
     the centre by L / R (common practice), here R = 300 m left, L = 100 m."""
-    ifcopenshell = pytest.importorskip("ifcopenshell")
     from gradeline.io.ifc_read import read_ifc
     from gradeline.solved import solve
+    from tests.ifc_build import write_alignment
 
     path = tmp_path / "arc.ifc"
-    _single_segment_ifc(path, "LINE", INF, INF)
-    f = ifcopenshell.open(str(path))
-    hz = f.by_type("IfcAlignmentHorizontal")[0]
-    seg = f.createIfcAlignmentHorizontalSegment(
-        None, None, f.createIfcCartesianPoint((100.0, 0.0)), 0.0, 300.0, 300.0, 100.0, None,
-        "CIRCULARARC",
-    )  # fmt: skip
-    part = f.createIfcAlignmentSegment(
-        ifcopenshell.guid.new(), None, None, None, None, None, None, seg
+    write_alignment(
+        path,
+        [
+            (0.0, 0.0, 0.0, 0.0, 0.0, 100.0, "LINE"),
+            (100.0, 0.0, 0.0, 300.0, 300.0, 100.0, "CIRCULARARC"),
+        ],
     )
-    f.createIfcRelNests(ifcopenshell.guid.new(), None, None, None, hz, (part,))
-    f.write(str(path))
     ctx = solve(read_ifc(path), "Spor", None)
     n, e, h = ctx.plan_at(np.array([200.0]))
     a = 100.0 / 300.0

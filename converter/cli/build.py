@@ -81,13 +81,13 @@ def run(args: argparse.Namespace) -> int:
     """Build every input."""
     import os
 
-    from gradeline.build import BuildJob, BuildOptions, collect_inputs
+    from gradeline.build import BuildJob, BuildOptions, collect_inputs, output_folders
     from gradeline.io.config import read_config
 
     cfg = read_config(args.config) if args.config else {}
     files = collect_inputs(args.inputs)
     if not files:
-        raise UsageError("no LandXML files found in " + ", ".join(args.inputs))
+        raise UsageError("no LandXML or IFC files found in " + ", ".join(args.inputs))
     auto = args.ground == "auto"
     opts = BuildOptions(
         speed=args.speed,
@@ -99,7 +99,7 @@ def run(args: argparse.Namespace) -> int:
         alignment=args.alignment,
         profile=args.profile,
     )
-    jobs = [BuildJob(f, opts) for f in files]
+    jobs = [BuildJob(f, opts, d) for f, d in zip(files, output_folders(files), strict=True)]
     if auto:
         jobs = auto_ground(jobs)
     workers = args.jobs or (os.cpu_count() or 1)
