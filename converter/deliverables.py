@@ -17,6 +17,7 @@ from typing import TYPE_CHECKING, Any
 
 from gradeline.errors import GradelineError, UsageError
 from gradeline.model import Document
+from gradeline.model.units import UNIT_DEFAULTS
 from gradeline.render.outputs import input_name
 from gradeline.solved import SolvedAlignment, solve, with_surface
 
@@ -443,6 +444,8 @@ class ReviewOptions:
     e_max: float | None = None
     step: float | None = None
     json: bool = False
+    super_method: str = "open"  # superelevation: "open" highway or "low-speed" street
+    lanes: float | None = None  # lanes rotated (default: the criteria's)
 
 
 def review_report(solved: SolvedAlignment, opts: ReviewOptions) -> tuple[str, bool]:
@@ -474,7 +477,7 @@ def _review(solved: SolvedAlignment, opts: ReviewOptions) -> Any:
 
     units = solved.document.units
     crit, speed = criteria_and_speed(units, opts.criteria, opts.speed, opts.speed_unit)
-    return review.review_profile(
+    rev = review.review_profile(
         solved.geometry,
         crit,
         speed,
@@ -485,6 +488,25 @@ def _review(solved: SolvedAlignment, opts: ReviewOptions) -> Any:
         horizontal_curves=solved.curves,
         e_max=opts.e_max,
     )
+    if not solved.curves:
+        return rev
+    from dataclasses import replace
+
+    from gradeline.analysis import superelevation as se
+
+    sc = se.load_super_criteria(opts.criteria, units.metric)
+    sup = se.review_superelevation(
+        solved.curves,
+        solved.alignment.superelevations,
+        speed,
+        crit.e_max if opts.e_max is None else opts.e_max,
+        sc,
+        method=opts.super_method,
+        lanes=opts.lanes,
+        length_unit=units.symbol,
+        tolerance=UNIT_DEFAULTS[units.metric].station_tolerance,
+    )
+    return replace(rev, superelevation=sup)
 
 
 # --------------------------------------------------------------------------- design
@@ -602,6 +624,43 @@ def design_report(
     if as_json:
         return json_text(design_payload(result, label, source))
     return design_text(result, label, source)
+
+
+# --------------------------------------------------------------------------- superelevation
+@dataclass(frozen=True, slots=True)
+class SuperOptions:
+    """Design speed and controls of a superelevation proposal."""
+
+    speed: float
+    speed_unit: str | None = None
+    criteria: str | None = None
+    e_max: float | None = None
+    method: str = "open"
+    lanes: float | None = None
+
+
+def superelevation_proposal(solved: SolvedAlignment, opts: SuperOptions) -> tuple:
+    """(transitions proposed for every horizontal curve, e max used)."""
+    from gradeline.analysis import superelevation as se
+
+    units = solved.document.units
+    crit, speed = criteria_and_speed(units, opts.criteria, opts.speed, opts.speed_unit)
+    sc = se.load_super_criteria(opts.criteria, units.metric)
+    e_max = crit.e_max if opts.e_max is None else opts.e_max
+    return se.propose(solved.curves, speed, e_max, sc, opts.method, opts.lanes), e_max
+
+
+def with_superelevation(doc: Document, proposals: Mapping[str, Sequence[Any]]) -> Document:
+    """``doc`` with each named alignment given the proposed superelevation records."""
+    from dataclasses import replace
+
+    als = tuple(
+        replace(al, superelevations=tuple(t.record for t in proposals[al.name] if t.record))
+        if al.name in proposals
+        else al
+        for al in doc.alignments
+    )
+    return replace(doc, alignments=als)
 
 
 def landxml_bytes(doc: Document) -> bytes:

@@ -127,13 +127,14 @@ class Criteria:
         return float(np.interp(speed, v, d))
 
 
-def load_criteria(path: str | None, metric: bool) -> Criteria:
-    """Read a criteria TOML file (default: the shipped AASHTO 2018 set).
+def criteria_table(path: str | None, metric: bool) -> tuple[dict[str, Any], str, str]:
+    """The ``[us]`` or ``[metric]`` table of a criteria TOML file (default: the shipped
+    AASHTO 2018 set), the file's name for messages, and the set's name.
 
     Raises
     ------
     InputError
-        The file cannot be read, is not TOML, or lacks a value.
+        The file cannot be read, is not TOML, or lacks the table.
     """
     where = path or "aashto-2018.toml"
     try:
@@ -153,7 +154,20 @@ def load_criteria(path: str | None, metric: bool) -> Criteria:
     table = data.get(key)
     if not isinstance(table, dict):
         raise InputError(f"no [{key}] table of design controls", SourceRef(where), "criteria")
-    values: dict[str, Any] = {"name": str(data.get("name", where))}
+    return table, where, str(data.get("name", where))
+
+
+def load_criteria(path: str | None, metric: bool) -> Criteria:
+    """Read a criteria TOML file (default: the shipped AASHTO 2018 set).
+
+    Raises
+    ------
+    InputError
+        The file cannot be read, is not TOML, or lacks a value.
+    """
+    table, where, name = criteria_table(path, metric)
+    key = "metric" if metric else "us"
+    values: dict[str, Any] = {"name": name}
     optional = ("radius_coefficient", "e_max", "pass_tolerance")
     for f in Criteria.__dataclass_fields__:
         if f in ("name", "passing_sight_distance", "side_friction"):
@@ -436,6 +450,8 @@ class Review:
     #: required stopping sight distance at each sight-distance station, travelling
     #: up-station and down-station (grade-corrected); None without a profile
     required: tuple[np.ndarray, np.ndarray] | None = None
+    #: the superelevation of the horizontal curves (gradeline.analysis.superelevation)
+    superelevation: Any = None
 
     @property
     def failed(self) -> bool:
@@ -444,6 +460,7 @@ class Review:
             any(c.failed for c in self.curves)
             or bool(self.deficiencies)
             or any(ch.verdict == "fail" for _, ch in self.radius_checks)
+            or (self.superelevation is not None and self.superelevation.failed)
         )
 
 

@@ -39,6 +39,7 @@ COMMANDS = (
     "sheets",
     "review",
     "design",
+    "superelevation",
     "check",
     "fit",
     "convert",

@@ -125,6 +125,23 @@ def add_speed(p: argparse.ArgumentParser, criteria_help: str = "TOML design cont
     p.add_argument("--criteria", metavar="FILE", help=criteria_help)
 
 
+def add_superelevation(p: argparse.ArgumentParser) -> None:
+    """--super-method and --lanes-rotated (review, superelevation, build)."""
+    p.add_argument(
+        "--super-method",
+        choices=("open", "low-speed"),
+        default="open",
+        help="superelevation rates: the open-highway distribution of e and f (default) or "
+        "low-speed urban streets",
+    )
+    p.add_argument(
+        "--lanes-rotated",
+        type=float,
+        metavar="N",
+        help="lanes rotated about the axis, for runoff lengths (default 1)",
+    )
+
+
 def with_ground(solved: SolvedAlignment, args: argparse.Namespace) -> SolvedAlignment:
     """The alignment with the TIN ground the options ask for, if any (warnings printed)."""
     if not (getattr(args, "ground", None) or getattr(args, "surface", None)):

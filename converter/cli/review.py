@@ -5,7 +5,14 @@ from __future__ import annotations
 import argparse
 from typing import Any
 
-from gradeline.cli._common import add_common, add_report, add_speed, emit, warn
+from gradeline.cli._common import (
+    add_common,
+    add_report,
+    add_speed,
+    add_superelevation,
+    emit,
+    warn,
+)
 
 NAME = "review"
 
@@ -34,6 +41,7 @@ def add_parser(sub: Any) -> None:
         metavar="E",
         help="maximum superelevation rate for the minimum-radius check (default 0.08)",
     )
+    add_superelevation(p)
     p.add_argument(
         "--step",
         type=float,
@@ -58,6 +66,8 @@ def run(args: argparse.Namespace) -> int:
         args.emax,
         args.step,
         args.json,
+        args.super_method,
+        args.lanes_rotated,
     )
     text, failed = dl.review_report(solved, opts)
     warn(dl.plan_warnings(solved))

@@ -35,6 +35,7 @@ from gradeline.model import (
     SourceRef,
     StationEquation,
 )
+from gradeline.model.superelevation import STATION_FIELDS, Superelevation
 from gradeline.model.units import ANGLE_UNITS, LINEAR_UNITS, Units
 
 __all__ = ["parse_bytes", "read"]
@@ -275,6 +276,13 @@ class _Reader:
                     grounds.append(self.prof_surf(ps, ps.get("name") or prof_name))
                 except (InputError, ModelError) as err:
                     self.notice("broken", ps, f"ground profile left out: {self.located(err, ps)}")
+        supers: list[Superelevation] = []
+        for se in _children(el, "Superelevation"):
+            try:  # a broken transition is left out with a notice; the alignment reads on
+                supers.append(self.superelevation(se, name))
+            except (InputError, ModelError) as err:
+                self.notice("broken", se, f"superelevation left out: {self.located(err, se)}")
+        supers.sort(key=lambda x: x.first if x.first is not None else math.inf)
         names = [p.name for p in profiles]
         for i, p in enumerate(profiles):
             if p.name in names[:i]:
@@ -290,6 +298,52 @@ class _Reader:
             horizontal=horizontal,
             source=self.src(el),
             broken_profiles=tuple(broken),
+            superelevations=tuple(supers),
+        )
+
+    def superelevation(self, el: etree._Element, alignment: str) -> Superelevation:
+        """One ``Superelevation``: its stations (element text) and full rate (percent)."""
+        values: dict[str, float] = {}
+        rates: list[float] = []
+        adverse = None
+        for child in el:
+            tag = _local(child)
+            if tag == "FullSuperelev":
+                rates.append(self.number(child, (child.text or "").strip(), tag))
+            elif tag == "AdverseSE":
+                adverse = (child.text or "").strip() or None
+            elif tag in _SUPER_TAGS:
+                if tag in values:
+                    self.notice("ignored", child, f"a second {tag} in one Superelevation")
+                    continue
+                values[_SUPER_TAGS[tag]] = self.number(child, (child.text or "").strip(), tag)
+        if not rates:
+            raise self.fail(el, "a Superelevation without FullSuperelev")
+        rate = max(rates, key=abs)
+        if len(rates) > 1:
+            self.notice(
+                "merged",
+                el,
+                f"alignment {alignment!r}: {len(rates)} FullSuperelev values; the largest, "
+                f"{rate:g} %, is the rate",
+            )
+        pct = abs(rate)
+        if 0 < pct < 1.0:
+            # no road is superelevated below 1 %: a ratio written where percent belongs
+            self.notice(
+                "defaulted",
+                el,
+                f"alignment {alignment!r}: FullSuperelev {rate:g} read as a ratio "
+                f"({100 * pct:g} %); LandXML states it in percent",
+            )
+            pct *= 100.0
+        return Superelevation(
+            pct / 100.0,
+            **values,
+            sta_start=self.attr(el, "staStart"),
+            sta_end=self.attr(el, "staEnd"),
+            adverse=adverse,
+            source=self.src(el),
         )
 
     # -- horizontal geometry ------------------------------------------------
@@ -570,6 +624,10 @@ class _Reader:
                 GroundPiece(tuple(a for a, _ in pairs), tuple(b for _, b in pairs), self.src(pl))
             )
         return GroundProfile(name, tuple(p for p in pieces if p.stations), self.src(el))
+
+
+#: LandXML Superelevation station elements and the model's field for each.
+_SUPER_TAGS = {tag: name for name, tag in STATION_FIELDS}
 
 
 def _syntax_error(err: etree.XMLSyntaxError, path: str) -> InputError:

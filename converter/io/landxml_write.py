@@ -50,7 +50,7 @@ def write_landxml(
 
     Elements are written in the order of the LandXML 1.2 schema's sequences:
     Units, Project, Application, Alignments; in an Alignment, CoordGeom,
-    StaEquation, Profile; in a Profile, ProfSurf then ProfAlign. The same input
+    StaEquation, Profile, Superelevation; in a Profile, ProfSurf then ProfAlign. The same input
     gives the same bytes (``date`` and ``time`` are fixed unless given).
     """
     nsmap = {None: LANDXML_NS}
@@ -185,4 +185,23 @@ def write_landxml(
                             },
                             text,
                         )
+        for se in al.superelevations:
+            x = sub(
+                a,
+                "Superelevation",
+                {
+                    "staStart": None if se.sta_start is None else _num(se.sta_start),
+                    "staEnd": None if se.sta_end is None else _num(se.sta_end),
+                },
+            )
+            entry = ("BeginRunoutSta", "BeginRunoffSta", "FullSuperSta")
+            for tag, station in se.stations():
+                if tag in entry:
+                    sub(x, tag, text=_num(station))
+            sub(x, "FullSuperelev", text=_num(100 * se.rate))  # percent, as LandXML states it
+            for tag, station in se.stations():
+                if tag not in entry:
+                    sub(x, tag, text=_num(station))
+            if se.adverse is not None:
+                sub(x, "AdverseSE", text=se.adverse)
     return etree.tostring(root, xml_declaration=True, encoding="UTF-8", pretty_print=True)

@@ -19,6 +19,7 @@ from gradeline.model.plan import (
     Stated,
 )
 from gradeline.model.profile import CurveKind, Profile, PVISpec
+from gradeline.model.superelevation import Superelevation
 from gradeline.model.surface import GroundPiece, GroundProfile, Surface
 from gradeline.model.units import Units
 
@@ -44,6 +45,7 @@ __all__ = [
     "SourceRef",
     "Stated",
     "StationEquation",
+    "Superelevation",
     "Surface",
     "Units",
 ]

@@ -8,6 +8,7 @@ from gradeline.errors import InputError, ModelError
 from gradeline.model.base import Broken, Notice, SourceRef, _finite
 from gradeline.model.plan import HorizontalAlignment
 from gradeline.model.profile import Profile
+from gradeline.model.superelevation import Superelevation
 from gradeline.model.surface import GroundProfile
 from gradeline.model.units import Units
 
@@ -58,6 +59,8 @@ class Alignment:
     source: SourceRef | None = field(default=None, compare=False)
     #: ProfAlign elements that could not be read (the others read on).
     broken_profiles: tuple[Broken, ...] = field(default=(), compare=False)
+    #: superelevation transitions, in station order
+    superelevations: tuple[Superelevation, ...] = ()
 
     def __post_init__(self) -> None:
         _finite(self.sta_start, "staStart", self.source, "Alignment")

@@ -168,10 +168,11 @@ class UnitDefaults:
     fit_window: float  # length over which fit detects bends
     speed_unit: str  # unit of a design speed given without one
     symbol: str  # short length unit
+    station_tolerance: float = 0.01  # stations this close count as one (superelevation)
 
 
 #: ``UNIT_DEFAULTS[metric]``: US customary (False) and metric (True).
 UNIT_DEFAULTS: dict[bool, UnitDefaults] = {
     False: UnitDefaults("ansi-d", 50.0, 50.0, 10.0, 80.0, "mph", "ft"),
-    True: UnitDefaults("iso-a1", 500.0, 20.0, 5.0, 24.0, "kmh", "m"),
+    True: UnitDefaults("iso-a1", 500.0, 20.0, 5.0, 24.0, "kmh", "m", 0.005),
 }

@@ -502,8 +502,10 @@ def review_headline(
     short_radii: int,
     short_ranges: int,
     profile: bool = True,
+    super_failed: int = 0,
 ) -> str:
-    """First line of a review report (``profile`` False: a plan-only review).
+    """First line of a review report (``profile`` False: a plan-only review;
+    ``super_failed``: horizontal curves whose superelevation fails a control).
 
     Examples
     --------
@@ -511,11 +513,16 @@ def review_headline(
     ...                 horizontal_curves=0, short_radii=0, short_ranges=0)
     'PASS: all 12 checks on 3 vertical curves pass and sight distance is available everywhere'
     """
+    sup = (
+        f"; {_plural(super_failed, 'horizontal curve')} fail a superelevation control"
+        if super_failed
+        else ""
+    )
     if not profile:
         return (
             f"{'FAIL' if failed else 'PASS'}: {_plural(short_radii, 'horizontal curve')} of "
-            f"{horizontal_curves} below the minimum radius; no profile, so vertical curves "
-            "and sight distance were not reviewed"
+            f"{horizontal_curves} below the minimum radius{sup}; no profile, so vertical "
+            "curves and sight distance were not reviewed"
         )
     if not failed:
         return (
@@ -531,6 +538,7 @@ def review_headline(
             if short_radii
             else ""
         )
+        + sup
     )
 
 

@@ -52,15 +52,18 @@ SIGHT_CASES = (
 
 def review_summary(rev: Review) -> str:
     """The first line: what failed, out of how much."""
+    sup = rev.superelevation
+    sup_checks = sum(ch.verdict != "n/a" for cs in sup.curves for ch in cs.checks) if sup else 0
     return labels.review_headline(
         failed=rev.failed,
-        checks=sum(len(c.checks) for c in rev.curves) + len(rev.radius_checks),
+        checks=sum(len(c.checks) for c in rev.curves) + len(rev.radius_checks) + sup_checks,
         vertical_curves=len(rev.curves),
         failed_curves=sum(c.failed for c in rev.curves),
         horizontal_curves=len(rev.radius_checks),
         short_radii=sum(ch.verdict == "fail" for _, ch in rev.radius_checks),
         short_ranges=len(rev.deficiencies),
         profile=rev.sight is not None,
+        super_failed=sum(cs.failed for cs in sup.curves) + len(sup.overlaps) if sup else 0,
     )
 
 
@@ -115,6 +118,10 @@ def review_text(ctx: SolvedAlignment, rev: Review) -> str:
                 f"{'pass' if ch.verdict == 'pass' else ch.verdict.upper()}"
             )
         lines.append("")
+    if rev.superelevation is not None:
+        from gradeline.render.super_report import super_lines
+
+        lines.extend(super_lines(ctx, rev.superelevation))
     if rev.sight is None:
         lines.append("sight distance: not reviewed (no profile)")
     else:
@@ -133,6 +140,8 @@ def review_text(ctx: SolvedAlignment, rev: Review) -> str:
         )
     lines.append("")
     lines.extend(f"note: {n}" for n in rev.notes)
+    if rev.superelevation is not None:
+        lines.extend(f"note: {n}" for n in rev.superelevation.notes)
     lines.append(f"CAUTION: {labels.CAUTION}")
     return "\n".join(lines) + "\n"
 
@@ -209,9 +218,16 @@ def review_payload(ctx: SolvedAlignment, rev: Review) -> dict[str, Any]:
             }
             for i, (s, ch) in enumerate(rev.radius_checks, start=1)
         ],
+        "superelevation": None if rev.superelevation is None else _super(ctx, rev),
         "notes": list(rev.notes),
         "caution": labels.CAUTION,
     }
+
+
+def _super(ctx: SolvedAlignment, rev: Review) -> dict[str, Any]:
+    from gradeline.render.super_report import super_payload
+
+    return super_payload(ctx, rev.superelevation)
 
 
 # --------------------------------------------------------------------------- check
