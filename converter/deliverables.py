@@ -248,11 +248,33 @@ def station_table(
     else:
         interval = opts.interval or solved.document.units.defaults.table_interval
         stations, tags = tables.table_stations(solved, interval=interval)
+        if solved.alignment.superelevations:
+            stations, tags = _merge_stations(stations, tags, *tables.super_stations(solved))
     rows = tables.station_rows(solved, stations, tags)
     columns: tuple[str, ...] = tables.STATION_COLUMNS
     if solved.surface is not None:
         columns = tables.add_ground_columns(solved, stations, rows)
+    if solved.alignment.superelevations:
+        tables.add_super_columns(solved, stations, rows)
+        columns += tables.SUPER_COLUMNS
     return _render(solved, opts.format, columns, rows)
+
+
+def _merge_stations(stations, tags, more, more_tags):
+    """Table stations with more stations added (tags joined where two meet)."""
+    import numpy as np
+
+    from gradeline.present.tables import JOIN_TOLERANCE
+
+    merged = dict(zip((float(s) for s in stations), tags, strict=True))
+    for s, t in zip(more, more_tags, strict=True):
+        near = next((k for k in merged if abs(k - s) <= JOIN_TOLERANCE), None)
+        if near is None:
+            merged[float(s)] = t
+        elif t not in merged[near].split(";"):
+            merged[near] = f"{merged[near]};{t}" if merged[near] else t
+    keys = sorted(merged)
+    return np.array(keys), [merged[k] for k in keys]
 
 
 def _off_parts(
@@ -290,7 +312,12 @@ def curve_table(solved: SolvedAlignment, fmt: str = "csv") -> str:
     """Horizontal then vertical curve data, one row a curve."""
     from gradeline.present import tables
 
-    return _render(solved, fmt, tables.CURVE_COLUMNS, tables.curve_rows(solved))
+    rows = tables.curve_rows(solved)
+    columns: tuple[str, ...] = tables.CURVE_COLUMNS
+    if solved.alignment.superelevations:
+        tables.add_super_curve_columns(solved, rows)
+        columns += tables.SUPER_CURVE_COLUMNS
+    return _render(solved, fmt, columns, rows)
 
 
 # --------------------------------------------------------------------------- drawings

@@ -109,6 +109,18 @@ def describe(path: str) -> dict[str, Any]:
                     "end": max(pts) if pts else None,
                 }
             )
+        if al.superelevations:
+            st = plan.stationing if plan is not None else None
+            entry["superelevation"] = [
+                {
+                    "rate": r.rate,
+                    "first": r.first,
+                    "last": r.last,
+                    "first_label": st.label(r.first) if st and r.first is not None else None,
+                    "last_label": st.label(r.last) if st and r.last is not None else None,
+                }
+                for r in al.superelevations
+            ]
         out["alignments"].append(entry)
     for bad in doc.broken:
         out["alignments"].append({"name": bad.name, "error": str(bad.error)})
@@ -177,6 +189,17 @@ def describe_text(info: dict[str, Any]) -> str:
             lines.append(
                 f"  ground {g['name']!r}: {g['points']} points in {g['pieces']} "
                 f"piece{'s' if g['pieces'] != 1 else ''}"
+            )
+        sup = al.get("superelevation")
+        if sup:
+            rates = [100 * r["rate"] for r in sup]
+            spans = ", ".join(
+                f"{r['first_label'] or '?'} to {r['last_label'] or '?'} at {100 * r['rate']:.1f} %"
+                for r in sup
+            )
+            lines.append(
+                f"  superelevation: {_count(len(sup), 'transition')}, full rates "
+                f"{min(rates):.1f} to {max(rates):.1f} % ({spans})"
             )
     return "\n".join(lines) + "\n"
 

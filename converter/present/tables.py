@@ -21,6 +21,8 @@ from gradeline.solved import SolvedAlignment
 __all__ = [
     "CURVE_COLUMNS",
     "STATION_COLUMNS",
+    "SUPER_COLUMNS",
+    "SUPER_CURVE_COLUMNS",
     "curve_rows",
     "station_rows",
     "table_stations",
@@ -90,7 +92,25 @@ CURVE_COLUMNS = (
 Row = dict[str, Any]
 
 _TEXT_COLUMNS = frozenset({"kind", "type", "turn", "spiral_type", "point", "surface"})
-_PERCENT_COLUMNS = frozenset({"grade", "grade_in", "grade_out", "A"})
+_PERCENT_COLUMNS = frozenset(
+    {"grade", "grade_in", "grade_out", "A", "super_left", "super_right", "super_rate"}
+)
+
+#: Cross slopes of the station table where the alignment states superelevation:
+#: percent, each lane measured outward from the centreline (negative falls away).
+SUPER_COLUMNS = ("super_left", "super_right")
+#: Superelevation of each horizontal curve in the curve table (rate in percent).
+SUPER_CURVE_COLUMNS = ("super_rate", "runout_in", "runoff_in", "runoff_out", "runout_out")
+#: The point tag of each superelevation station in the station table: normal crown,
+#: level outside lane, full superelevation (common abbreviations of the trade).
+SUPER_TAGS = {
+    "BeginRunoutSta": "NC",
+    "BeginRunoffSta": "LC",
+    "FullSuperSta": "FS",
+    "RunoffSta": "FS",
+    "StartofRunoutSta": "LC",
+    "EndofRunoutSta": "NC",
+}
 
 
 def column_units(columns: Sequence[str], units) -> dict[str, str | None]:
@@ -305,6 +325,56 @@ def horizontal_curve_rows(ctx: SolvedAlignment) -> list[Row]:
 def curve_rows(ctx: SolvedAlignment) -> list[Row]:
     """Horizontal curve rows, then vertical curve rows, all with :data:`CURVE_COLUMNS`."""
     return horizontal_curve_rows(ctx) + vertical_curve_rows(ctx)
+
+
+def normal_crown(ctx: SolvedAlignment) -> float:
+    """The normal cross slope of the shipped criteria for the file's units."""
+    from gradeline.analysis.superelevation import load_super_criteria
+
+    return load_super_criteria(None, ctx.document.units.metric).normal_crown
+
+
+def super_stations(ctx: SolvedAlignment) -> tuple[list[float], list[str]]:
+    """Every station a stated superelevation names, with its point tag."""
+    out = sorted(
+        {(s, SUPER_TAGS[tag]) for r in ctx.alignment.superelevations for tag, s in r.stations()}
+    )
+    return [s for s, _ in out], [t for _, t in out]
+
+
+def add_super_columns(ctx: SolvedAlignment, stations: ArrayLike, rows: list[Row]) -> None:
+    """Add the left and right cross slopes (percent) of the stated superelevation."""
+    from gradeline.analysis.superelevation import cross_slopes
+
+    left, right = cross_slopes(
+        ctx.alignment.superelevations, ctx.curves, normal_crown(ctx), stations
+    )
+    for row, lv, rv in zip(rows, left, right, strict=True):
+        row["super_left"], row["super_right"] = 100 * float(lv), 100 * float(rv)
+
+
+def add_super_curve_columns(ctx: SolvedAlignment, rows: list[Row]) -> None:
+    """Add each horizontal curve's stated rate (percent) and transition lengths."""
+    from gradeline.analysis.superelevation import _match
+
+    records = _match(ctx.curves, ctx.alignment.superelevations)
+    horizontal = [r for r in rows if r["kind"] == "horizontal"]
+    for row in rows:
+        row.update(dict.fromkeys(SUPER_CURVE_COLUMNS))
+    for row, rec in zip(horizontal, records, strict=False):
+        if rec is None:
+            continue
+
+        def span(a: float | None, b: float | None) -> float | None:
+            return None if a is None or b is None else b - a
+
+        row.update(
+            super_rate=100 * rec.rate,
+            runout_in=span(rec.begin_runout, rec.begin_runoff),
+            runoff_in=span(rec.begin_runoff, rec.full_super),
+            runoff_out=span(rec.end_full, rec.end_runoff),
+            runout_out=span(rec.end_runoff, rec.end_runout),
+        )
 
 
 def add_ground_columns(
