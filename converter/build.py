@@ -136,6 +136,8 @@ def _deliverable(name: str) -> tuple[str, str | bytes, Any]:
         make = dl.profile_dxf if name == "profile.dxf" else dl.plan_dxf
         data = make(solved, c["drawing"])
         return name, data, dl.drawing_audit_of(solved, data, name, dl.CheckOptions().tolerances())
+    if name == "superelevation.dxf":
+        return name, dl.superelevation_dxf(solved, c["drawing"]), None
     if name == "sheets.pdf":
         return name, dl.sheets_pdf(solved, c["sheet_opts"]), None
     if name == "curves.csv":
@@ -214,6 +216,8 @@ def _build_alignment(
         )
     if solved.horizontal is not None:
         names.append("plan.dxf")
+        if solved.alignment.superelevations:
+            names.append("superelevation.dxf")
     else:
         notes.append("no CoordGeom in the file: plan.dxf and the plan views left out")
     names += ["sheets.pdf", "curves.csv", "table.csv", "check.txt"]

@@ -248,8 +248,6 @@ def station_table(
     else:
         interval = opts.interval or solved.document.units.defaults.table_interval
         stations, tags = tables.table_stations(solved, interval=interval)
-        if solved.alignment.superelevations:
-            stations, tags = _merge_stations(stations, tags, *tables.super_stations(solved))
     rows = tables.station_rows(solved, stations, tags)
     columns: tuple[str, ...] = tables.STATION_COLUMNS
     if solved.surface is not None:
@@ -258,23 +256,6 @@ def station_table(
         tables.add_super_columns(solved, stations, rows)
         columns += tables.SUPER_COLUMNS
     return _render(solved, opts.format, columns, rows)
-
-
-def _merge_stations(stations, tags, more, more_tags):
-    """Table stations with more stations added (tags joined where two meet)."""
-    import numpy as np
-
-    from gradeline.present.tables import JOIN_TOLERANCE
-
-    merged = dict(zip((float(s) for s in stations), tags, strict=True))
-    for s, t in zip(more, more_tags, strict=True):
-        near = next((k for k in merged if abs(k - s) <= JOIN_TOLERANCE), None)
-        if near is None:
-            merged[float(s)] = t
-        elif t not in merged[near].split(";"):
-            merged[near] = f"{merged[near]};{t}" if merged[near] else t
-    keys = sorted(merged)
-    return np.array(keys), [merged[k] for k in keys]
 
 
 def _off_parts(
@@ -364,6 +345,26 @@ def plan_dxf(solved: SolvedAlignment, opts: DrawingOptions) -> bytes:
         raise UsageError(f"alignment {solved.alignment.name!r} has no CoordGeom; no plan to draw")
     lay = opts.layout(solved)
     drawing = plan_drawing(solved, lay)
+    return write_dxf(
+        drawing,
+        lay,
+        version=opts.version,
+        curves=opts.curves,
+        linear_unit=solved.document.units.linear,
+    )
+
+
+def superelevation_dxf(solved: SolvedAlignment, opts: DrawingOptions) -> bytes:
+    """The superelevation diagram along the alignment (needs a stated superelevation)."""
+    from gradeline.present.super_diagram import super_panels, superelevation_drawing
+    from gradeline.render.dxf import write_dxf
+
+    if not solved.alignment.superelevations:
+        raise UsageError(
+            f"alignment {solved.alignment.name!r} states no superelevation; nothing to draw"
+        )
+    lay = opts.layout(solved)
+    drawing = superelevation_drawing(solved, super_panels(solved), lay.text_height)
     return write_dxf(
         drawing,
         lay,

@@ -175,7 +175,7 @@ def offset_stations(coord_xml, sta_start, nd):
     )
 
 
-def alignment_xml(name, desc, sta_start, length, pvis, nd, ground_pts, extra=""):
+def alignment_xml(name, desc, sta_start, length, pvis, nd, ground_pts, extra="", after=""):
     rows = []
     for kind, s, z, attrs in pvis:
         a = "".join(f' {k}="{v}"' for k, v in attrs.items())
@@ -190,8 +190,25 @@ def alignment_xml(name, desc, sta_start, length, pvis, nd, ground_pts, extra="")
 {body}
         </ProfAlign>
       </Profile>
-    </Alignment>
+{after}    </Alignment>
 """
+
+
+def superelevation_xml(transitions):
+    """``Superelevation`` elements: (NC, LC, FS begin, FS end, LC, NC, full rate %)."""
+    tags = ("BeginRunoutSta", "BeginRunoffSta", "FullSuperSta")
+    exit_tags = ("RunoffSta", "StartofRunoutSta", "EndofRunoutSta")
+    out = []
+    for *st, rate in transitions:
+        rows = [f"        <{t}>{s:.2f}</{t}>" for t, s in zip(tags, st[:3], strict=True)]
+        rows.append(f"        <FullSuperelev>{rate:.1f}</FullSuperelev>")
+        rows += [f"        <{t}>{s:.2f}</{t}>" for t, s in zip(exit_tags, st[3:], strict=True)]
+        out.append(
+            f'      <Superelevation staStart="{st[2]:.2f}" staEnd="{st[3]:.2f}">\n'
+            + "\n".join(rows)
+            + "\n      </Superelevation>\n"
+        )
+    return "".join(out)
 
 
 def header(project, units):
@@ -233,8 +250,16 @@ def write_us():
     lane_plan.line(1150.0 - lane_plan.station)
     lane_coord, lane_total = lane_plan.xml(0.0)
     text = header("Marrow County Route 9 realignment (invented)", units)
+    # the designer's superelevation for 50 mph, e max 8 %: over the spirals of curve 1
+    # (7.0 %), two thirds of a 150 ft runoff before the PC of curve 2 (6.2 %)
+    supers = superelevation_xml(
+        [
+            (1828.57, 1900.00, 2150.00, 2486.43, 2736.43, 2807.86, 7.0),
+            (3538.04, 3586.43, 3736.43, 4552.73, 4702.73, 4751.12, 6.2),
+        ]
+    )
     text += alignment_xml(
-        name, "Mainline, design speed 50 mph", 1000.0, total, pvis, 2, gpts, coord
+        name, "Mainline, design speed 50 mph", 1000.0, total, pvis, 2, gpts, coord, supers
     )
     text += alignment_xml(lane_name, "Side road", 0.0, lane_total, lane, 2, lpts, lane_coord)
     text += "  </Alignments>\n</LandXML>\n"

@@ -20,6 +20,7 @@ from gradeline.present.items import ArcItem, Circle, Drawing, Path, QuadCurve, T
 from gradeline.present.layout import DraftingLayout, default_layout
 from gradeline.present.plan_drawing import plan_drawing
 from gradeline.present.roles import ROLE_STYLE, Role
+from gradeline.present.super_diagram import super_panels
 from gradeline.sheets import fonts, tables
 from gradeline.sheets.layout import (
     TABLE_ROW,
@@ -34,6 +35,7 @@ from gradeline.sheets.layout import (
     split_blocks,
     table_capacity,
 )
+from gradeline.sheets.super_page import PANELS_PER_PAGE, draw_super_page
 from gradeline.sheets.views import (
     PaperXform,
     PlacedNote,
@@ -208,11 +210,17 @@ class PagePlan:
     frames: list[Frame]
     tables: list[tables.TextTable]
     table_pages: list[list[tuple[int, int, int, int]]]  # per page: table, rows, blocks
+    super_panels: tuple = ()  # superelevation diagram panels, six a page
+
+    @property
+    def super_pages(self) -> int:
+        """Pages of the superelevation diagram."""
+        return -(-len(self.super_panels) // PANELS_PER_PAGE)
 
     @property
     def pages(self) -> int:
         """Total page count."""
-        return len(self.frames) + len(self.table_pages)
+        return len(self.frames) + len(self.table_pages) + self.super_pages
 
 
 def _layout(ctx: SolvedAlignment, opts: SheetOptions) -> DraftingLayout:
@@ -235,6 +243,8 @@ def page_plan(ctx: SolvedAlignment, opts: SheetOptions) -> PagePlan:
     if ctx.horizontal is not None:
         tabs.append(tables.horizontal_curve_table(ctx))
         tabs.append(tables.tangent_table(ctx))
+        if ctx.alignment.superelevations:
+            tabs.append(tables.superelevation_table(ctx))
     if ctx.geometry is not None:
         tabs.append(tables.vertical_curve_table(ctx))
         tabs.append(tables.station_table(ctx, interval))
@@ -243,7 +253,8 @@ def page_plan(ctx: SolvedAlignment, opts: SheetOptions) -> PagePlan:
     blocks = [table_blocks(tab, geo) for tab in tabs]
     capacity = table_capacity(geo, TABLE_ROW * geo.text)
     pages = pack_tables([len(tab.rows) for tab in tabs], capacity, blocks)
-    return PagePlan(frames, tabs, pages)
+    panels = super_panels(ctx) if ctx.horizontal is not None else ()
+    return PagePlan(frames, tabs, pages, panels)
 
 
 @functools.lru_cache(maxsize=32)
@@ -660,6 +671,15 @@ def render_sheets(ctx: SolvedAlignment, opts: SheetOptions) -> bytes:
             labels.SHEET_TITLE_TABLES,
             False,
         )
+        c.showPage()
+    panels = list(plan_info.super_panels)
+    for k in range(plan_info.super_pages):
+        page += 1
+        draw_super_page(c, geo, panels[k * PANELS_PER_PAGE : (k + 1) * PANELS_PER_PAGE])
+        _title_block(
+            c, geo, ctx, opts, page, total, [labels.NO_SCALE_DIAGRAM],
+            labels.SHEET_TITLE_SUPER, False,
+        )  # fmt: skip
         c.showPage()
     c.save()
     return buf.getvalue()

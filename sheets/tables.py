@@ -19,6 +19,7 @@ __all__ = [
     "TextTable",
     "horizontal_curve_table",
     "station_table",
+    "superelevation_table",
     "tangent_table",
     "vertical_curve_table",
 ]
@@ -208,6 +209,51 @@ def tangent_table(ctx: SolvedAlignment) -> TextTable:
         ("FROM", "N / E", "TO", "N / E", f"LENGTH ({units.symbol})", "BEARING"),
         tuple(out),
         (1.0, 1.0, 1.0, 1.0, 1.0, 1.0),
+    )
+
+
+def superelevation_table(ctx: SolvedAlignment) -> TextTable:
+    """The stated superelevation: each transition's curve, radius, full rate and the
+    stations where it changes (NC normal crown, LC outside lane level, FS full)."""
+    from gradeline.analysis.superelevation import _match
+
+    records = list(ctx.alignment.superelevations)
+    owners = {id(r): (i, c) for i, (c, r) in enumerate(
+        zip(ctx.curves, _match(ctx.curves, records), strict=True), start=1) if r}  # fmt: skip
+    out = []
+    for r in records:
+        i, c = owners.get(id(r), (None, None))
+        out.append(
+            (
+                "" if i is None else str(i),
+                "" if c is None else _len(c.radius, ctx),
+                "" if c is None else ("L" if c.delta > 0 else "R"),
+                f"{100 * r.rate:.1f} %",
+                _sta(r.begin_runout, ctx),
+                _sta(r.begin_runoff, ctx),
+                _sta(r.full_super, ctx),
+                _sta(r.end_full, ctx),
+                _sta(r.end_runoff, ctx),
+                _sta(r.end_runout, ctx),
+            )
+        )
+    units = ctx.document.units
+    return TextTable(
+        f"SUPERELEVATION DATA - {ctx.alignment.name}",
+        (
+            "CURVE",
+            f"R ({units.symbol})",
+            "TURN",
+            "FULL RATE",
+            "NC",
+            "LC",
+            "FS BEGIN",
+            "FS END",
+            "LC",
+            "NC",
+        ),
+        tuple(out),
+        (0.6, 1.0, 0.5, 0.9, 1.0, 1.0, 1.0, 1.0, 1.0, 1.0),
     )
 
 

@@ -32,18 +32,24 @@ def test_demo_builds_everything(tmp_path, capsys):
     index = json.loads((out / "index.json").read_text())
     for item in index["items"]:
         names = {os.path.basename(o) for o in item["outputs"]}
-        assert names == {
-            "profile.dxf",
-            "plan.dxf",
-            "sheets.pdf",
-            "curves.csv",
-            "table.csv",
-            "check.txt",
-            "review.txt",
-            "review.pdf",
-        }
+        # the bypass states its superelevation: its diagram is drawn too
+        extra = {"superelevation.dxf"} if item["alignment"] == "Orrin Vale Bypass" else set()
+        assert (
+            names
+            == {
+                "profile.dxf",
+                "plan.dxf",
+                "sheets.pdf",
+                "curves.csv",
+                "table.csv",
+                "check.txt",
+                "review.txt",
+                "review.pdf",
+            }
+            | extra
+        )
     table = (out / "orrin-vale-bypass" / "orrin-vale-bypass" / "table.csv").read_text()
-    assert table.splitlines()[0].endswith(",ground,cut_fill")
+    assert table.splitlines()[0].endswith(",ground,cut_fill,super_left,super_right")
 
 
 def test_build_twice_gives_identical_bytes(tmp_path):

@@ -38,7 +38,16 @@ def test_table_csv(capsys):
         "easting",
         "direction",
         "point",
+        "super_left",
+        "super_right",
     ]
+    # the sample states its superelevation: at the SC of the right-hand curve 1 the
+    # full 7.0 % is reached, the outside (left) lane up, the inside lane down; on the
+    # tangent before it both lanes sit at the 2 % normal crown (common practice)
+    sc = next(r for r in rows if "FS" in r["point"].split(";"))
+    assert sc["station_label"] == "21+50.00"
+    assert (float(sc["super_left"]), float(sc["super_right"])) == (7.0, -7.0)
+    assert (float(rows[0]["super_left"]), float(rows[0]["super_right"])) == (-2.0, -2.0)
     bvc = next(r for r in rows if r["point"] == "BVC")
     assert bvc["station_label"] == "14+50.00"
     # 512.40 + 2.366667 % * 450 ft = 523.05 (PVIs of the sample)

@@ -230,7 +230,7 @@ def test_table_gains_ground_and_cut_fill(capsys):
     )
     rows = list(csv.DictReader(io.StringIO(capsys.readouterr().out)))
     assert code == 0
-    assert list(rows[0])[-2:] == ["ground", "cut_fill"]
+    assert list(rows[0])[-4:] == ["ground", "cut_fill", "super_left", "super_right"]
     for r in rows:
         if r["ground"]:
             # each column is exported to 4 decimals (README): within two roundings

@@ -166,6 +166,9 @@ def test_commands_take_ifc(tmp_path, capsys):
         )
         rows[src] = capsys.readouterr().out.splitlines()
     got, want = rows[ifc], rows[US_SAMPLE]
+    # IFC carries no superelevation: the LandXML table's rows of its stations alone
+    # (tagged NC, LC, FS and nothing else) are not in the IFC's
+    want = [w for w in want if not set(w.split(",")[9].split(";")) <= {"NC", "LC", "FS"}]
     assert len(got) == len(want) == 280
     for g, w in zip(got[1:], want[1:], strict=True):  # stations, elevations, coordinates
         assert g.split(",")[:8] == w.split(",")[:8]

@@ -27,6 +27,11 @@ def add_parser(sub: Any) -> None:
     add_common(p)
     p.add_argument("-o", "--output", metavar="PATH", required=True, help="profile DXF to write")
     p.add_argument("--plan", metavar="PATH", help="also write the plan linework to this DXF")
+    p.add_argument(
+        "--superelevation",
+        metavar="PATH",
+        help="also write the superelevation diagram (cross slope of each lane) to this DXF",
+    )
     add_ground(p)
     p.add_argument(
         "--exaggeration",
@@ -96,6 +101,10 @@ def run(args: argparse.Namespace) -> int:
                 + (f"; {args.output} not written" if args.plan else "")
             )
         )
+    if args.superelevation:
+        if args.superelevation in (args.output, args.plan):
+            raise UsageError("--superelevation names the same file as another output")
+        outputs.append((args.superelevation, dl.superelevation_dxf(solved, opts)))
     warn(dl.plan_warnings(solved) + notes)
     for path, blob in outputs:
         write_file(path, blob, [args.file])

@@ -185,8 +185,10 @@ PLAN_LEGEND = "ALIGNMENT"
 SHEET_TITLE_PLAN_PROFILE = "PLAN AND PROFILE"
 SHEET_TITLE_PLAN = "PLAN"
 SHEET_TITLE_TABLES = "CURVE AND STATION TABLES"
+SHEET_TITLE_SUPER = "SUPERELEVATION DIAGRAM"
 #: What the SCALES cell of a table page says.
 NO_SCALE = "TABLES: NOT TO SCALE"
+NO_SCALE_DIAGRAM = "DIAGRAM: NOT TO SCALE"
 
 
 def sheet_scale_lines(
@@ -514,7 +516,8 @@ def review_headline(
     'PASS: all 12 checks on 3 vertical curves pass and sight distance is available everywhere'
     """
     sup = (
-        f"; {_plural(super_failed, 'horizontal curve')} fail a superelevation control"
+        f"; {_plural(super_failed, 'horizontal curve')} "
+        f"{'fails' if super_failed == 1 else 'fail'} a superelevation control"
         if super_failed
         else ""
     )

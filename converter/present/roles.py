@@ -35,6 +35,11 @@ class Role(StrEnum):
     PLAN_NOTES = "plan_notes"
     MATCH = "match"  # sheets only
     FRAME = "frame"  # sheets only
+    SUPER_LEFT = "super_left"
+    SUPER_RIGHT = "super_right"
+    SUPER_AXIS = "super_axis"
+    SUPER_GRID = "super_grid"
+    SUPER_LABELS = "super_labels"
 
 
 @dataclass(frozen=True, slots=True)
@@ -81,6 +86,14 @@ ROLE_STYLE: dict[Role, RoleStyle] = {
     Role.PLAN_NOTES: RoleStyle("PLAN-CURVE-DATA", 7, "Continuous", 18, _BLACK, 0.4),
     Role.MATCH: RoleStyle(None, 1, "Continuous", 35, (0.80, 0.10, 0.10), 0.9, (9.0, 3.0, 2.0, 3.0)),
     Role.FRAME: RoleStyle(None, 7, "Continuous", 35, _BLACK, 1.0),
+    # the superelevation diagram: left lane solid red, right lane dashed blue-green
+    Role.SUPER_LEFT: RoleStyle("SUPER-LEFT-LANE", 1, "Continuous", 35, (0.80, 0.10, 0.10), 1.1),
+    Role.SUPER_RIGHT: RoleStyle(
+        "SUPER-RIGHT-LANE", 4, "GL_DASHED", 35, (0.0, 0.45, 0.55), 1.1, (6.0, 3.0)
+    ),
+    Role.SUPER_AXIS: RoleStyle("SUPER-AXIS", 251, "Continuous", 18, (0.35, 0.37, 0.42), 0.6),
+    Role.SUPER_GRID: RoleStyle("SUPER-GRID", 253, "Continuous", 9, (0.78, 0.80, 0.84), 0.25),
+    Role.SUPER_LABELS: RoleStyle("SUPER-LABELS", 7, "Continuous", 18, _BLACK, 0.4),
 }
 
 #: Roles that become DXF layers, and the default layer name of each.

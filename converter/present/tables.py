@@ -182,8 +182,18 @@ def table_stations(
     point; with ``at`` they are exactly the given internal stations, tagged
     where they hit a key point.
     """
-    keys = ctx.key_points
-    key_st = np.array([k.station for k in keys])
+    keys = [(k.station, k.text) for k in ctx.key_points]
+    if at is None and ctx.alignment.superelevations:
+        # the stations a stated superelevation names are rows too (tags joined
+        # where one meets a key point)
+        for s, t in zip(*super_stations(ctx), strict=True):
+            near = next((i for i, (k, _) in enumerate(keys) if abs(k - s) <= JOIN_TOLERANCE), None)
+            if near is None:
+                keys.append((s, t))
+            elif t not in keys[near][1].split(";"):
+                keys[near] = (keys[near][0], f"{keys[near][1]};{t}" if keys[near][1] else t)
+        keys.sort()
+    key_st = np.array([k for k, _ in keys])
     if at is not None:
         stations = np.asarray(at, dtype=np.float64).reshape(-1)
     else:
@@ -202,7 +212,7 @@ def table_stations(
     for s in stations:
         if len(key_st):
             i = int(np.argmin(np.abs(key_st - s)))
-            tags.append(keys[i].text if abs(key_st[i] - s) <= JOIN_TOLERANCE else "")
+            tags.append(keys[i][1] if abs(key_st[i] - s) <= JOIN_TOLERANCE else "")
         else:
             tags.append("")
     return stations, tags
