@@ -303,7 +303,10 @@ def propose(
         lt = runout_length(rate.value, lr, sc)
         stations, placed = _place(c, rate.value, lr, lt, sc.runoff_on_tangent)
         note = "; ".join(n for n in (placed, note) if n)
-        record = Superelevation(rate.value, *stations, sta_start=stations[2], sta_end=stations[3])
+        nc0, lc0, fs0, fs1, lc1, nc1 = stations
+        record = Superelevation(
+            rate.value, nc0, lc0, fs0, fs1, lc1, nc1, sta_start=fs0, sta_end=fs1
+        )
         if rate.beyond:
             note = (note + "; " if note else "") + "the radius is below the minimum for the speed"
         out.append(Transition(i, c, rate, lr, lt, record, note))
@@ -459,7 +462,7 @@ def review_superelevation(
         if a.last is not None and b.first is not None and a.last > b.first + tolerance
     )
     used = {id(r) for r in matched if r is not None}
-    notes = (
+    notes: tuple[str, ...] = (
         "Superelevation rates and lengths follow the criteria file's method and tables "
         "(AASHTO 2018 values recalled from memory); they do not replace the governing "
         "agency's standards or the responsible engineer's judgment.",

@@ -187,11 +187,11 @@ def table_stations(
         # the stations a stated superelevation names are rows too (tags joined
         # where one meets a key point)
         for s, t in zip(*super_stations(ctx), strict=True):
-            near = next((i for i, (k, _) in enumerate(keys) if abs(k - s) <= JOIN_TOLERANCE), None)
-            if near is None:
+            hit = next((i for i, (k, _) in enumerate(keys) if abs(k - s) <= JOIN_TOLERANCE), None)
+            if hit is None:
                 keys.append((s, t))
-            elif t not in keys[near][1].split(";"):
-                keys[near] = (keys[near][0], f"{keys[near][1]};{t}" if keys[near][1] else t)
+            elif t not in keys[hit][1].split(";"):
+                keys[hit] = (keys[hit][0], f"{keys[hit][1]};{t}" if keys[hit][1] else t)
         keys.sort()
     key_st = np.array([k for k, _ in keys])
     if at is not None:
