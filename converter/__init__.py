@@ -142,24 +142,17 @@ def write_sheets(solved: SolvedAlignment, path: str, options: SheetOptions | Non
 
 
 def review(solved: SolvedAlignment, speed: float, **options: Any):  # noqa: ANN201
-    """Design-control review of the profile for a design speed.
+    """Design-control review of the profile (and the superelevation of the horizontal
+    curves) for a design speed.
 
-    ``options`` are those of :class:`gradeline.analysis.review.review_profile`
-    (``curbed``, ``passing``, ``step``, ``e_max``); the speed is in the
-    criteria's unit (mph for files in feet, km/h for metres). Returns a
-    :class:`gradeline.analysis.review.Review`.
+    ``options``: ``curbed``, ``passing``, ``step``, ``e_max``, ``criteria`` (a TOML
+    file), ``super_method`` ("open" or "low-speed") and ``lanes`` (lanes rotated);
+    the speed is in the criteria's unit (mph for files in feet, km/h for metres).
+    Returns a :class:`gradeline.analysis.review.Review`.
     """
-    from gradeline.analysis import review as rv
+    from gradeline import deliverables as dl
 
-    crit = rv.load_criteria(options.pop("criteria", None), solved.document.units.metric)
-    return rv.review_profile(
-        solved.geometry,
-        crit,
-        speed,
-        length_unit=solved.document.units.symbol,
-        horizontal_curves=solved.curves,
-        **options,
-    )
+    return dl.review_of(solved, dl.ReviewOptions(speed, **options))
 
 
 def check(solved: SolvedAlignment, tolerance: float = 0.01, angle_tolerance_sec: float = 2.0):  # noqa: ANN201

@@ -481,7 +481,7 @@ def review_report(solved: SolvedAlignment, opts: ReviewOptions) -> tuple[str, bo
     from gradeline.render.outputs import json_text
     from gradeline.render.reports import review_payload, review_text
 
-    rev = _review(solved, opts)
+    rev = review_of(solved, opts)
     text = json_text(review_payload(solved, rev)) if opts.json else review_text(solved, rev)
     return text, rev.failed
 
@@ -500,7 +500,8 @@ def criteria_and_speed(
     return crit, speed
 
 
-def _review(solved: SolvedAlignment, opts: ReviewOptions) -> Any:
+def review_of(solved: SolvedAlignment, opts: ReviewOptions) -> Any:
+    """The review (a :class:`gradeline.analysis.review.Review`) of one alignment."""
     from gradeline.analysis import review
 
     units = solved.document.units
@@ -706,7 +707,7 @@ def review_outputs(solved: SolvedAlignment, opts: ReviewOptions) -> tuple[str, b
     from gradeline.render.reports import review_payload, review_text
     from gradeline.sheets.review_page import review_pdf
 
-    rev = _review(solved, opts)
+    rev = review_of(solved, opts)
     text = json_text(review_payload(solved, rev)) if opts.json else review_text(solved, rev)
     chart = review_chart(solved, rev)
     return text, rev.failed, None if chart is None else review_pdf(chart)

@@ -99,6 +99,30 @@ def test_rates_run_from_normal_crown_to_e_max_at_the_minimum_radius():
             assert rate.value >= rate.raw - 1e-12 and rate.value - rate.raw < 0.001 + 1e-12
 
 
+@pytest.mark.parametrize(
+    ("e_max", "speed", "table_radius", "sc"),
+    [  # AASHTO 2018 minimum radii (its Table 3-7, from memory), ft and m
+        (0.04, 30, 250, SC),
+        (0.04, 50, 926, SC),
+        (0.06, 30, 231, SC),
+        (0.06, 60, 1330, SC),
+        (0.08, 50, 758, SC),
+        (0.08, 70, 1810, SC),
+        (0.10, 60, 1090, SC),
+        (0.08, 80, 229, SCM),
+        (0.08, 100, 394, SCM),
+    ],
+)
+def test_each_e_max_is_reached_at_the_published_minimum_radius(e_max, speed, table_radius, sc):
+    c = sc.radius_coefficient
+    r_min = speed**2 / (c * (e_max + sc.f_max(speed)))
+    assert r_min == pytest.approx(table_radius, abs=5.0)  # the table rounds to 1 or 10
+    rate = se.design_rate(r_min, speed, e_max, sc)
+    assert rate.value == pytest.approx(e_max) and not rate.beyond
+    flatter = se.design_rate(2 * r_min, speed, e_max, sc)
+    assert 0 < flatter.raw < e_max
+
+
 def test_low_speed_streets_take_friction_first():
     # e = V^2 / (15 R) - f: at 30 mph f 0.23 (the criteria's low-speed table)
     assert se.design_rate(300.0, 30, 0.06, SC, "low-speed").label == "NC"  # 0.20 < 0.23
