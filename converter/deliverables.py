@@ -789,13 +789,14 @@ def drawing_audit_of(solved: SolvedAlignment, data: bytes, shown: str, tol: Tole
         return drawing_audits(solved, [path], tol, shown=[shown])[0]
 
 
-def ifc_bytes(doc: Document, alignment: str | None = None) -> tuple[bytes, list[str]]:
-    """IFC 4.3 of the document's alignments (or the one named) and the one-line reason
-    of each alignment left out (broken, or holding what the writer does not write)."""
+def ifc_bytes(doc: Document, alignment: str | None = None) -> tuple[bytes, list[str], list[str]]:
+    """IFC 4.3 of the document's alignments (or the one named), the one-line reason of
+    each alignment left out (broken, or holding what the writer does not write), and a
+    line for each part of a written alignment IFC does not carry."""
     from gradeline.io.ifc_write import segment_types, write_ifc
 
     names = [alignment] if alignment is not None else doc.names
-    solved, left_out = [], []
+    solved, left_out, dropped = [], [], []
     for name in names:
         try:
             one = solve(doc, name, None)
@@ -806,9 +807,15 @@ def ifc_bytes(doc: Document, alignment: str | None = None) -> tuple[bytes, list[
             left_out.append(f"alignment {name!r} left out: {err}")
             continue
         solved.append(one)
+        if one.alignment.superelevations:
+            dropped.append(
+                f"alignment {name!r}: its superelevation is not written (IFC 4.3's "
+                "IfcAlignmentCant is rail cant; a road's superelevation lies in its cross "
+                "sections, which gradeline does not write)"
+            )
     if not solved:
         raise UsageError("no alignment could be written to IFC: " + "; ".join(left_out))
-    return write_ifc(solved, input_name(doc.path)), left_out
+    return write_ifc(solved, input_name(doc.path)), left_out, dropped
 
 
 def landxml_of(doc: Document, alignment: str | None = None) -> tuple[bytes, list[str]]:

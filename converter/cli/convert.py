@@ -50,10 +50,11 @@ def run(args: argparse.Namespace) -> int:
         )
     doc = landxml.read(args.file)
     warn(dl.document_warnings(doc))
+    dropped: list[str] = []
     if to_ifc:
-        data, left_out = dl.ifc_bytes(doc, args.alignment)
+        data, left_out, dropped = dl.ifc_bytes(doc, args.alignment)
     else:
         data, left_out = dl.landxml_of(doc, args.alignment)
-    warn([GradelineError(line) for line in left_out])
+    warn([GradelineError(line) for line in left_out + dropped])
     write_file(args.output, data, [args.file])
     return 1 if left_out else 0
