@@ -103,17 +103,30 @@ def collect_inputs(paths: Sequence[str]) -> list[str]:
 
 def output_folders(paths: Sequence[str]) -> list[str]:
     """The output folder of each input: its stem, or its whole name where two inputs
-    share a stem (``road.xml`` and ``road.ifc`` build into ``road-xml`` and
-    ``road-ifc``, never into one folder).
+    reduce to the same stem (``road.xml`` and ``road.ifc`` build into ``road-xml`` and
+    ``road-ifc``), then a number where even those meet (``Road.xml`` and
+    ``road.xml``): no two inputs ever share a folder.
 
     >>> output_folders(["a/road.xml", "b/road.ifc", "c/lane.xml"])
     ['road-xml', 'road-ifc', 'lane']
+    >>> output_folders(["Road.xml", "road.xml", "road 1.xml", "road-1.xml"])
+    ['road-xml', 'road-xml-2', 'road-1-xml', 'road-1-xml-2']
     """
     stems = [slug(Path(p).stem) for p in paths]
-    return [
+    names = [
         slug(Path(p).name) if stems.count(stem) > 1 else stem
         for p, stem in zip(paths, stems, strict=True)
     ]
+    out: list[str] = []
+    taken: set[str] = set()
+    for name in names:
+        final, k = name, 1
+        while final in taken:
+            k += 1
+            final = f"{name}-{k}"
+        taken.add(final)
+        out.append(final)
+    return out
 
 
 def _write(path: Path, data: str | bytes, inputs: Sequence[str], written: list[str]) -> None:
@@ -286,29 +299,40 @@ def build_file(job: BuildJob, outroot: str, workers: int = 1) -> list[ItemResult
                 ),
             )
         ]
-    base = Path(outroot) / (job.folder or slug(Path(path).stem))
+    folder_name = job.folder or slug(Path(path).stem)
+    base = Path(outroot) / folder_name
+    moved = (
+        f"output folder {folder_name!r}: another input reduces to the same name"
+        if folder_name != slug(Path(path).stem)
+        else None
+    )
     out: list[ItemResult] = []
     used: set[str] = set()
     wanted = [opts.alignment] if opts.alignment is not None else doc.names
     for al_name in wanted:
-        name = slug(al_name)
-        while name in used:
-            name += "-x"
-        used.add(name)
+        name = _distinct(slug(al_name), used)
+        said = [moved] if moved else []
+        if name != slug(al_name):
+            said.append(f"folder {name!r}: another alignment's name reduces to the same")
         try:
             al = doc.alignment(al_name)
             profiles = _profiles(al, opts)
         except GradelineError as err:
             out.append(ItemResult(path, al_name, error=str(err)))
             continue
+        prof_used: set[str] = set()
         for prof in profiles:
             folder = base / name
+            notes = list(said)
             if len(profiles) > 1:
-                folder = folder / slug(prof.name)
+                sub = _distinct(slug(prof.name), prof_used)
+                if sub != slug(prof.name):
+                    notes.append(f"folder {sub!r}: another profile's name reduces to the same")
+                folder = folder / sub
             label = prof.name if len(profiles) > 1 else None
             try:
                 item = _build_alignment(doc, al, prof, folder, opts, inputs, workers)
-                out.append(replace(item, profile=label))
+                out.append(replace(item, profile=label, notes=tuple(notes) + item.notes))
             except GradelineError as err:
                 out.append(ItemResult(path, al.name, error=str(err), profile=label))
             except OSError as err:
@@ -318,6 +342,16 @@ def build_file(job: BuildJob, outroot: str, workers: int = 1) -> list[ItemResult
                     )
                 )
     return out
+
+
+def _distinct(name: str, used: set[str]) -> str:
+    """``name``, or ``name-2``, ``name-3``... the first not in ``used`` (added to it)."""
+    final, k = name, 1
+    while final in used:
+        k += 1
+        final = f"{name}-{k}"
+    used.add(final)
+    return final
 
 
 def build(

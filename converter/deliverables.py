@@ -10,6 +10,7 @@ whichever way it was made. Nothing here writes files or prints; the callers do.
 
 from __future__ import annotations
 
+import math
 import os
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
@@ -392,6 +393,14 @@ SHEET_TEXT_KEYS = (
 SHEET_KEYS = frozenset({"size", "scale", "exaggeration", "interval", "revisions", *SHEET_TEXT_KEYS})
 
 
+#: The range of each number of ``[sheet]`` (low, high, low excluded), as the options'.
+SHEET_RANGES = {
+    "scale": (1.0, 100000.0, False),
+    "exaggeration": (0.0, 1000.0, True),
+    "interval": (0.0, 1e7, True),
+}
+
+
 def check_sheet_config(config: Mapping[str, Any], config_name: str = "config") -> None:
     """Refuse unknown keys in a ``[sheet]`` table (typos would be ignored silently)."""
     unknown = sorted(set(config) - SHEET_KEYS)
@@ -422,9 +431,21 @@ def sheet_options(
 
     def num(name: str, default: float | None) -> float | None:
         value = given.get(name, cfg.get(name, default))
-        if value is not None and not isinstance(value, (int, float)):
+        if value is None:
+            return None
+        if isinstance(value, bool) or not isinstance(value, (int, float)):
             raise UsageError(f"{config_name}: [sheet] {name} must be a number")
-        return None if value is None else float(value)
+        low, high, strict = SHEET_RANGES[name]
+        try:
+            v = float(value)
+        except OverflowError:
+            raise UsageError(f"{config_name}: [sheet] {name} is too large a number") from None
+        if not math.isfinite(v) or (v <= low if strict else v < low) or v > high:
+            raise UsageError(
+                f"{config_name}: [sheet] {name} = {v:g} is out of range: give "
+                f"{'more than' if strict else 'at least'} {low:g} and at most {high:g}"
+            )
+        return v
 
     return SheetOptions(
         size=size,

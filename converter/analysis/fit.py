@@ -98,6 +98,11 @@ def chain(lines: list[NDArray[np.float64]], gap: float) -> NDArray[np.float64]:
     return pts[keep]
 
 
+#: Most points the linework is resampled into (a window too small for its length
+#: would ask for terabytes).
+MAX_FIT_SAMPLES = 2_000_000
+
+
 def _bends(s: NDArray[np.float64], z: NDArray[np.float64], window: float):
     """Spans where the line bends: |d2z/ds2| above the noise of a windowed fit."""
     n = len(s)
@@ -298,7 +303,15 @@ def fit_profile(
     # resample the drawn line evenly (it is straight between its vertices), so the
     # curvature estimate sees the same density on tangents and on curves
     s0, z0 = points[:, 0], points[:, 1]
+    if not (np.isfinite(points).all() and math.isfinite(window) and window > 0):
+        raise FitError("the linework or the window is not finite (or the window is not positive)")
     step = window / 20.0
+    count = (s0[-1] - s0[0]) / step
+    if not count <= MAX_FIT_SAMPLES:
+        raise FitError(
+            f"a window of {window:g} resamples {s0[-1] - s0[0]:,.0f} units of linework into "
+            f"{count:,.0f} points (at most {MAX_FIT_SAMPLES:,}); choose a larger window"
+        )
     s = np.union1d(np.arange(s0[0], s0[-1], step), s0)
     z = np.interp(s, s0, z0)
     spans = _bends(s, z, window)

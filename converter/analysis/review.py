@@ -20,7 +20,6 @@ standards or the responsible engineer's judgment.
 from __future__ import annotations
 
 import math
-import tomllib
 from dataclasses import dataclass, field
 from importlib import resources
 from typing import Any
@@ -87,6 +86,8 @@ class Criteria:
     side_friction: tuple[tuple[float, float], ...] = ()
 
     pass_tolerance: float = 0.001  # relative: provided >= required * (1 - tol) passes
+    #: keys of the criteria table gradeline does not know (read past; the review says so)
+    unknown: tuple[str, ...] = ()
 
     def min_radius(self, speed: float, e_max: float | None = None) -> float | None:
         """Minimum horizontal radius V^2 / (c (e + f)) for a design speed (None off the table)."""
@@ -136,50 +137,152 @@ def criteria_table(path: str | None, metric: bool) -> tuple[dict[str, Any], str,
     InputError
         The file cannot be read, is not TOML, or lacks the table.
     """
+    from gradeline.io.config import MAX_TOML_BYTES, parse_toml
+
     where = path or "aashto-2018.toml"
     try:
         if path is None:
-            text = resources.files("gradeline.criteria").joinpath("aashto-2018.toml").read_bytes()
+            data = resources.files("gradeline.criteria").joinpath("aashto-2018.toml").read_bytes()
         else:
             with open(path, "rb") as fh:
-                text = fh.read()
-        data = tomllib.loads(text.decode("utf-8"))
+                data = fh.read(MAX_TOML_BYTES + 1)
     except OSError as err:
         raise InputError(
             f"cannot read the file ({err.strerror})", SourceRef(where), "criteria"
         ) from None
-    except (tomllib.TOMLDecodeError, UnicodeDecodeError) as err:
-        raise InputError(f"not valid TOML: {err}", SourceRef(where), "criteria") from None
+    doc = parse_toml(data, where, "criteria")
     key = "metric" if metric else "us"
-    table = data.get(key)
+    table = doc.get(key)
     if not isinstance(table, dict):
         raise InputError(f"no [{key}] table of design controls", SourceRef(where), "criteria")
-    return table, where, str(data.get("name", where))
+    name = doc.get("name", where)
+    if not isinstance(name, str):
+        raise InputError("'name' must be text", SourceRef(where), "criteria")
+    return table, where, name
+
+
+#: The range of every design control (low, high, low included): a value outside
+#: is refused with the key named (zero, negative or absurd controls divide by zero
+#: or pass anything).
+CRITERIA_RANGES: dict[str, tuple[float, float, bool]] = {
+    "eye_height": (0.0, 100.0, False),
+    "object_height": (0.0, 100.0, False),
+    "headlight_height": (0.0, 100.0, False),
+    "headlight_angle_deg": (0.0, 10.0, False),
+    "sag_constant": (0.0, 1e4, False),
+    "sag_per_distance": (0.0, 100.0, False),
+    "reaction_time": (0.0, 10.0, True),
+    "deceleration": (0.0, 100.0, True),
+    "brake_reaction_coefficient": (0.0, 10.0, True),
+    "braking_coefficient": (0.0, 10.0, True),
+    "gravity": (0.0, 100.0, True),
+    "grade_coefficient": (0.0, 1e4, True),
+    "grade_correction_from": (0.0, 1.0, False),
+    "ssd_round_to": (0.0, 1000.0, True),
+    "k_round_slack": (0.0, 0.99, False),
+    "comfort_divisor": (0.0, 1e4, True),
+    "appearance_per_speed": (0.0, 100.0, False),
+    "drainage_k_max": (0.0, 1e5, True),
+    "passing_object_height": (0.0, 100.0, False),
+    "radius_coefficient": (0.0, 1e4, True),
+    "e_max": (0.0, 0.2, True),
+    "pass_tolerance": (0.0, 0.5, False),
+}
+
+
+def criteria_number(value: Any, key: str, where: str, bounds: tuple[float, float, bool]) -> float:
+    """A control's value: a finite number within ``bounds`` (low, high, low excluded
+    when the third item is True), else one InputError naming the key."""
+    low, high, strict = bounds
+    if isinstance(value, bool) or not isinstance(value, (int, float)):
+        raise InputError(
+            f"{key} must be a number, got {value!r}"[:200], SourceRef(where), "criteria"
+        )
+    try:
+        v = float(value)
+    except OverflowError:
+        raise InputError(f"{key} is too large a number", SourceRef(where), "criteria") from None
+    if not math.isfinite(v) or (v <= low if strict else v < low) or v > high:
+        raise InputError(
+            f"{key} = {v:g} is out of range: give {'more than' if strict else 'at least'} "
+            f"{low:g} and at most {high:g}",
+            SourceRef(where),
+            "criteria",
+        )
+    return v
+
+
+def criteria_pairs(
+    tab: Any, key: str, where: str, bounds: tuple[float, float, bool]
+) -> tuple[tuple[float, float], ...]:
+    """A table of speed (or count) -> value, each checked; sorted by the key."""
+    if not isinstance(tab, dict):
+        raise InputError(f"{key} must be a table", SourceRef(where), "criteria")
+    out = []
+    for k, v in tab.items():
+        try:
+            speed = float(k)
+        except ValueError:
+            raise InputError(
+                f"{key}: key {k!r} is not a number", SourceRef(where), "criteria"
+            ) from None
+        if not (math.isfinite(speed) and 0 < speed <= 1000):
+            raise InputError(f"{key}: key {k!r} is out of range", SourceRef(where), "criteria")
+        out.append((speed, criteria_number(v, f"{key}.{k}", where, bounds)))
+    return tuple(sorted(out))
 
 
 def load_criteria(path: str | None, metric: bool) -> Criteria:
     """Read a criteria TOML file (default: the shipped AASHTO 2018 set).
 
+    Every control is checked (a number in its range, :data:`CRITERIA_RANGES`); keys
+    gradeline does not know are listed in ``Criteria.unknown`` (the review prints
+    them: a typo must not pass unnoticed).
+
     Raises
     ------
     InputError
-        The file cannot be read, is not TOML, or lacks a value.
+        The file cannot be read, is not TOML, lacks a value, or holds one out of range.
     """
     table, where, name = criteria_table(path, metric)
     key = "metric" if metric else "us"
     values: dict[str, Any] = {"name": name}
     optional = ("radius_coefficient", "e_max", "pass_tolerance")
     for f in Criteria.__dataclass_fields__:
-        if f in ("name", "passing_sight_distance", "side_friction"):
+        if f in ("name", "passing_sight_distance", "side_friction", "unknown"):
             continue
         if f in optional and f not in table:
             continue
         if f not in table:
             raise InputError(f"[{key}] lacks {f!r}", SourceRef(where), "criteria")
-        values[f] = table[f] if f == "speed_unit" else float(table[f])
-    for key_name in ("passing_sight_distance", "side_friction"):
-        tab = table.get(key_name, {})
-        values[key_name] = tuple(sorted((float(k), float(v)) for k, v in tab.items()))
+        if f == "speed_unit":
+            want = "kmh" if metric else "mph"
+            if table[f] != want:
+                raise InputError(
+                    f"[{key}] speed_unit must be {want!r}, got {table[f]!r}"[:200],
+                    SourceRef(where),
+                    "criteria",
+                )
+            values[f] = want
+            continue
+        values[f] = criteria_number(table[f], f"[{key}] {f}", where, CRITERIA_RANGES[f])
+    if "side_friction" not in table:
+        raise InputError(
+            f"[{key}] lacks the side_friction table (the radius checks need it)",
+            SourceRef(where),
+            "criteria",
+        )
+    values["side_friction"] = criteria_pairs(
+        table["side_friction"], f"[{key}.side_friction]", where, (0.0, 1.0, True)
+    )
+    values["passing_sight_distance"] = criteria_pairs(
+        table.get("passing_sight_distance", {}),
+        f"[{key}.passing_sight_distance]",
+        where,
+        (0.0, 1e5, True),
+    )
+    known = set(Criteria.__dataclass_fields__) | {"superelevation"}
+    values["unknown"] = tuple(f"[{key}] {k}" for k in table if k not in known)
     return Criteria(**values)
 
 
@@ -513,6 +616,11 @@ def review_profile(
         "Checks do not replace the governing agency's standards or the responsible "
         "engineer's judgment.",
     ]
+    if crit.unknown:
+        notes.append(
+            "The criteria file holds keys gradeline does not know, read past (a typo?): "
+            + ", ".join(crit.unknown)
+        )
     radii = radius_checks(horizontal_curves, crit, speed, e_max, length_unit)
     if geom is None:
         notes.insert(

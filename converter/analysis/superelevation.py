@@ -87,6 +87,7 @@ class SuperCriteria:
     running_speed: tuple[tuple[float, float], ...]
     low_speed_friction: tuple[tuple[float, float], ...]
     pass_tolerance: float = 0.001
+    unknown: tuple[str, ...] = ()  # keys read past (the review says so)
 
     def f_max(self, speed: float, method: str = "open") -> float:
         """Side friction factor of the speed (the low-speed table for low-speed streets)."""
@@ -106,15 +107,36 @@ class SuperCriteria:
         return _table(self.running_speed, speed, "running speed", self.speed_unit)
 
 
+#: The range of each superelevation control (low, high, low excluded).
+SUPER_RANGES: dict[str, tuple[float, float, bool]] = {
+    "normal_crown": (0.0, 0.1, True),
+    "nc_below": (0.0, 0.1, False),
+    "rate_step": (0.0, 0.01, True),
+    "lane_width": (0.0, 100.0, True),
+    "lanes_rotated": (1.0, 10.0, False),
+    "runoff_on_tangent": (0.0, 1.0, False),
+    "tangent_share_min": (0.0, 1.0, False),
+    "tangent_share_max": (0.0, 1.0, False),
+}
+#: The tables, and the range of their values.
+SUPER_TABLES: dict[str, tuple[float, float, bool]] = {
+    "relative_gradient": (0.0, 5.0, True),
+    "lane_factor": (0.0, 2.0, True),
+    "running_speed": (0.0, 1000.0, True),
+    "low_speed_friction": (0.0, 1.0, True),
+}
+
+
 def load_super_criteria(path: str | None, metric: bool) -> SuperCriteria:
-    """The superelevation controls of a criteria TOML file (default: the shipped set).
+    """The superelevation controls of a criteria TOML file (default: the shipped set),
+    each checked against :data:`SUPER_RANGES`.
 
     Raises
     ------
     InputError
-        The file cannot be read or lacks a value.
+        The file cannot be read, lacks a value, or holds one out of range.
     """
-    from gradeline.analysis.review import criteria_table
+    from gradeline.analysis.review import criteria_number, criteria_pairs, criteria_table
 
     table, where, name = criteria_table(path, metric)
     key = "metric" if metric else "us"
@@ -127,20 +149,31 @@ def load_super_criteria(path: str | None, metric: bool) -> SuperCriteria:
         )
     values: dict[str, Any] = {
         "name": name,
-        "speed_unit": str(table.get("speed_unit", "mph")),
-        "radius_coefficient": float(table.get("radius_coefficient", 15.0)),
-        "side_friction": _pairs(table.get("side_friction", {})),
-        "pass_tolerance": float(table.get("pass_tolerance", 0.001)),
+        "speed_unit": "kmh" if metric else "mph",
+        "radius_coefficient": criteria_number(
+            table.get("radius_coefficient", 15.0), "radius_coefficient", where, (0.0, 1e4, True)
+        ),
+        "side_friction": criteria_pairs(
+            table.get("side_friction", {}), "side_friction", where, (0.0, 1.0, True)
+        ),
+        "pass_tolerance": criteria_number(
+            table.get("pass_tolerance", 0.001), "pass_tolerance", where, (0.0, 0.5, False)
+        ),
     }
-    for f in SuperCriteria.__dataclass_fields__:
-        if f in values:
-            continue
-        if f in ("relative_gradient", "lane_factor", "running_speed", "low_speed_friction"):
-            values[f] = _pairs(sub.get(f, {}))
-            continue
+    label = f"[{key}.superelevation]"
+    for f, bounds in SUPER_RANGES.items():
         if f not in sub:
-            raise InputError(f"[{key}.superelevation] lacks {f!r}", SourceRef(where), "criteria")
-        values[f] = float(sub[f])
+            raise InputError(f"{label} lacks {f!r}", SourceRef(where), "criteria")
+        values[f] = criteria_number(sub[f], f"{label} {f}", where, bounds)
+    for f, bounds in SUPER_TABLES.items():
+        values[f] = criteria_pairs(sub.get(f, {}), f"{label}.{f}", where, bounds)
+    if values["tangent_share_min"] > values["tangent_share_max"]:
+        raise InputError(
+            f"{label} tangent_share_min is above tangent_share_max", SourceRef(where), "criteria"
+        )
+    values["unknown"] = tuple(
+        f"{label} {k}" for k in sub if k not in SUPER_RANGES and k not in SUPER_TABLES
+    )
     return SuperCriteria(**values)
 
 
@@ -472,6 +505,11 @@ def review_superelevation(
             "The file states no superelevation: the rate each curve needs is listed, "
             "nothing was checked (gradeline superelevation proposes one).",
             *notes,
+        )
+    if sc.unknown:
+        notes = (
+            *notes,
+            "The criteria file holds keys read past (a typo?): " + ", ".join(sc.unknown),
         )
     return SuperReview(
         speed,

@@ -79,6 +79,15 @@ def main(argv: Sequence[str] | None = None) -> int:
         return 2
     except BrokenPipeError:
         return 0
+    except MemoryError:
+        sys.stderr.write(
+            f"{PROG}: out of memory: the input asks for more than this machine holds\n"
+        )
+        return 2
+    except OSError as err:  # a full disk, a read-only folder, a permission refused
+        where = f"{err.filename}: " if err.filename else ""
+        sys.stderr.write(f"{PROG}: {where}{err.strerror or err}\n")
+        return 2
     except KeyboardInterrupt:
         sys.stderr.write(f"{PROG}: interrupted\n")
         return 130

@@ -7,6 +7,7 @@ Imports here stay light (argparse and the standard library): ``gradeline
 from __future__ import annotations
 
 import argparse
+import math
 import sys
 from collections.abc import Sequence
 from typing import TYPE_CHECKING
@@ -17,7 +18,18 @@ if TYPE_CHECKING:
     from gradeline.solved import SolvedAlignment
 
 __all__ = [
+    "E_MAX",
+    "EXAGGERATION",
+    "JOBS",
+    "LANES",
+    "LENGTH",
     "PROG",
+    "SCALE",
+    "SPEED",
+    "STATION",
+    "STEP",
+    "TOLERANCE",
+    "number",
     "Parser",
     "add_common",
     "add_ground",
@@ -33,6 +45,68 @@ __all__ = [
 ]
 
 PROG = "gradeline"
+
+
+def number(
+    low: float | None = None,
+    high: float | None = None,
+    *,
+    open_low: bool = True,
+    integer: bool = False,
+):
+    """An argparse ``type`` for a number in a sensible range: finite, above ``low``
+    (or at least it with ``open_low`` False), at most ``high``. The message names the
+    range; argparse adds the option's name.
+
+    Examples
+    --------
+    >>> positive = number(0.0, 1000.0)
+    >>> positive("10")
+    10.0
+    >>> positive("nan")
+    Traceback (most recent call last):
+    argparse.ArgumentTypeError: 'nan' is not a finite number
+    >>> positive("0")
+    Traceback (most recent call last):
+    argparse.ArgumentTypeError: 0 is out of range: give more than 0 and at most 1000
+    """
+
+    def parse(text: str) -> float:
+        try:
+            value = int(text) if integer else float(text)
+        except ValueError:
+            raise argparse.ArgumentTypeError(
+                f"{text!r} is not {'a whole' if integer else 'a'} number"
+            ) from None
+        if not math.isfinite(value):
+            raise argparse.ArgumentTypeError(f"{text!r} is not a finite number")
+        below = low is not None and (value <= low if open_low else value < low)
+        if below or (high is not None and value > high):
+            parts = []
+            if low is not None:
+                parts.append(f"{'more than' if open_low else 'at least'} {low:g}")
+            if high is not None:
+                parts.append(f"at most {high:g}")
+            raise argparse.ArgumentTypeError(
+                f"{value:g} is out of range: give {' and '.join(parts)}"
+            )
+        return value
+
+    parse.__name__ = "number"  # argparse names the type in its own messages
+    return parse
+
+
+#: The ranges of the numeric options (one place; every command takes them from here).
+EXAGGERATION = number(0.0, 1000.0)
+SCALE = number(1.0, 100000.0, open_low=False)
+STEP = number(0.0, 1e7)  # intervals, windows, steps: a positive length
+LENGTH = number(0.0, 1e7, open_low=False)  # a length of 0 or more
+STATION = number(-1e9, 1e9, open_low=False)  # a station or a datum elevation
+SPEED = number(0.0, 300.0)  # mph or km/h
+E_MAX = number(0.0, 0.2)
+LANES = number(1.0, 10.0, open_low=False)
+JOBS = number(1, 1024, open_low=False, integer=True)
+TOLERANCE = number(0.0, 1e6)
 
 
 class Parser(argparse.ArgumentParser):
@@ -110,7 +184,7 @@ def add_report(p: argparse.ArgumentParser) -> None:
 
 def add_speed(p: argparse.ArgumentParser, criteria_help: str = "TOML design controls") -> None:
     """--speed, --units, --curbed, --passing and --criteria (review and design)."""
-    p.add_argument("--speed", type=float, required=True, metavar="V", help="design speed")
+    p.add_argument("--speed", type=SPEED, required=True, metavar="V", help="design speed")
     p.add_argument(
         "--units",
         choices=("mph", "kmh"),
@@ -136,7 +210,7 @@ def add_superelevation(p: argparse.ArgumentParser) -> None:
     )
     p.add_argument(
         "--lanes-rotated",
-        type=float,
+        type=LANES,
         metavar="N",
         help="lanes rotated about the axis, for runoff lengths (default 1)",
     )
@@ -159,7 +233,9 @@ def layer_names(args: argparse.Namespace) -> dict[str, str]:
 
     names: dict[str, str] = {}
     if getattr(args, "config", None):
-        cfg = read_config(args.config)
+        notes: list[GradelineError] = []
+        cfg = read_config(args.config, notes)
+        warn(notes)
         names.update(cfg.get("layers", {}))
     for item in getattr(args, "layer", None) or []:
         role, sep, name = item.partition("=")
@@ -178,5 +254,14 @@ def drawing_mapping(
     if args.exaggeration is not None:
         return args.exaggeration, args.datum, "given"
     if "exaggeration" in stored and "datum" in stored:
-        return float(stored["exaggeration"]), float(stored["datum"]), "from the drawing"
+        try:
+            exag, datum = float(stored["exaggeration"]), float(stored["datum"])
+        except (TypeError, ValueError):
+            exag = datum = math.nan
+        if not (math.isfinite(exag) and 0 < exag <= 1000 and math.isfinite(datum)):
+            raise UsageError(
+                f"the drawing states exaggeration {stored['exaggeration']!r} and datum "
+                f"{stored['datum']!r}, which cannot map it; give --exaggeration and --datum"[:300]
+            )
+        return exag, datum, "from the drawing"
     return None

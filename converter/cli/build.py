@@ -6,6 +6,7 @@ import argparse
 import sys
 from typing import Any
 
+from gradeline.cli._common import JOBS, SPEED
 from gradeline.errors import UsageError
 
 NAME = "build"
@@ -26,7 +27,7 @@ def add_parser(sub: Any) -> None:
     )
     p.add_argument("inputs", nargs="+", metavar="FILE_OR_FOLDER", help="LandXML files or folders")
     p.add_argument("-o", "--output", required=True, metavar="OUTDIR", help="output folder")
-    p.add_argument("--speed", type=float, metavar="V", help="design speed for the review")
+    p.add_argument("--speed", type=SPEED, metavar="V", help="design speed for the review")
     p.add_argument("--units", choices=("mph", "kmh"), help="unit of --speed (default: the file's)")
     p.add_argument(
         "--ground",
@@ -46,7 +47,9 @@ def add_parser(sub: Any) -> None:
         help="build only this profile (default: every finished-grade profile, "
         "each in its own sub-folder when there are several)",
     )
-    p.add_argument("--jobs", type=int, metavar="N", help="parallel processes (default: one a core)")
+    p.add_argument(
+        "--jobs", type=JOBS, metavar="N", help="parallel processes (default: one a core)"
+    )
     p.add_argument("--config", metavar="FILE", help="TOML with [sheet] and [layers] tables")
     p.set_defaults(func=run)
 

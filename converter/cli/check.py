@@ -5,7 +5,16 @@ from __future__ import annotations
 import argparse
 from typing import Any
 
-from gradeline.cli._common import add_common, add_ground, add_report, emit, warn
+from gradeline.cli._common import (
+    EXAGGERATION,
+    STATION,
+    TOLERANCE,
+    add_common,
+    add_ground,
+    add_report,
+    emit,
+    warn,
+)
 
 NAME = "check"
 
@@ -48,11 +57,14 @@ def add_parser(sub: Any) -> None:
         "lying nearest the alignment)",
     )
     p.add_argument(
-        "--exaggeration", type=float, metavar="E", help="vertical exaggeration of the drawing"
+        "--exaggeration",
+        type=EXAGGERATION,
+        metavar="E",
+        help="vertical exaggeration of the drawing",
     )
     p.add_argument(
         "--datum",
-        type=float,
+        type=STATION,
         metavar="D",
         help="elevation at y = 0 (default: read from a gradeline drawing, else fitted)",
     )
@@ -79,14 +91,14 @@ def add_parser(sub: Any) -> None:
     )
     p.add_argument(
         "--tolerance",
-        type=float,
+        type=TOLERANCE,
         default=0.01,
         metavar="T",
         help="distance and elevation tolerance in file units (default 0.01)",
     )
     p.add_argument(
         "--angle-tolerance",
-        type=float,
+        type=TOLERANCE,
         default=2.0,
         metavar="SEC",
         help="angle and direction tolerance in seconds of arc (default 2)",

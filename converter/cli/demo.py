@@ -5,6 +5,8 @@ from __future__ import annotations
 import argparse
 from typing import Any
 
+from gradeline.cli._common import JOBS
+
 NAME = "demo"
 
 
@@ -22,7 +24,7 @@ def add_parser(sub: Any) -> None:
         metavar="OUTDIR",
         help="output folder (default gradeline-demo)",
     )
-    p.add_argument("--jobs", type=int, metavar="N", help="parallel processes")
+    p.add_argument("--jobs", type=JOBS, metavar="N", help="parallel processes")
     p.set_defaults(func=run)
 
 

@@ -6,7 +6,7 @@ import argparse
 import os
 from typing import Any
 
-from gradeline.cli._common import add_speed, emit, write_file
+from gradeline.cli._common import LENGTH, add_speed, emit, write_file
 from gradeline.errors import UsageError
 
 NAME = "design"
@@ -40,7 +40,7 @@ def add_parser(sub: Any) -> None:
         default=None,
         help="round lengths up to this step (default 50 ft / 10 m; 'station': 100)",
     )
-    p.add_argument("--min-length", type=float, metavar="L", help="shortest curve to use")
+    p.add_argument("--min-length", type=LENGTH, metavar="L", help="shortest curve to use")
     p.add_argument(
         "--length-unit",
         choices=("foot", "USSurveyFoot", "meter"),

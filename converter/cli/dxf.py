@@ -5,7 +5,16 @@ from __future__ import annotations
 import argparse
 from typing import Any
 
-from gradeline.cli._common import add_common, add_ground, layer_names, warn, with_ground, write_file
+from gradeline.cli._common import (
+    EXAGGERATION,
+    SCALE,
+    add_common,
+    add_ground,
+    layer_names,
+    warn,
+    with_ground,
+    write_file,
+)
 from gradeline.errors import GradelineError, UsageError
 from gradeline.present.roles import LAYER_ROLES
 
@@ -35,14 +44,14 @@ def add_parser(sub: Any) -> None:
     add_ground(p)
     p.add_argument(
         "--exaggeration",
-        type=float,
+        type=EXAGGERATION,
         default=10.0,
         metavar="E",
         help="vertical exaggeration (default 10)",
     )
     p.add_argument(
         "--scale",
-        type=float,
+        type=SCALE,
         metavar="S",
         help='plot scale for text heights: 1" = S ft (default 50) or 1:S (default 500)',
     )

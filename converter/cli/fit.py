@@ -7,7 +7,7 @@ import os
 import sys
 from typing import Any
 
-from gradeline.cli._common import drawing_mapping, write_file
+from gradeline.cli._common import EXAGGERATION, STATION, STEP, drawing_mapping, write_file
 from gradeline.errors import UsageError
 
 NAME = "fit"
@@ -30,11 +30,11 @@ def add_parser(sub: Any) -> None:
     )
     p.add_argument("drawing", metavar="DRAWING.dxf", help="DXF with the profile linework")
     p.add_argument("--layer", required=True, metavar="NAME", help="layer of the finished grade")
-    p.add_argument("--exaggeration", type=float, metavar="E", help="vertical exaggeration")
-    p.add_argument("--datum", type=float, metavar="D", help="elevation at y = 0")
+    p.add_argument("--exaggeration", type=EXAGGERATION, metavar="E", help="vertical exaggeration")
+    p.add_argument("--datum", type=STATION, metavar="D", help="elevation at y = 0")
     p.add_argument(
         "--start-station",
-        type=float,
+        type=STATION,
         metavar="S",
         help="station of the first point (default: x itself is the station)",
     )
@@ -43,7 +43,7 @@ def add_parser(sub: Any) -> None:
     )
     p.add_argument(
         "--window",
-        type=float,
+        type=STEP,
         metavar="W",
         help="length over which bends are detected (default 80 ft / 24 m)",
     )

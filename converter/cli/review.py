@@ -6,6 +6,8 @@ import argparse
 from typing import Any
 
 from gradeline.cli._common import (
+    E_MAX,
+    STEP,
     add_common,
     add_report,
     add_speed,
@@ -37,14 +39,14 @@ def add_parser(sub: Any) -> None:
     add_speed(p, "TOML design controls (see converter/criteria/)")
     p.add_argument(
         "--emax",
-        type=float,
+        type=E_MAX,
         metavar="E",
         help="maximum superelevation rate for the minimum-radius check (default 0.08)",
     )
     add_superelevation(p)
     p.add_argument(
         "--step",
-        type=float,
+        type=STEP,
         metavar="D",
         help="station step of the sight-distance run (default 10 ft / 5 m)",
     )

@@ -5,7 +5,16 @@ from __future__ import annotations
 import argparse
 from typing import Any
 
-from gradeline.cli._common import add_common, add_ground, warn, with_ground, write_file
+from gradeline.cli._common import (
+    EXAGGERATION,
+    SCALE,
+    STEP,
+    add_common,
+    add_ground,
+    warn,
+    with_ground,
+    write_file,
+)
 
 NAME = "sheets"
 
@@ -31,20 +40,20 @@ def add_parser(sub: Any) -> None:
     )
     p.add_argument(
         "--scale",
-        type=float,
+        type=SCALE,
         metavar="S",
         help='horizontal scale: 1" = S ft (20, 40, 50, 100; default 50) or 1:S '
         "(250, 500, 1000; default 500)",
     )
     p.add_argument(
         "--exaggeration",
-        type=float,
+        type=EXAGGERATION,
         metavar="E",
         help="vertical exaggeration (default 10; lowered on a sheet whose profile "
         "would not fit, and the title block says so)",
     )
     p.add_argument(
-        "--interval", type=float, metavar="D", help="station table interval (default 50 ft / 20 m)"
+        "--interval", type=STEP, metavar="D", help="station table interval (default 50 ft / 20 m)"
     )
     p.add_argument(
         "--config", metavar="FILE", help="TOML file with a [sheet] table (see samples/sheets.toml)"

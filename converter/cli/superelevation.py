@@ -6,7 +6,7 @@ import argparse
 import json
 from typing import Any
 
-from gradeline.cli._common import add_superelevation, emit, write_file
+from gradeline.cli._common import E_MAX, SPEED, add_superelevation, emit, write_file
 from gradeline.errors import UsageError
 
 NAME = "superelevation"
@@ -34,14 +34,14 @@ def add_parser(sub: Any) -> None:
     )
     p.add_argument("file", metavar="FILE", help="LandXML or IFC file")
     p.add_argument("--alignment", metavar="NAME", help="only this alignment")
-    p.add_argument("--speed", type=float, required=True, metavar="V", help="design speed")
+    p.add_argument("--speed", type=SPEED, required=True, metavar="V", help="design speed")
     p.add_argument(
         "--units",
         choices=("mph", "kmh"),
         help="unit of --speed (default: mph for files in feet, kmh for metres)",
     )
     p.add_argument("--criteria", metavar="FILE", help="TOML design controls")
-    p.add_argument("--emax", type=float, metavar="E", help="maximum rate (default 0.08)")
+    p.add_argument("--emax", type=E_MAX, metavar="E", help="maximum rate (default 0.08)")
     add_superelevation(p)
     p.add_argument("-o", "--output", metavar="OUT.xml", help="write LandXML 1.2 with the proposal")
     p.add_argument("--report", metavar="PATH", help="write the report here (default: stdout)")

@@ -5,7 +5,7 @@ from __future__ import annotations
 import argparse
 from typing import Any
 
-from gradeline.cli._common import add_common, add_ground, add_output, emit, warn, with_ground
+from gradeline.cli._common import STEP, add_common, add_ground, add_output, emit, warn, with_ground
 
 NAME = "table"
 
@@ -25,7 +25,7 @@ def add_parser(sub: Any) -> None:
     add_ground(p)
     group = p.add_mutually_exclusive_group(required=True)
     group.add_argument(
-        "--interval", type=float, metavar="D", help="row every D file units of station"
+        "--interval", type=STEP, metavar="D", help="row every D file units of station"
     )
     group.add_argument(
         "--at",

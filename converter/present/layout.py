@@ -31,6 +31,32 @@ def guard_count(count: float, what: str, hint: str = "") -> None:
         )
 
 
+def check_layer_name(role: str, name: object) -> None:
+    """Refuse a layer name DXF cannot hold: text of 1 to 255 characters, no control
+    characters, none of the characters ezdxf's table-name validator refuses.
+
+    Examples
+    --------
+    >>> check_layer_name("grade", "C-ROAD-PROF")
+    >>> check_layer_name("grade", "A/B")
+    Traceback (most recent call last):
+    gradeline.errors.UsageError: layer name for grade 'A/B' holds a character DXF does not allow
+    """
+    from ezdxf.lldxf.validator import is_valid_layer_name
+
+    if not isinstance(name, str):
+        raise UsageError(f"layer name for {role} must be text, got {name!r}"[:200])
+    if not 1 <= len(name) <= 255 or name != name.strip():
+        raise UsageError(
+            f"layer name for {role} must be 1 to 255 characters without leading or "
+            f"trailing spaces, got {name[:60]!r}"
+        )
+    if any(ord(ch) < 32 or ord(ch) == 127 for ch in name) or not is_valid_layer_name(name):
+        raise UsageError(
+            f"layer name for {role} {name[:60]!r} holds a character DXF does not allow"
+        )
+
+
 @dataclass(frozen=True, slots=True)
 class DraftingLayout:
     """How a profile and plan are drafted.
@@ -89,11 +115,23 @@ class DraftingLayout:
 
     def with_layers(self, names: dict[str, str]) -> DraftingLayout:
         """A copy with some layers renamed; unknown roles are refused by name."""
-        unknown = sorted(set(names) - set(LAYER_ROLES))
+        unknown = sorted(str(k) for k in set(names) - set(LAYER_ROLES))
         if unknown:
-            raise UsageError(f"unknown layer role {unknown[0]!r}; roles: " + ", ".join(LAYER_ROLES))
+            raise UsageError(
+                f"unknown layer role {unknown[0]!r}"[:120] + "; roles: " + ", ".join(LAYER_ROLES)
+            )
+        for role, name in names.items():
+            check_layer_name(role, name)
         merged = dict(self.layers)
         merged.update(names)
+        seen: dict[str, str] = {}
+        for role, name in merged.items():
+            other = seen.setdefault(name.casefold(), role)
+            if other != role:
+                raise UsageError(
+                    f"layer name {name!r} is given to both {other} and {role}: each role "
+                    "needs its own layer"
+                )
         return replace(self, layers=merged)
 
 
