@@ -318,3 +318,83 @@ def test_an_unusable_home_folder_does_not_stop_a_drawing(tmp_path):
     assert res.returncode == 0, res.stderr
     assert "Traceback" not in res.stderr
     assert (tmp_path / "p.dxf").stat().st_size > 1000
+
+
+# --------------------------------------------------------------------------- random TOML
+_KEYS = st.sampled_from(
+    [
+        "deceleration",
+        "reaction_time",
+        "eye_height",
+        "e_max",
+        "speed_unit",
+        "side_friction",
+        "superelevation",
+        "grade",
+        "ground",
+        "scale",
+        "exaggeration",
+        "size",
+        "zzz",
+    ]
+)
+
+
+def _toml_float(v: float) -> str:
+    if v != v:
+        return "nan"
+    if v in (float("inf"), float("-inf")):
+        return "inf" if v > 0 else "-inf"
+    return repr(v)
+
+
+def _toml_text(t: str) -> str:
+    return '"' + "".join(ch for ch in t if ch not in '"\\' and ord(ch) >= 32) + '"'
+
+
+_VALUES = st.one_of(
+    st.floats(allow_nan=True, allow_infinity=True).map(_toml_float),
+    st.integers(-(10**20), 10**20).map(str),
+    st.text(alphabet=st.characters(codec="utf-8", exclude_categories=["Cs"]), max_size=8).map(
+        _toml_text
+    ),
+    st.just("[1, 2]"),
+    st.just("{ a = 1 }"),
+    st.just("true"),
+)
+_TABLES = ["us", "metric", "layers", "sheet", "us.side_friction", "us.superelevation"]
+
+
+@st.composite
+def toml_documents(draw) -> str:
+    lines = []
+    for table in draw(
+        st.lists(
+            st.sampled_from(
+                ["us", "metric", "layers", "sheet", "us.side_friction", "us.superelevation"]
+            ),
+            max_size=4,
+        )
+    ):
+        lines.append(f"[{table}]")
+        for _ in range(draw(st.integers(0, 5))):
+            lines.append(f"{draw(_KEYS)} = {draw(_VALUES)}")
+    return "\n".join(lines) + "\n"
+
+
+@settings(
+    max_examples=40,
+    deadline=None,
+    suppress_health_check=[HealthCheck.function_scoped_fixture, HealthCheck.too_slow],
+)
+@given(doc=toml_documents())
+def test_any_toml_document_ends_in_exit_0_1_or_2(tmp_path, capsys, doc):
+    path = tmp_path / "random.toml"
+    path.write_text(doc, encoding="utf-8")
+    for cmd in (
+        ["review", US_SAMPLE, *BYPASS, "--speed", "50", "--criteria", path],
+        ["dxf", US_SAMPLE, *BYPASS, "-o", tmp_path / "r.dxf", "--config", path],
+    ):
+        code, _, err = run(capsys, *cmd)
+        assert code in (0, 1, 2), (doc, err)
+        _one_line(err)
