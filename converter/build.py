@@ -9,6 +9,7 @@ and what failed. Folders are processed in parallel with a process pool.
 
 from __future__ import annotations
 
+import hashlib
 import os
 import re
 from collections.abc import Callable, Sequence
@@ -19,6 +20,7 @@ from typing import Any
 
 from gradeline.errors import GradelineError
 from gradeline.io import landxml
+from gradeline.present.labels import plain_text
 from gradeline.render.outputs import input_name, json_text, refuse_overwrite, write_atomic
 
 __all__ = [
@@ -84,8 +86,21 @@ def slug(name: str) -> str:
     >>> slug("Orrin Vale Bypass"), slug("Rue de l'Étang / phase 2")
     ('orrin-vale-bypass', 'rue-de-l-tang-phase-2')
     """
-    s = re.sub(r"[^A-Za-z0-9]+", "-", name).strip("-").lower()
-    return s or "alignment"
+    s = re.sub(r"[^A-Za-z0-9]+", "-", name).strip("-").lower() or "alignment"
+    if len(s) > 80:  # folders of long names stay within every file system's limit
+        digest = hashlib.sha256(name.encode("utf-8")).hexdigest()[:8]
+        s = f"{s[:60].rstrip('-')}-{digest}"
+    if s.split("-")[0] in _RESERVED or s in _RESERVED:
+        s += "-"  # a name Windows keeps for a device (con, nul, com1...)
+    return s
+
+
+#: Names Windows reserves for devices: never a folder's name.
+_RESERVED = frozenset(
+    ["con", "prn", "aux", "nul"]
+    + [f"com{i}" for i in range(1, 10)]
+    + [f"lpt{i}" for i in range(1, 10)]
+)
 
 
 def collect_inputs(paths: Sequence[str]) -> list[str]:
@@ -190,7 +205,12 @@ def _render_all(names: list[str], workers: int) -> dict[str, tuple[str | bytes, 
         if "fork" in multiprocessing.get_all_start_methods():
             order = sorted(names, key=lambda n: n != "sheets.pdf")
             ctx = multiprocessing.get_context("fork")
-            with ProcessPoolExecutor(max_workers=min(workers, len(names)), mp_context=ctx) as pool:
+            with ProcessPoolExecutor(
+                max_workers=min(workers, len(names)),
+                mp_context=ctx,
+                initializer=die_with_parent,
+                initargs=(os.getpid(),),
+            ) as pool:
                 got = list(pool.map(_deliverable, order))
             return {name: (data, extra) for name, data, extra in got}
     return {name: _deliverable(name)[1:] for name in names}
@@ -251,17 +271,25 @@ def _build_alignment(
     finally:
         _CURRENT.clear()
     over = 0
-    for name in names:  # written here, in a fixed order, each atomically
-        data = done[name][0]
-        if name == "check.txt":  # last of the drawings' readers: they are written by now
-            audits = [done[n][1] for n in ("profile.dxf", "plan.dxf") if n in done]
-            data, over = _check_text(solved, done[name][1], audits)
-        _write(outdir / name, data, inputs, written)
     review_failed = None
-    if "review.txt" in done:
-        review_failed, picture = done["review.txt"][1]
-        if picture is not None:
-            _write(outdir / "review.pdf", picture, inputs, written)
+    try:  # an alignment gets its whole set of outputs or none
+        for name in names:  # written here, in a fixed order, each atomically
+            data = done[name][0]
+            if name == "check.txt":  # last of the drawings' readers: they are written by now
+                audits = [done[n][1] for n in ("profile.dxf", "plan.dxf") if n in done]
+                data, over = _check_text(solved, done[name][1], audits)
+            _write(outdir / name, data, inputs, written)
+        if "review.txt" in done:
+            review_failed, picture = done["review.txt"][1]
+            if picture is not None:
+                _write(outdir / "review.pdf", picture, inputs, written)
+    except BaseException:
+        for path in written:
+            try:
+                os.unlink(path)
+            except OSError:
+                pass
+        raise
     if solved.horizontal is not None and solved.horizontal.findings:
         notes.append(f"{len(solved.horizontal.findings)} plan geometry findings (see check.txt)")
     return ItemResult(doc.path, al.name, tuple(written), None, over, review_failed, tuple(notes))
@@ -324,6 +352,16 @@ def build_file(job: BuildJob, outroot: str, workers: int = 1) -> list[ItemResult
         for prof in profiles:
             folder = base / name
             notes = list(said)
+            if not _inside(folder, outroot):
+                out.append(
+                    ItemResult(
+                        path,
+                        al_name,
+                        error=f"folder {folder} leads outside {outroot} through a link; "
+                        "nothing written there",
+                    )
+                )
+                continue
             if len(profiles) > 1:
                 sub = _distinct(slug(prof.name), prof_used)
                 if sub != slug(prof.name):
@@ -342,6 +380,50 @@ def build_file(job: BuildJob, outroot: str, workers: int = 1) -> list[ItemResult
                     )
                 )
     return out
+
+
+def die_with_parent(parent: int | None = None) -> None:
+    """In a worker process: end when the build that started it ends, however it ends
+    (Linux: the kernel sends SIGTERM when the parent dies; elsewhere the pool's own
+    pipe ends idle workers)."""
+    import signal
+    import sys
+
+    # a forked worker inherits the parent's SIGTERM handler (which stops a build
+    # cleanly); in a worker SIGTERM must simply end the process
+    signal.signal(signal.SIGTERM, signal.SIG_DFL)
+    if not sys.platform.startswith("linux"):
+        return
+    import ctypes
+
+    try:
+        libc = ctypes.CDLL(None, use_errno=True)
+        libc.prctl(1, signal.SIGTERM)  # PR_SET_PDEATHSIG
+    except (OSError, AttributeError):
+        return
+    if os.getppid() != (parent or os.getppid()):  # it died before the call: do not linger
+        os._exit(1)
+
+
+def _inside(folder: Path, root: str) -> bool:
+    """Whether ``folder`` (made or not) lies inside ``root`` once links are followed."""
+    real, top = folder.resolve(), Path(root).resolve()
+    return real == top or top in real.parents
+
+
+def clean_stale_parts(root: str) -> int:
+    """Remove the temporary ``.gradeline-*.part`` files a killed run left in ``root``
+    (links are not followed); returns how many. One build runs in a folder at a time."""
+    removed = 0
+    for folder, _dirs, files in os.walk(root, followlinks=False):
+        for f in files:
+            if f.startswith(".gradeline-") and f.endswith(".part"):
+                try:
+                    os.unlink(os.path.join(folder, f))
+                    removed += 1
+                except OSError:
+                    pass
+    return removed
 
 
 def _distinct(name: str, used: set[str]) -> str:
@@ -364,6 +446,8 @@ def build(
     """Build all jobs; with ``workers`` > 1 files run in a process pool, or, for a
     single file, each alignment's deliverables do."""
     results: list[list[ItemResult]] = [[] for _ in jobs]
+    if os.path.isdir(outroot):
+        clean_stale_parts(outroot)
     if workers > 1 and len(jobs) > 1:
         import multiprocessing
 
@@ -378,7 +462,10 @@ def build(
                     if j.options.ground or j.options.surface
                 ]
             )
-        with ProcessPoolExecutor(max_workers=workers) as pool:
+        pool = ProcessPoolExecutor(
+            max_workers=workers, initializer=die_with_parent, initargs=(os.getpid(),)
+        )
+        try:
             futures = {pool.submit(build_file, j, outroot): i for i, j in enumerate(jobs)}
             from concurrent.futures import as_completed
 
@@ -386,12 +473,30 @@ def build(
                 results[futures[fut]] = fut.result()
                 if progress:
                     progress(1)
+        except KeyboardInterrupt:  # stopped: the files being built finish, no new one starts
+            pool.shutdown(wait=True, cancel_futures=True)
+            for fut, i in futures.items():
+                if not results[i] and fut.done() and not fut.cancelled() and not fut.exception():
+                    results[i] = fut.result()
+            _mark_interrupted(jobs, results)
+        else:
+            pool.shutdown(wait=True)
     else:
-        for i, j in enumerate(jobs):
-            results[i] = build_file(j, outroot, workers)
-            if progress:
-                progress(1)
+        try:
+            for i, j in enumerate(jobs):
+                results[i] = build_file(j, outroot, workers)
+                if progress:
+                    progress(1)
+        except KeyboardInterrupt:  # the alignment being written was rolled back
+            _mark_interrupted(jobs, results)
     return [r for rs in results for r in rs]
+
+
+def _mark_interrupted(jobs: Sequence[BuildJob], results: list[list[ItemResult]]) -> None:
+    """Every job without a result: not built, the build was stopped."""
+    for i, j in enumerate(jobs):
+        if not results[i]:
+            results[i] = [ItemResult(j.path, None, error="not built: the build was stopped")]
 
 
 #: The first word of each line of index.txt: built and clean, built with check
@@ -440,17 +545,17 @@ def write_index(results: Sequence[ItemResult], outroot: str) -> tuple[str, str]:
     )
     lines = [head, ""]
     for r in results:
-        who = (
+        who = plain_text(
             f"{input_name(r.file)}"
             + (f" / {r.alignment}" if r.alignment else "")
             + (f" / {r.profile}" if r.profile else "")
         )
         if r.terrain:
             lines.append(f"{'terrain':<9} {who}")
-            lines += [f"          note: {n}" for n in r.notes]
+            lines += [f"          note: {plain_text(n)}" for n in r.notes]
             continue
         if r.failed:
-            lines.append(f"{INDEX_WORDS['failed']:<9} {who}: {r.error}")
+            lines.append(f"{INDEX_WORDS['failed']:<9} {who}: {plain_text(r.error or '')}")
             continue
         flags = []
         if r.check_over:
@@ -461,8 +566,8 @@ def write_index(results: Sequence[ItemResult], outroot: str) -> tuple[str, str]:
             flags.append("review: passes")
         word = INDEX_WORDS["findings" if r.check_over or r.review_failed else "clean"]
         lines.append(f"{word:<9} {who}" + (f" ({'; '.join(flags)})" if flags else ""))
-        lines += [f"          {rel(o)}" for o in r.outputs]
-        lines += [f"          note: {n}" for n in r.notes]
+        lines += [f"          {plain_text(rel(o))}" for o in r.outputs]
+        lines += [f"          note: {plain_text(n)}" for n in r.notes]
     text = "\n".join(lines) + "\n"
     data = json_text({"summary": head, "items": items})
     root.mkdir(parents=True, exist_ok=True)

@@ -636,6 +636,12 @@ def review_profile(
         for i, c in enumerate(geom.curves)
     )
     st = step or UNIT_DEFAULTS[length_unit == "m"].sight_step
+    if not (math.isfinite(st) and 0 < st <= geom.end - geom.start):
+        raise UsageError(
+            f"sight-distance step {st:g} must be positive and no longer than the profile "
+            f"({geom.end - geom.start:g})",
+            choice="step",
+        )
     steepest = float(np.max(np.abs(geom.grades))) if len(geom.grades) else 0.0
     if steepest > steepest_corrected_grade(crit):
         notes.insert(

@@ -29,6 +29,7 @@ CHOICE_OPTIONS = {
     "mapping": "--exaggeration and --datum",
     "window": "--window W",
     "at": "--at STATIONS",
+    "step": "--step D",
 }
 
 #: Command modules of :mod:`gradeline.cli`, in the order of ``--help``.

@@ -122,6 +122,58 @@ def warn(errors: Sequence[GradelineError]) -> None:
         sys.stderr.write(f"{PROG}: warning: {err}\n")
 
 
+#: The options of any command that name a file it reads.
+INPUT_OPTIONS = ("file", "drawing", "ground", "criteria", "config", "against", "dxf")
+
+
+def inputs_of(args: argparse.Namespace) -> list[str]:
+    """Every file a command reads (FILE, --ground, --dxf, --criteria, --config,
+    --against, a fit's drawing): none of them may be an output."""
+    out: list[str] = []
+    for name in INPUT_OPTIONS:
+        value = getattr(args, name, None)
+        if isinstance(value, str):
+            out.append(value)
+        elif isinstance(value, (list, tuple)):
+            out += [v for v in value if isinstance(v, str)]
+    return out
+
+
+def distinct_outputs(*paths: str | None) -> None:
+    """Refuse two outputs of one run that name the same file (``-o p.dxf --plan ./p.dxf``)."""
+    import os
+
+    seen: dict[str, str] = {}
+    for p in paths:
+        if not p or p == "-":
+            continue
+        key = os.path.realpath(p)
+        if key in seen:
+            raise UsageError(f"{seen[key]!r} and {p!r} name the same output file")
+        seen[key] = p
+
+
+def write_all(outputs: Sequence[tuple[str, str | bytes]], inputs: Sequence[str]) -> None:
+    """Write several outputs of one run: all of them, or (a write failing) none of
+    those this run made -- a file that was there before is left as it was."""
+    import os
+
+    made: list[str] = []
+    try:
+        for path, data in outputs:
+            existed = os.path.exists(path)
+            write_file(path, data, inputs)
+            if not existed:
+                made.append(path)
+    except BaseException:
+        for path in made:
+            try:
+                os.unlink(path)
+            except OSError:
+                pass
+        raise
+
+
 def emit(text: str, output: str | None, inputs: Sequence[str]) -> None:
     """Write ``text`` to ``output`` atomically, or to standard output."""
     if output is None or output == "-":

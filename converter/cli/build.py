@@ -66,9 +66,16 @@ def run_jobs(jobs: list[Any], outdir: str, workers: int) -> int:
         from tqdm import tqdm
 
         bar = tqdm(total=len(jobs), unit="file", desc="gradeline build", file=sys.stderr)
+    import signal
+
+    def stop(signum: int, frame: object) -> None:
+        raise KeyboardInterrupt
+
+    old = signal.signal(signal.SIGTERM, stop)  # a stopped build still writes its index
     try:
         results = build(jobs, outdir, workers=workers, progress=bar.update if bar else None)
     finally:
+        signal.signal(signal.SIGTERM, old)
         if bar is not None:
             bar.close()
     text, _ = write_index(results, outdir)

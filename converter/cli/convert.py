@@ -5,7 +5,7 @@ from __future__ import annotations
 import argparse
 from typing import Any
 
-from gradeline.cli._common import warn, write_file
+from gradeline.cli._common import inputs_of, warn, write_file
 from gradeline.errors import GradelineError, UsageError
 
 NAME = "convert"
@@ -56,5 +56,5 @@ def run(args: argparse.Namespace) -> int:
     else:
         data, left_out = dl.landxml_of(doc, args.alignment)
     warn([GradelineError(line) for line in left_out + dropped])
-    write_file(args.output, data, [args.file])
+    write_file(args.output, data, inputs_of(args))
     return 1 if left_out else 0

@@ -5,7 +5,7 @@ from __future__ import annotations
 import argparse
 from typing import Any
 
-from gradeline.cli._common import add_common, add_output, emit, warn
+from gradeline.cli._common import add_common, add_output, emit, inputs_of, warn
 
 NAME = "curves"
 
@@ -27,5 +27,5 @@ def run(args: argparse.Namespace) -> int:
     solved = dl.open_alignment(args.file, args.alignment, args.profile)
     text = dl.curve_table(solved, args.format)
     warn(dl.plan_warnings(solved))
-    emit(text, args.output, [args.file])
+    emit(text, args.output, inputs_of(args))
     return 0

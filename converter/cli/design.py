@@ -6,7 +6,7 @@ import argparse
 import os
 from typing import Any
 
-from gradeline.cli._common import LENGTH, add_speed, emit, write_file
+from gradeline.cli._common import LENGTH, add_speed, distinct_outputs, emit, inputs_of, write_file
 from gradeline.errors import UsageError
 
 NAME = "design"
@@ -105,9 +105,10 @@ def run(args: argparse.Namespace) -> int:
     )
     source = os.path.basename(args.file)
     text = dl.design_report(design, new_doc, al.name, source, args.json)
-    emit(text, args.report, [args.file])
+    distinct_outputs(args.report, args.output)
+    emit(text, args.report, inputs_of(args))
     if args.output:
-        write_file(args.output, dl.landxml_bytes(new_doc), [args.file])
+        write_file(args.output, dl.landxml_bytes(new_doc), inputs_of(args))
     if args.build:
         from gradeline.build import BuildJob, BuildOptions
         from gradeline.cli.build import run_jobs

@@ -10,12 +10,14 @@ from gradeline.cli._common import (
     SCALE,
     add_common,
     add_ground,
+    distinct_outputs,
+    inputs_of,
     layer_names,
     warn,
     with_ground,
-    write_file,
+    write_all,
 )
-from gradeline.errors import GradelineError, UsageError
+from gradeline.errors import GradelineError
 from gradeline.present.roles import LAYER_ROLES
 
 NAME = "dxf"
@@ -81,8 +83,7 @@ def run(args: argparse.Namespace) -> int:
     """Write the profile (and plan) DXF; a plan-only alignment gets its plan drawing."""
     from gradeline import deliverables as dl
 
-    if args.plan and args.plan == args.output:
-        raise UsageError("--plan and -o name the same file")
+    distinct_outputs(args.output, args.plan, args.superelevation)
     solved = dl.open_alignment(args.file, args.alignment, args.profile)
     solved = with_ground(solved, args)
     opts = dl.DrawingOptions(
@@ -111,10 +112,7 @@ def run(args: argparse.Namespace) -> int:
             )
         )
     if args.superelevation:
-        if args.superelevation in (args.output, args.plan):
-            raise UsageError("--superelevation names the same file as another output")
         outputs.append((args.superelevation, dl.superelevation_dxf(solved, opts)))
     warn(dl.plan_warnings(solved) + notes)
-    for path, blob in outputs:
-        write_file(path, blob, [args.file])
+    write_all(outputs, inputs_of(args))
     return 0

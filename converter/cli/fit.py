@@ -7,7 +7,14 @@ import os
 import sys
 from typing import Any
 
-from gradeline.cli._common import EXAGGERATION, STATION, STEP, drawing_mapping, write_file
+from gradeline.cli._common import (
+    EXAGGERATION,
+    STATION,
+    STEP,
+    drawing_mapping,
+    inputs_of,
+    write_file,
+)
 from gradeline.errors import UsageError
 
 NAME = "fit"
@@ -176,6 +183,6 @@ def run(args: argparse.Namespace) -> int:
     prof = result.profile
     al = Alignment(name, sta_start=prof.start, length=prof.end - prof.start, profiles=(prof,))
     out_doc = Document(args.output, units, (al,))
-    write_file(args.output, write_landxml(out_doc), [args.drawing])
+    write_file(args.output, write_landxml(out_doc), inputs_of(args))
     sys.stdout.write(_report(args, result, out_doc.units, exag, datum))
     return 0

@@ -13,6 +13,7 @@ from gradeline.cli._common import (
     add_speed,
     add_superelevation,
     emit,
+    inputs_of,
     warn,
 )
 
@@ -73,5 +74,5 @@ def run(args: argparse.Namespace) -> int:
     )
     text, failed = dl.review_report(solved, opts)
     warn(dl.plan_warnings(solved))
-    emit(text, args.output, [args.file])
+    emit(text, args.output, inputs_of(args))
     return 1 if failed else 0

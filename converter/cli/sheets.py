@@ -11,6 +11,7 @@ from gradeline.cli._common import (
     STEP,
     add_common,
     add_ground,
+    inputs_of,
     warn,
     with_ground,
     write_file,
@@ -80,5 +81,5 @@ def run(args: argparse.Namespace) -> int:
     opts = dl.sheet_options(solved, sheet_cfg, overrides, config_name=args.config or "config")
     data = dl.sheets_pdf(solved, opts)
     warn(dl.plan_warnings(solved))
-    write_file(args.output, data, [args.file] + ([args.config] if args.config else []))
+    write_file(args.output, data, inputs_of(args))
     return 0

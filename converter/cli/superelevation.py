@@ -6,7 +6,15 @@ import argparse
 import json
 from typing import Any
 
-from gradeline.cli._common import E_MAX, SPEED, add_superelevation, emit, write_file
+from gradeline.cli._common import (
+    E_MAX,
+    SPEED,
+    add_superelevation,
+    distinct_outputs,
+    emit,
+    inputs_of,
+    write_file,
+)
 from gradeline.errors import UsageError
 
 NAME = "superelevation"
@@ -88,9 +96,10 @@ def run(args: argparse.Namespace) -> int:
         if args.json
         else "\n".join(lines) + "\n"
     )
-    emit(text, args.report, [args.file])
+    distinct_outputs(args.report, args.output)
+    emit(text, args.report, inputs_of(args))
     if args.output:
         write_file(
-            args.output, dl.landxml_bytes(dl.with_superelevation(doc, proposals)), [args.file]
+            args.output, dl.landxml_bytes(dl.with_superelevation(doc, proposals)), inputs_of(args)
         )
     return 1 if beyond else 0

@@ -5,7 +5,16 @@ from __future__ import annotations
 import argparse
 from typing import Any
 
-from gradeline.cli._common import STEP, add_common, add_ground, add_output, emit, warn, with_ground
+from gradeline.cli._common import (
+    STEP,
+    add_common,
+    add_ground,
+    add_output,
+    emit,
+    inputs_of,
+    warn,
+    with_ground,
+)
 
 NAME = "table"
 
@@ -46,5 +55,5 @@ def run(args: argparse.Namespace) -> int:
     off: list = []
     text = dl.station_table(solved, dl.TableOptions(args.interval, at, args.format), off)
     warn(dl.plan_warnings(solved) + off)
-    emit(text, args.output, [args.file] + ([args.ground] if args.ground else []))
+    emit(text, args.output, inputs_of(args))
     return 0

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import contextlib
 import math
+import os
 from dataclasses import dataclass
 from typing import Any
 
@@ -43,11 +44,35 @@ def read_mapping(doc: DxfDocument) -> dict[str, str]:
 LINEWORK_TYPES = ("LINE", "LWPOLYLINE", "POLYLINE", "SPLINE", "ARC")
 
 
+#: Largest DXF read (bytes): ezdxf holds a drawing in memory at about ten times its
+#: size; a road's profile or plan is a few MB.
+MAX_DXF_BYTES = 512 * 1024 * 1024
+
+
 def read_drawing(path: str):
-    """Open a DXF file for reading; bad files become :class:`InputError`."""
+    """Open a DXF file for reading; bad files become :class:`InputError`.
+
+    Only regular files up to :data:`MAX_DXF_BYTES` are read (a device such as
+    ``/dev/zero`` would never end)."""
+    import stat as st
+
     from gradeline.errors import InputError
     from gradeline.model import SourceRef
 
+    try:
+        info = os.stat(path)
+    except OSError as err:
+        raise InputError(
+            f"cannot read the file ({err.strerror or err})", SourceRef(path), "DXF"
+        ) from None
+    if not st.S_ISREG(info.st_mode):
+        raise InputError("not a regular file; give a DXF file", SourceRef(path), "DXF")
+    if info.st_size > MAX_DXF_BYTES:
+        raise InputError(
+            f"{info.st_size:,} bytes is more than gradeline reads of a drawing ({MAX_DXF_BYTES:,})",
+            SourceRef(path),
+            "DXF",
+        )
     try:
         return ezdxf.readfile(path)
     except OSError as err:

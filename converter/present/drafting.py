@@ -385,6 +385,12 @@ class ProfileDraft:
             text = labels.grid_station_text(float(st.label_value(x)), units)
             self.items.append(Text("labels", text, x, -1.2 * h, h, 0.0, "center", "top"))
         n = round((self.top - self.datum) / minor_z)
+        guard_count(
+            n + 1,
+            "profile elevation grid lines",
+            f"the profile spans {self.top - self.datum:,.0f} in elevation; is an elevation "
+            "in the file wrong?",
+        )
         for k in range(n + 1):
             z = self.datum + k * minor_z
             is_maj = abs(z / major_z - round(z / major_z)) < 1e-9

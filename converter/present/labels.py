@@ -563,3 +563,25 @@ def check_headline(over: int, total: int) -> str:
             "this is not a pass"
         )
     return f"{_plural(over, 'finding')} over tolerance in {total} checks"
+
+
+def plain_text(text: str) -> str:
+    """``text`` with control and format characters (new lines, bidi overrides) written
+    as escapes, so a name from a file can never forge or reorder a report's lines.
+
+    Examples
+    --------
+    >>> plain_text("Main St\\nFAILED x")
+    'Main St\\\\nFAILED x'
+    >>> plain_text("abc\\u202edcb")
+    'abc\\\\u202edcb'
+    """
+    import unicodedata
+
+    out = []
+    for ch in text:
+        if unicodedata.category(ch) in ("Cc", "Cf", "Zl", "Zp"):
+            out.append(ch.encode("unicode_escape").decode("ascii"))
+        else:
+            out.append(ch)
+    return "".join(out)

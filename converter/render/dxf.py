@@ -19,6 +19,7 @@ import numpy as np
 from ezdxf.document import Drawing as DxfDocument
 
 from gradeline.present.items import ArcItem, Circle, Drawing, Path, QuadCurve, Text
+from gradeline.present.labels import plain_text
 from gradeline.present.layout import DraftingLayout
 from gradeline.present.roles import ROLE_STYLE, Role
 
@@ -209,7 +210,7 @@ def _write(
             msp.add_circle(item.center, item.radius, dxfattribs={"layer": layer})
         elif isinstance(item, Text):
             txt = msp.add_text(
-                item.text,
+                plain_text(item.text),  # a name's new line would end the DXF's group
                 height=item.height,
                 rotation=item.rotation,
                 dxfattribs={"layer": layer, "style": TEXT_STYLE},
@@ -219,7 +220,7 @@ def _write(
             txt.dxf.insert = (item.x, item.y)
             txt.dxf.align_point = (item.x, item.y)
     meta = {
-        k: str(v)
+        k: plain_text(str(v))
         for k, v in sorted(drawing.meta.items())
         if isinstance(v, (str, int, float))  # records such as curve notes stay out
     }

@@ -10,6 +10,7 @@ import csv
 import io
 import json
 import os
+import stat
 import tempfile
 from collections.abc import Iterable, Mapping, Sequence
 from typing import Any
@@ -82,12 +83,28 @@ def refuse_overwrite(
 def write_atomic(path: str | os.PathLike[str], data: str | bytes) -> None:
     """Write ``data`` to ``path`` through a temporary file and a rename.
 
-    Missing folders of ``path`` are created (``-o newdir/x.pdf``).
+    Missing folders of ``path`` are created (``-o newdir/x.pdf``). A character
+    device (``/dev/null``) is written to in place, never replaced; a FIFO, socket or
+    folder is refused.
     """
     target = os.fspath(path)
+    raw = data.encode("utf-8") if isinstance(data, str) else data
+    try:
+        mode = os.stat(target).st_mode
+    except FileNotFoundError:
+        mode = None
+    except OSError:  # e.g. a path through a regular file: the write below says why
+        mode = None
+    if mode is not None and not stat.S_ISREG(mode):
+        if stat.S_ISCHR(mode):
+            # a character device (/dev/null, a terminal): written to, never replaced
+            with open(target, "wb") as fh:
+                fh.write(raw)
+            return
+        what = "folder" if stat.S_ISDIR(mode) else "FIFO, socket or device"
+        raise UsageError(f"output {target!r} is a {what}, not a file; gradeline writes files")
     folder = os.path.dirname(os.path.abspath(target))
     os.makedirs(folder, exist_ok=True)
-    raw = data.encode("utf-8") if isinstance(data, str) else data
     fd, tmp = tempfile.mkstemp(prefix=".gradeline-", suffix=".part", dir=folder)
     try:
         umask = os.umask(0)
