@@ -98,7 +98,8 @@ def test_no_linework_on_layer(tmp_path, capsys):
     )
     assert code == 2
     err = capsys.readouterr().err
-    assert "no LINE, LWPOLYLINE, POLYLINE, SPLINE or ARC on layer 'FG'" in err and "OTHER" in err
+    assert "no LINE, LWPOLYLINE, POLYLINE, SPLINE or ARC gradeline can read on layer 'FG'" in err
+    assert "OTHER" in err
     assert not (tmp_path / "o.xml").exists()
 
 

@@ -252,3 +252,28 @@ def test_a_stopped_build_writes_its_index_and_rolls_back(tmp_path):
 def test_a_review_step_longer_than_the_profile_is_refused(capsys):
     code, _, err = run(capsys, "review", US_SAMPLE, *BYPASS, "--speed", "50", "--step", "9000")
     assert code == 2 and "no longer than the profile" in err
+
+
+def test_fit_says_what_it_left_out(tmp_path, capsys, monkeypatch):
+    import ezdxf
+
+    drawn = tmp_path / "p.dxf"
+    assert main(["dxf", str(US_SAMPLE), *BYPASS, "-o", str(drawn)]) == 0
+    doc = ezdxf.readfile(str(drawn))
+    msp = doc.modelspace()
+    msp.add_lwpolyline(
+        [(0, 0), (100, float("nan")), (200, 5)], dxfattribs={"layer": "PROFILE-GRADE"}
+    )
+    nan = tmp_path / "nan.dxf"
+    doc.saveas(str(nan))
+    code, _, err = run(capsys, "fit", nan, "--layer", "PROFILE-GRADE", "-o", tmp_path / "f.xml")
+    assert code == 0 and "1 LWPOLYLINE with non-finite coordinates" in err
+    bad = ezdxf.new()
+    spline = bad.modelspace().add_spline(dxfattribs={"layer": "G"})
+    spline.dxf.degree = 3
+    spline.knots = [0, 0, 0, 0, 1, 1, 1, 1]  # knots, and no control point to evaluate
+    path = tmp_path / "spline.dxf"
+    bad.saveas(str(path))
+    args = ["fit", path, "--layer", "G", "--exaggeration", "10", "--datum", "0"]
+    code, _, err = run(capsys, *args, "-o", tmp_path / "g.xml")
+    assert code == 2 and "1 SPLINE ezdxf cannot evaluate left out" in err

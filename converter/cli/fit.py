@@ -13,9 +13,10 @@ from gradeline.cli._common import (
     STEP,
     drawing_mapping,
     inputs_of,
+    warn,
     write_file,
 )
-from gradeline.errors import UsageError
+from gradeline.errors import GradelineError, UsageError
 
 NAME = "fit"
 
@@ -143,11 +144,23 @@ def run(args: argparse.Namespace) -> int:
 
     dxf_doc = read_drawing(args.drawing)
     names = layer_names(dxf_doc)
-    lines = read_linework(dxf_doc, args.layer, 0.0005)
+    skipped: dict[str, int] = {}
+    lines = read_linework(dxf_doc, args.layer, 0.0005, skipped)
     if not lines:
+        left_out = ", ".join(f"{n} {why}" for why, n in sorted(skipped.items()))
         raise UsageError(
-            f"{args.drawing}: no LINE, LWPOLYLINE, POLYLINE, SPLINE or ARC on layer "
-            f"{args.layer!r}; layers with linework: " + (", ".join(names) or "none")
+            f"{args.drawing}: no LINE, LWPOLYLINE, POLYLINE, SPLINE or ARC gradeline can "
+            f"read on layer {args.layer!r}"
+            + (f" ({left_out} left out)" if left_out else "")
+            + "; layers with linework: "
+            + (", ".join(names) or "none")
+        )
+    if skipped:
+        warn(
+            [
+                GradelineError(f"{args.drawing}: {n} {why} on layer {args.layer!r} left out")
+                for why, n in sorted(skipped.items())
+            ]
         )
     mapping = read_mapping(dxf_doc)
     found = drawing_mapping(args, mapping)

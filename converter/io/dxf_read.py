@@ -87,13 +87,21 @@ def read_drawing(path: str):
         ) from None
 
 
-def read_linework(doc: DxfDocument, layer: str, tolerance: float) -> list[np.ndarray]:
+def read_linework(
+    doc: DxfDocument, layer: str, tolerance: float, skipped: dict[str, int] | None = None
+) -> list[np.ndarray]:
     """Every LINE, LWPOLYLINE, POLYLINE, SPLINE and ARC on ``layer`` as (n, 2) point arrays.
 
     Curved parts (splines, arcs, polyline bulges) are flattened so no point of the
     drawn curve is farther than ``tolerance`` from the returned polyline; straight
-    parts keep their vertices exactly.
+    parts keep their vertices exactly. Entities ezdxf cannot evaluate, or with
+    non-finite coordinates, are left out and counted in ``skipped`` by reason.
     """
+
+    def skip(reason: str) -> None:
+        if skipped is not None:
+            skipped[reason] = skipped.get(reason, 0) + 1
+
     from ezdxf import path as ezpath
 
     out: list[np.ndarray] = []
@@ -111,7 +119,9 @@ def read_linework(doc: DxfDocument, layer: str, tolerance: float) -> list[np.nda
             elif kind == "ARC":
                 pts = list(e.construction_tool().flattening(tolerance))
             elif kind == "LWPOLYLINE" and (flat := _straight_lwpolyline(e)) is not None:
-                if len(flat) >= 2:
+                if not np.isfinite(flat).all():
+                    skip("LWPOLYLINE with non-finite coordinates")
+                elif len(flat) >= 2:
                     out.append(flat)
                 continue
             elif kind == "POLYLINE" and not any(v.dxf.bulge for v in e.vertices):
@@ -119,8 +129,12 @@ def read_linework(doc: DxfDocument, layer: str, tolerance: float) -> list[np.nda
             else:  # polylines with bulges: flatten their arcs
                 pts = list(ezpath.make_path(e).flattening(distance=tolerance))
         except Exception:  # noqa: BLE001 - an entity ezdxf cannot evaluate
+            skip(f"{kind} ezdxf cannot evaluate")
             continue
         arr = np.array([(p[0], p[1]) for p in pts], dtype=np.float64)
+        if not np.isfinite(arr).all():
+            skip(f"{kind} with non-finite coordinates")
+            continue
         if len(arr) >= 2:
             out.append(arr)
     return out
