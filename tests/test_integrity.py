@@ -277,3 +277,24 @@ def test_fit_says_what_it_left_out(tmp_path, capsys, monkeypatch):
     args = ["fit", path, "--layer", "G", "--exaggeration", "10", "--datum", "0"]
     code, _, err = run(capsys, *args, "-o", tmp_path / "g.xml")
     assert code == 2 and "1 SPLINE ezdxf cannot evaluate left out" in err
+
+
+def test_a_profile_of_a_survey_of_points_is_refused_for_drafting(tmp_path, capsys):
+    pvis = "".join(f"<PVI>{10.0 * i:.1f} {100 + (i % 7) * 0.1:.2f}</PVI>" for i in range(25000))
+    many = tmp_path / "many.xml"
+    many.write_text(
+        '<?xml version="1.0"?><LandXML xmlns="http://www.landxml.org/schema/LandXML-1.2" '
+        'version="1.2"><Units><Imperial linearUnit="foot" areaUnit="squareFoot" '
+        'volumeUnit="cubicYard" angularUnit="decimal degrees" directionUnit="decimal '
+        'degrees"/></Units><Alignments><Alignment name="T" staStart="0"><Profile name="T">'
+        f'<ProfAlign name="G">{pvis}</ProfAlign></Profile></Alignment></Alignments></LandXML>',
+        encoding="utf-8",
+    )
+    t0 = time.perf_counter()
+    for cmd in (
+        ["sheets", many, "-o", tmp_path / "m.pdf"],
+        ["dxf", many, "-o", tmp_path / "m.dxf"],
+    ):
+        code, _, err = run(capsys, *cmd)
+        assert code == 2 and "25,000 PVIs" in err
+    assert time.perf_counter() - t0 < 60

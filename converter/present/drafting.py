@@ -18,6 +18,7 @@ from typing import Any
 
 import numpy as np
 
+from gradeline.errors import UsageError
 from gradeline.present import labels
 from gradeline.present.items import (
     ArcItem,
@@ -29,7 +30,7 @@ from gradeline.present.items import (
     _BoxIndex,
     boxes_overlap,
 )
-from gradeline.present.layout import DraftingLayout, guard_count
+from gradeline.present.layout import MAX_DRAWN_PVIS, DraftingLayout, guard_count
 from gradeline.solved import SolvedAlignment
 
 __all__ = [
@@ -100,6 +101,11 @@ class ProfileDraft:
         self.s0, self.s1 = max(g.start, self.x0), min(g.end, self.x1)
         self.gx0, self.gx1 = (self.s0, self.s1) if self.s1 > self.s0 else (self.x0, self.x1)
         guard_count((self.x1 - self.x0) / layout.station_minor, "profile grid lines")
+        if len(g.pvi_stations) > MAX_DRAWN_PVIS:
+            raise UsageError(
+                f"a profile of {len(g.pvi_stations):,} PVIs is more than gradeline drafts "
+                f"({MAX_DRAWN_PVIS:,}); is it a survey of points rather than a design?"
+            )
 
     def y(self, z):
         return (np.asarray(z, dtype=float) - self.datum) * self.lay.exaggeration

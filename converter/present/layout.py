@@ -22,6 +22,11 @@ __all__ = ["MAX_DRAWN_LINES", "DraftingLayout", "default_layout", "guard_count"]
 MAX_DRAWN_LINES = 200_000
 
 
+#: Most PVIs of a profile gradeline drafts (a designed road's profile has hundreds;
+#: more is a survey of points read as PVIs, and every sheet would label them all).
+MAX_DRAWN_PVIS = 20_000
+
+
 def guard_count(count: float, what: str, hint: str = "") -> None:
     """Refuse work that would produce more than :data:`MAX_DRAWN_LINES` items."""
     if not count <= MAX_DRAWN_LINES:
