@@ -324,10 +324,16 @@ class DrawingOptions:
 def profile_dxf(solved: SolvedAlignment, opts: DrawingOptions) -> bytes:
     """The profile drawing (needs a profile)."""
     from gradeline.present import drafting
-    from gradeline.render.dxf import write_dxf
 
     lay = opts.layout(solved)
     drawing = drafting.profile_drawing(solved, lay, opts.curves)
+    return _dxf_bytes(solved, opts, lay, drawing)
+
+
+def _dxf_bytes(solved: SolvedAlignment, opts: DrawingOptions, lay: Any, drawing: Any) -> bytes:
+    """A drafted drawing as DXF, in the options' version and curve form."""
+    from gradeline.render.dxf import write_dxf
+
     return write_dxf(
         drawing,
         lay,
@@ -340,25 +346,17 @@ def profile_dxf(solved: SolvedAlignment, opts: DrawingOptions) -> bytes:
 def plan_dxf(solved: SolvedAlignment, opts: DrawingOptions) -> bytes:
     """The plan drawing (needs plan geometry)."""
     from gradeline.present.plan_drawing import plan_drawing
-    from gradeline.render.dxf import write_dxf
 
     if solved.horizontal is None:
         raise UsageError(f"alignment {solved.alignment.name!r} has no CoordGeom; no plan to draw")
     lay = opts.layout(solved)
     drawing = plan_drawing(solved, lay)
-    return write_dxf(
-        drawing,
-        lay,
-        version=opts.version,
-        curves=opts.curves,
-        linear_unit=solved.document.units.linear,
-    )
+    return _dxf_bytes(solved, opts, lay, drawing)
 
 
 def superelevation_dxf(solved: SolvedAlignment, opts: DrawingOptions) -> bytes:
     """The superelevation diagram along the alignment (needs a stated superelevation)."""
     from gradeline.present.super_diagram import super_panels, superelevation_drawing
-    from gradeline.render.dxf import write_dxf
 
     if not solved.alignment.superelevations:
         raise UsageError(
@@ -366,13 +364,7 @@ def superelevation_dxf(solved: SolvedAlignment, opts: DrawingOptions) -> bytes:
         )
     lay = opts.layout(solved)
     drawing = superelevation_drawing(solved, super_panels(solved), lay.text_height)
-    return write_dxf(
-        drawing,
-        lay,
-        version=opts.version,
-        curves=opts.curves,
-        linear_unit=solved.document.units.linear,
-    )
+    return _dxf_bytes(solved, opts, lay, drawing)
 
 
 # --------------------------------------------------------------------------- sheets

@@ -60,3 +60,16 @@ CASES = {
 def case(request: pytest.FixtureRequest) -> Profile:
     """Every hand-built profile, one test each."""
     return CASES[request.param]
+
+
+def run_cli(capsys, *args) -> tuple[int, str, str]:
+    """``gradeline`` in-process as the shell sees it: exit code (argparse's too),
+    standard output and standard error."""
+    from gradeline.cli import main
+
+    try:
+        code = main([str(a) for a in args])
+    except SystemExit as exc:
+        code = int(exc.code or 0)
+    out, err = capsys.readouterr()
+    return code, out, err

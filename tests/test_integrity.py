@@ -18,18 +18,12 @@ import pytest
 
 from gradeline.cli import main
 from gradeline.errors import UsageError
-from tests.conftest import METRIC_SAMPLE, US_SAMPLE
+from tests.conftest import METRIC_SAMPLE, US_SAMPLE, run_cli
 
 BYPASS = ["--alignment", "Orrin Vale Bypass"]
 
 
-def run(capsys, *args) -> tuple[int, str, str]:
-    try:
-        code = main([str(a) for a in args])
-    except SystemExit as exc:
-        code = int(exc.code or 0)
-    out, err = capsys.readouterr()
-    return code, out, err
+run = run_cli
 
 
 # --------------------------------------------------------------------------- devices

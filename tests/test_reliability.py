@@ -20,19 +20,12 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
 from gradeline.cli import main
-from tests.conftest import METRIC_SAMPLE, US_SAMPLE
+from tests.conftest import METRIC_SAMPLE, US_SAMPLE, run_cli
 
 BYPASS = ["--alignment", "Orrin Vale Bypass"]
 
 
-def run(capsys, *args: str) -> tuple[int, str, str]:
-    """main(args) as the shell would see it: the exit code (argparse's too)."""
-    try:
-        code = main([str(a) for a in args])
-    except SystemExit as exc:
-        code = int(exc.code or 0)
-    out, err = capsys.readouterr()
-    return code, out, err
+run = run_cli
 
 
 def _one_line(err: str) -> None:
