@@ -35,6 +35,7 @@ from gradeline.sheets.layout import (
     split_blocks,
     table_capacity,
 )
+from gradeline.sheets.pens import style
 from gradeline.sheets.super_page import PANELS_PER_PAGE, draw_super_page
 from gradeline.sheets.views import (
     PaperXform,
@@ -75,21 +76,6 @@ class SheetOptions:
 
 
 _Xform = PaperXform
-
-
-@functools.lru_cache(maxsize=256)
-def _pen(role: str, f: float) -> tuple[tuple[float, float, float], float, tuple[float, ...]]:
-    style = ROLE_STYLE[Role(role)]
-    scale = max(f, 0.6)
-    return style.rgb, style.width * scale, tuple(d * scale for d in style.dash)
-
-
-def _style(c, role: str, f: float) -> None:
-    rgb, width, dash = _pen(role, f)
-    c.setStrokeColorRGB(*rgb)
-    c.setFillColorRGB(*rgb)
-    c.setLineWidth(width)
-    c.setDash(list(dash))
 
 
 def _inside(paper: Text, vp: Viewport) -> bool:
@@ -134,7 +120,7 @@ def _draw_items(c, items, xf: _Xform, vp: Viewport, f: float) -> None:
     for item in items:
         if isinstance(item, Text):
             continue
-        _style(c, item.role, f)
+        style(c, item.role, f)
         if isinstance(item, Path) or isinstance(item, ArcItem):
             model = item.points if isinstance(item, Path) else item.polyline
             paper = [xf(x, y) for x, y in model] if len(model) <= 16 else None
@@ -161,13 +147,13 @@ def _draw_items(c, items, xf: _Xform, vp: Viewport, f: float) -> None:
     c.restoreState()
     for item in items:
         if isinstance(item, Text):
-            _style(c, item.role, f)
+            style(c, item.role, f)
             _text(c, item, xf, vp)
 
 
 def _notes(c, notes: tuple[PlacedNote, ...], f: float) -> None:
     for note in notes:
-        _style(c, "plan_notes", f)
+        style(c, "plan_notes", f)
         if note.leader is not None:
             (x0, y0), (x1, y1) = note.leader
             c.setLineWidth(0.5 * max(f, 0.6))
@@ -338,12 +324,12 @@ def _title_block(
 ) -> None:
     f, ts = geo.factor, geo.text
     t = geo.title
-    _style(c, "frame", f)
+    style(c, "frame", f)
     c.rect(geo.border.x, geo.border.y, geo.border.w, geo.border.h, stroke=1, fill=0)
     c.rect(t.x, t.y, t.w, t.h, stroke=1, fill=0)
     cells = title_cells(geo)
     for cell in cells.values():
-        _style(c, "frame", f)
+        style(c, "frame", f)
         c.rect(cell.x, cell.y, cell.w, cell.h, stroke=1, fill=0)
     project = [(opts.agency, True), (opts.project or ctx.document.project, False)]
     if opts.project_number:
@@ -390,7 +376,7 @@ def _legend(c, cell: Viewport, geo: SheetGeometry, ctx: SolvedAlignment) -> None
     size = 0.75 * ts
     y = cell.y + cell.h - 2.0 * ts
     for role, words in entries:
-        _style(c, role, f)
+        style(c, role, f)
         c.line(cell.x + 0.4 * ts, y, cell.x + 2.6 * ts, y)
         c.setDash([])
         c.setFillColorRGB(0, 0, 0)
@@ -422,7 +408,7 @@ def _scale_bars(c, geo: SheetGeometry, ctx: SolvedAlignment, lay: DraftingLayout
     while length / per_pt > room and length > 1e-6:
         length /= 2
     w = length / per_pt
-    _style(c, "frame", f)
+    style(c, "frame", f)
     c.setLineWidth(0.6)
     for k in range(4):
         c.setFillColorRGB(*((0, 0, 0) if k % 2 == 0 else (1, 1, 1)))
@@ -453,7 +439,7 @@ def _north_arrow(c, geo: SheetGeometry, angle: float) -> None:
     # north (model +y) on paper after rotating the view by -angle
     nx, ny = math.sin(angle), math.cos(angle)
     r = 2.2 * ts
-    _style(c, "frame", geo.factor)
+    style(c, "frame", geo.factor)
     c.setDash([])
     c.circle(cx, cy, r, stroke=1, fill=0)
     tip = (cx + nx * r, cy + ny * r)
@@ -509,7 +495,7 @@ def _sheet(
     for m, other in ((frame.match_start, frame.number - 1), (frame.match_end, frame.number + 1)):
         if other < 1 or other > total_frames:
             continue
-        _style(c, "match", f)
+        style(c, "match", f)
         xm, grid_bottom = xf(m, 0.0)  # from the grid's bottom up, clear of the strip
         c.line(xm, max(vp.y, grid_bottom), xm, vp.y + vp.h - 2.2 * ts)
         c.setFont(FONT_BOLD, 0.85 * ts)
@@ -533,12 +519,12 @@ def _sheet(
         _draw_items(c, pv.items, pxf, pvp, f)
         _notes(c, pv.notes, f)
         for seg, label in marks:
-            _style(c, "match", f)
+            style(c, "match", f)
             c.line(*seg)
             c.setFillColorRGB(*ROLE_STYLE[Role.MATCH].rgb)
             _paper_text(c, label, None, bold=True)
         _north_arrow(c, geo, angle)
-    _style(c, "frame", f)
+    style(c, "frame", f)
     c.setDash([])
     for v in (geo.plan, geo.profile):
         c.rect(v.x, v.y, v.w, v.h, stroke=1, fill=0)
@@ -603,7 +589,7 @@ def _table_block(c, geo, tab, first, last, x0, top, widths) -> None:
     for w in widths:
         xs.append(xs[-1] + w)
     rows = [tab.header] + list(tab.rows[first:last])
-    _style(c, "frame", geo.factor)
+    style(c, "frame", geo.factor)
     c.setLineWidth(0.5)
     for r, row in enumerate(rows):
         y = top - (r + 1) * rh

@@ -7,10 +7,11 @@ each lane (percent, outward from the centreline) up. Draws, computes nothing.
 
 from __future__ import annotations
 
-from gradeline.present.roles import ROLE_STYLE, Role
+from gradeline.present.roles import Role
 from gradeline.present.super_diagram import SuperPanel
 from gradeline.sheets import fonts
 from gradeline.sheets.layout import SheetGeometry, Viewport
+from gradeline.sheets.pens import style
 
 __all__ = ["PANELS_PER_PAGE", "panel_boxes", "draw_super_page"]
 
@@ -33,14 +34,6 @@ def panel_boxes(geo: SheetGeometry) -> list[Viewport]:
         for row in range(rows)
         for col in range(_COLUMNS)
     ]
-
-
-def _pen(c, role: Role, f: float) -> None:
-    st = ROLE_STYLE[role]
-    c.setStrokeColorRGB(*st.rgb)
-    c.setFillColorRGB(*st.rgb)
-    c.setLineWidth(st.width * max(f, 0.6))
-    c.setDash([d * max(f, 0.6) for d in st.dash])
 
 
 def plot_area(box: Viewport, ts: float) -> Viewport:
@@ -68,14 +61,14 @@ def draw_super_page(c, geo: SheetGeometry, panels: list[SuperPanel]) -> None:
         fonts.draw(c, box.x + box.w, box.y + box.h - 1.2 * ts, legend, 0.8 * ts, align="right")
         v = -p.top
         while v <= p.top + 1e-9:
-            _pen(c, Role.SUPER_AXIS if v == 0 else Role.SUPER_GRID, f)
+            style(c, Role.SUPER_AXIS if v == 0 else Role.SUPER_GRID, f)
             c.line(area.x, sy(v), area.x + area.w, sy(v))
             c.setFillColorRGB(0, 0, 0)
             fonts.draw(c, area.x - 0.5 * ts, sy(v) - 0.3 * ts, f"{v:+.0f} %" if v else "0 %",
                        0.8 * ts, align="right")  # fmt: skip
             v += 2.0
         for s, text in p.marks:
-            _pen(c, Role.SUPER_GRID, f)
+            style(c, Role.SUPER_GRID, f)
             c.line(sx(s), area.y, sx(s), area.y + area.h)
             c.saveState()
             c.translate(sx(s) + 0.3 * ts, area.y - 0.5 * ts)
@@ -84,7 +77,7 @@ def draw_super_page(c, geo: SheetGeometry, panels: list[SuperPanel]) -> None:
             fonts.draw(c, 0, 0, text, 0.8 * ts, align="right")
             c.restoreState()
         for role, values in ((Role.SUPER_LEFT, p.left), (Role.SUPER_RIGHT, p.right)):
-            _pen(c, role, f)
+            style(c, role, f)
             path = c.beginPath()
             path.moveTo(sx(p.stations[0]), sy(values[0]))
             for s, val in zip(p.stations[1:], values[1:], strict=True):
@@ -93,6 +86,6 @@ def draw_super_page(c, geo: SheetGeometry, panels: list[SuperPanel]) -> None:
         c.setFillColorRGB(0, 0, 0)
         fonts.draw(c, sx(p.rate_station), sy(p.top) - 1.1 * ts, f"FULL {p.rate_text}",
                    0.9 * ts, bold=True, align="center")  # fmt: skip
-        _pen(c, Role.SUPER_AXIS, f)
+        style(c, Role.SUPER_AXIS, f)
         c.setDash([])
         c.rect(area.x, area.y, area.w, area.h, stroke=1, fill=0)

@@ -215,14 +215,12 @@ def tangent_table(ctx: SolvedAlignment) -> TextTable:
 def superelevation_table(ctx: SolvedAlignment) -> TextTable:
     """The stated superelevation: each transition's curve, radius, full rate and the
     stations where it changes (NC normal crown, LC outside lane level, FS full)."""
-    from gradeline.analysis.superelevation import _match
+    from gradeline.analysis.superelevation import curve_of_records
 
     records = list(ctx.alignment.superelevations)
-    owners = {id(r): (i, c) for i, (c, r) in enumerate(
-        zip(ctx.curves, _match(ctx.curves, records), strict=True), start=1) if r}  # fmt: skip
     out = []
-    for r in records:
-        i, c = owners.get(id(r), (None, None))
+    for r, owner in zip(records, curve_of_records(ctx.curves, records), strict=True):
+        i, c = owner if owner is not None else (None, None)
         out.append(
             (
                 "" if i is None else str(i),

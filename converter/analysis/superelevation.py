@@ -44,9 +44,11 @@ __all__ = [
     "SuperReview",
     "Transition",
     "cross_slopes",
+    "curve_of_records",
     "design_rate",
     "distribution_friction",
     "load_super_criteria",
+    "match_records",
     "propose",
     "review_superelevation",
     "runoff_length",
@@ -395,7 +397,7 @@ class SuperReview:
         return any(c.failed for c in self.curves) or bool(self.overlaps)
 
 
-def _match(
+def match_records(
     curves: Sequence[HorizontalCurve], records: Sequence[Superelevation]
 ) -> list[Superelevation | None]:
     """The stated transition of each curve: the unused one overlapping it most."""
@@ -439,7 +441,7 @@ def review_superelevation(
     rate is reached; between curves, transitions that overlap. ``tolerance`` is
     the station tolerance (file units).
     """
-    matched = _match(curves, records)
+    matched = match_records(curves, records)
     tol = sc.pass_tolerance
     lu = length_unit
     out = []
@@ -565,11 +567,6 @@ def _placement(c: HorizontalCurve, rec: Superelevation, sc: SuperCriteria, tol: 
 
 
 # --------------------------------------------------------------------------- cross slopes
-def _outside_is_right(curve: HorizontalCurve | None, record: Superelevation) -> bool:
-    # a curve to the left (positive deflection) banks down to the left
-    return curve is not None and curve.delta > 0
-
-
 def cross_slopes(
     records: Sequence[Superelevation],
     curves: Sequence[HorizontalCurve],
@@ -589,7 +586,7 @@ def cross_slopes(
     s = np.asarray(stations, dtype=float)
     left = np.full(s.shape, -normal)
     right = np.full(s.shape, -normal)
-    for rec, curve in zip(records, _match_records(records, curves), strict=True):
+    for rec, owner in zip(records, curve_of_records(curves, records), strict=True):
         pts = _breakpoints(rec, normal)
         if pts is None:
             continue
@@ -599,19 +596,22 @@ def cross_slopes(
             continue
         out_v = np.interp(s[on], xs, outside)
         in_v = np.interp(s[on], xs, inside)
-        if _outside_is_right(curve, rec):
+        if owner is not None and owner[1].delta > 0:  # a left curve banks down to the left
             right[on], left[on] = out_v, in_v
         else:
             left[on], right[on] = out_v, in_v
     return left, right
 
 
-def _match_records(
-    records: Sequence[Superelevation], curves: Sequence[HorizontalCurve]
-) -> list[HorizontalCurve | None]:
-    by_curve = _match(curves, records)
-    owner: dict[int, HorizontalCurve] = {
-        id(r): c for c, r in zip(curves, by_curve, strict=True) if r
+def curve_of_records(
+    curves: Sequence[HorizontalCurve], records: Sequence[Superelevation]
+) -> list[tuple[int, HorizontalCurve] | None]:
+    """For each record, (number, curve) of the horizontal curve it belongs to (the
+    numbering of the review, from 1), or None: :func:`match_records` read the other way."""
+    owner = {
+        id(r): (i, c)
+        for i, (c, r) in enumerate(zip(curves, match_records(curves, records), strict=True), 1)
+        if r is not None
     }
     return [owner.get(id(r)) for r in records]
 

@@ -13,7 +13,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from gradeline.analysis.superelevation import _match, cross_slopes
+from gradeline.analysis.superelevation import cross_slopes, curve_of_records
 from gradeline.present import labels
 from gradeline.present.items import Drawing, Path, Text
 from gradeline.present.roles import Role
@@ -48,13 +48,10 @@ def super_panels(ctx: SolvedAlignment) -> tuple[SuperPanel, ...]:
     if not records:
         return ()
     normal = normal_crown(ctx)
-    owners = _match(ctx.curves, records)
-    curve_of = {
-        id(r): (i, c) for i, (c, r) in enumerate(zip(ctx.curves, owners, strict=True), 1) if r
-    }
+    owners = curve_of_records(ctx.curves, records)
     st = ctx.stationing
     out = []
-    for n, r in enumerate(records, start=1):
+    for n, (r, owner) in enumerate(zip(records, owners, strict=True), start=1):
         pts = r.stations()
         xs = sorted({s for _, s in pts})
         first, last = xs[0], xs[-1]
@@ -69,7 +66,6 @@ def super_panels(ctx: SolvedAlignment) -> tuple[SuperPanel, ...]:
             marks.setdefault(s, [])
             if SUPER_TAGS[tag] not in marks[s]:
                 marks[s].append(SUPER_TAGS[tag])
-        owner = curve_of.get(id(r))
         if owner is not None:
             i, c = owner
             turn = "LEFT" if c.delta > 0 else "RIGHT"

@@ -365,9 +365,9 @@ def add_super_columns(ctx: SolvedAlignment, stations: ArrayLike, rows: list[Row]
 
 def add_super_curve_columns(ctx: SolvedAlignment, rows: list[Row]) -> None:
     """Add each horizontal curve's stated rate (percent) and transition lengths."""
-    from gradeline.analysis.superelevation import _match
+    from gradeline.analysis.superelevation import match_records
 
-    records = _match(ctx.curves, ctx.alignment.superelevations)
+    records = match_records(ctx.curves, ctx.alignment.superelevations)
     horizontal = [r for r in rows if r["kind"] == "horizontal"]
     for row in rows:
         row.update(dict.fromkeys(SUPER_CURVE_COLUMNS))
