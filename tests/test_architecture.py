@@ -62,6 +62,32 @@ def test_help_loads_no_heavy_library():
     assert heavy == set()
 
 
+def test_top_level_help_imports_no_command_module():
+    """`gradeline --help` lists the commands from their summaries alone; a command's own
+    parser (and module) is built only when argv names it."""
+    loaded = _modules_after(
+        "from gradeline.cli import build_parser\nbuild_parser(['--help']).format_help()"
+    )
+    assert {m for m in loaded if m.startswith("gradeline.cli.")} == {"gradeline.cli._common"}
+    loaded = _modules_after(
+        "from gradeline.cli import build_parser\nbuild_parser(['sheets', '-h']).format_help()"
+    )
+    commands = {m for m in loaded if m.startswith("gradeline.cli.")} - {"gradeline.cli._common"}
+    assert commands == {"gradeline.cli.sheets"}
+
+
+def test_top_level_help_is_the_same_lazy_or_whole():
+    from gradeline.cli import build_parser
+
+    assert build_parser(["--help"]).format_help() == build_parser().format_help()
+    whole = build_parser()
+    for name in ("info", "sheets", "build"):
+        lazy = build_parser([name, "x"])
+        sub_whole = next(a for a in whole._actions if a.dest == "command").choices[name]
+        sub_lazy = next(a for a in lazy._actions if a.dest == "command").choices[name]
+        assert sub_lazy.format_help() == sub_whole.format_help()
+
+
 def test_only_gradeline_is_installed():
     """No top-level `converter` or `sheets` module: the folders install as gradeline."""
     import sysconfig

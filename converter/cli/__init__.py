@@ -16,7 +16,7 @@ import sys
 from collections.abc import Sequence
 
 from gradeline import __version__
-from gradeline.cli._common import PROG, Parser
+from gradeline.cli._common import PROG, SUMMARIES, Parser
 from gradeline.errors import GradelineError
 
 __all__ = ["COMMANDS", "build_parser", "main"]
@@ -33,25 +33,30 @@ CHOICE_OPTIONS = {
 }
 
 #: Command modules of :mod:`gradeline.cli`, in the order of ``--help``.
-COMMANDS = (
-    "info",
-    "table",
-    "dxf",
-    "sheets",
-    "review",
-    "design",
-    "superelevation",
-    "check",
-    "fit",
-    "convert",
-    "build",
-    "demo",
-    "curves",
-)
+COMMANDS = tuple(SUMMARIES)
 
 
-def build_parser() -> Parser:
-    """The argument parser of the ``gradeline`` command."""
+def chosen_command(argv: Sequence[str]) -> str | None:
+    """The command ``argv`` names, or None when it names none (``--help``, ``--version``).
+
+    The top-level options take no value, so the command is the first word that is not
+    an option.
+    """
+    for word in argv:
+        if word == "--":
+            break
+        if not word.startswith("-"):
+            return word if word in SUMMARIES else None
+    return None
+
+
+def build_parser(argv: Sequence[str] | None = None) -> Parser:
+    """The argument parser of the ``gradeline`` command.
+
+    Given ``argv``, only the command it names gets its options (and its module
+    imported); the others are listed by their summary, which is all ``--help`` shows.
+    Without ``argv``, every command is complete.
+    """
     parser = Parser(
         prog=PROG,
         description=(
@@ -63,14 +68,20 @@ def build_parser() -> Parser:
     parser.add_argument("--version", action="version", version=f"{PROG} {__version__}")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=Parser)
     sub.required = True
+    wanted = None if argv is None else chosen_command(argv)
     for name in COMMANDS:
-        importlib.import_module(f"gradeline.cli.{name}").add_parser(sub)
+        if argv is None or name == wanted:
+            importlib.import_module(f"gradeline.cli.{name}").add_parser(sub)
+        else:
+            sub.add_parser(name, help=SUMMARIES[name])
     return parser
 
 
 def main(argv: Sequence[str] | None = None) -> int:
     """Run the ``gradeline`` command; return its exit code."""
-    parser = build_parser()
+    if argv is None:
+        argv = sys.argv[1:]
+    parser = build_parser(argv)
     args = parser.parse_args(argv)
     try:
         return int(args.func(args))

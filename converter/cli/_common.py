@@ -46,6 +46,29 @@ __all__ = [
 
 PROG = "gradeline"
 
+#: Each command's one-line help, in the order ``gradeline --help`` lists them (the
+#: command modules of :mod:`gradeline.cli` take their summary from here, so that
+#: ``--help`` lists them without importing them).
+SUMMARIES = {
+    "info": "units, alignments, station ranges, profiles, curve counts",
+    "table": "finished-grade elevation and grade at regular stations and key points",
+    "dxf": "drafted profile (and plan) linework as DXF",
+    "sheets": "printable PDF plan-and-profile sheets with curve and station tables",
+    "review": "design-control review: sight distance, comfort, appearance, drainage "
+    "(exit 1 on failure)",
+    "design": "size vertical curves at the PVIs for a design speed; write the designed profile",
+    "superelevation": "propose each horizontal curve's superelevation rate and transition "
+    "for a design speed; write it into LandXML",
+    "check": "cross-check stated LandXML values, and DXF drawings' linework and labels "
+    "(exit 1 on findings)",
+    "fit": "recover PVIs and vertical curves from drafted DXF profile linework; write LandXML",
+    "convert": "LandXML to IFC 4.3 (IfcAlignment), or IFC 4.3 to LandXML 1.2",
+    "build": "every deliverable for every alignment of files or folders, with a summary index",
+    "demo": "build everything from the bundled samples (exit 0 when all was built; "
+    "the samples fail a check on purpose)",
+    "curves": "one row per vertical curve: PVI, grades, A, L, K, BVC/EVC, high/low point",
+}
+
 
 def number(
     low: float | None = None,

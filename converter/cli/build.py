@@ -6,7 +6,7 @@ import argparse
 import sys
 from typing import Any
 
-from gradeline.cli._common import JOBS, SPEED
+from gradeline.cli._common import JOBS, SPEED, SUMMARIES
 from gradeline.errors import UsageError
 
 NAME = "build"
@@ -16,7 +16,7 @@ def add_parser(sub: Any) -> None:
     """Register the command."""
     p = sub.add_parser(
         NAME,
-        help="every deliverable for every alignment of files or folders, with a summary index",
+        help=SUMMARIES[NAME],
         description=(
             "For every alignment: profile.dxf, plan.dxf, sheets.pdf, curves.csv, table.csv, "
             "check.txt and, with --speed, review.txt, in OUTDIR/<file>/<alignment>/, plus "

@@ -8,6 +8,7 @@ from typing import Any
 from gradeline.cli._common import (
     EXAGGERATION,
     STATION,
+    SUMMARIES,
     TOLERANCE,
     add_common,
     add_ground,
@@ -23,8 +24,7 @@ def add_parser(sub: Any) -> None:
     """Register the command."""
     p = sub.add_parser(
         NAME,
-        help="cross-check stated LandXML values, and DXF drawings' linework and labels "
-        "(exit 1 on findings)",
+        help=SUMMARIES[NAME],
         description=(
             "Recompute every stated value of the file from its coordinates (continuity, "
             "tangency, lengths, staStart, chord, delta, radius, directions, spiral values, PI "

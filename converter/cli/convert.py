@@ -5,7 +5,7 @@ from __future__ import annotations
 import argparse
 from typing import Any
 
-from gradeline.cli._common import inputs_of, warn, write_file
+from gradeline.cli._common import SUMMARIES, inputs_of, warn, write_file
 from gradeline.errors import GradelineError, UsageError
 
 NAME = "convert"
@@ -15,7 +15,7 @@ def add_parser(sub: Any) -> None:
     """Register the command."""
     p = sub.add_parser(
         NAME,
-        help="LandXML to IFC 4.3 (IfcAlignment), or IFC 4.3 to LandXML 1.2",
+        help=SUMMARIES[NAME],
         description=(
             "With OUT ending .ifc, write every alignment of the LandXML file IN (or the one "
             "named) as an IFC 4.3 IfcAlignment: "

@@ -5,16 +5,14 @@ from __future__ import annotations
 import argparse
 from typing import Any
 
-from gradeline.cli._common import add_common, add_output, emit, inputs_of, warn
+from gradeline.cli._common import SUMMARIES, add_common, add_output, emit, inputs_of, warn
 
 NAME = "curves"
 
 
 def add_parser(sub: Any) -> None:
     """Register the command."""
-    p = sub.add_parser(
-        NAME, help="one row per vertical curve: PVI, grades, A, L, K, BVC/EVC, high/low point"
-    )
+    p = sub.add_parser(NAME, help=SUMMARIES[NAME])
     add_common(p)
     add_output(p)
     p.set_defaults(func=run)

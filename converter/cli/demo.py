@@ -5,7 +5,7 @@ from __future__ import annotations
 import argparse
 from typing import Any
 
-from gradeline.cli._common import JOBS
+from gradeline.cli._common import JOBS, SUMMARIES
 
 NAME = "demo"
 
@@ -14,8 +14,7 @@ def add_parser(sub: Any) -> None:
     """Register the command."""
     p = sub.add_parser(
         NAME,
-        help="build everything from the bundled samples (exit 0 when all was built; "
-        "the samples fail a check on purpose)",
+        help=SUMMARIES[NAME],
     )
     p.add_argument(
         "-o",

@@ -6,7 +6,15 @@ import argparse
 import os
 from typing import Any
 
-from gradeline.cli._common import LENGTH, add_speed, distinct_outputs, emit, inputs_of, write_file
+from gradeline.cli._common import (
+    LENGTH,
+    SUMMARIES,
+    add_speed,
+    distinct_outputs,
+    emit,
+    inputs_of,
+    write_file,
+)
 from gradeline.errors import UsageError
 
 NAME = "design"
@@ -16,7 +24,7 @@ def add_parser(sub: Any) -> None:
     """Register the command."""
     p = sub.add_parser(
         NAME,
-        help="size vertical curves at the PVIs for a design speed; write the designed profile",
+        help=SUMMARIES[NAME],
         description=(
             "From PVIs alone (a LandXML profile, its curves ignored, or a CSV of station and "
             "elevation), the minimum length of every control at each PVI (stopping or "

@@ -8,6 +8,7 @@ from typing import Any
 from gradeline.cli._common import (
     EXAGGERATION,
     SCALE,
+    SUMMARIES,
     add_common,
     add_ground,
     distinct_outputs,
@@ -27,7 +28,7 @@ def add_parser(sub: Any) -> None:
     """Register the command."""
     p = sub.add_parser(
         NAME,
-        help="drafted profile (and plan) linework as DXF",
+        help=SUMMARIES[NAME],
         description=(
             "Profile in model space at x = station, y = (elevation - datum) x exaggeration "
             "(datum and exaggeration are written into the drawing). Parabolic curves are "

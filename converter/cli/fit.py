@@ -11,6 +11,7 @@ from gradeline.cli._common import (
     EXAGGERATION,
     STATION,
     STEP,
+    SUMMARIES,
     drawing_mapping,
     inputs_of,
     warn,
@@ -28,7 +29,7 @@ def add_parser(sub: Any) -> None:
     """Register the command."""
     p = sub.add_parser(
         NAME,
-        help="recover PVIs and vertical curves from drafted DXF profile linework; write LandXML",
+        help=SUMMARIES[NAME],
         description=(
             "Reads the LINE, LWPOLYLINE, POLYLINE, SPLINE and ARC entities on --layer, chains "
             "them in station order (x = station), maps y to elevation (given --exaggeration and "

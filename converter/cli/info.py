@@ -6,12 +6,14 @@ import argparse
 import sys
 from typing import Any
 
+from gradeline.cli._common import SUMMARIES
+
 NAME = "info"
 
 
 def add_parser(sub: Any) -> None:
     """Register the command."""
-    p = sub.add_parser(NAME, help="units, alignments, station ranges, profiles, curve counts")
+    p = sub.add_parser(NAME, help=SUMMARIES[NAME])
     p.add_argument("file", metavar="FILE", help="LandXML file")
     p.add_argument("--json", action="store_true", help="write JSON instead of text")
     p.set_defaults(func=run)

@@ -8,6 +8,7 @@ from typing import Any
 from gradeline.cli._common import (
     E_MAX,
     STEP,
+    SUMMARIES,
     add_common,
     add_report,
     add_speed,
@@ -24,8 +25,7 @@ def add_parser(sub: Any) -> None:
     """Register the command."""
     p = sub.add_parser(
         NAME,
-        help="design-control review: sight distance, comfort, appearance, drainage (exit 1 on "
-        "failure)",
+        help=SUMMARIES[NAME],
         description=(
             "Closed-form checks of every vertical curve for the design speed (crest stopping "
             "sight distance, sag headlight sight distance, comfort, appearance, drainage on "

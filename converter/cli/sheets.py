@@ -9,6 +9,7 @@ from gradeline.cli._common import (
     EXAGGERATION,
     SCALE,
     STEP,
+    SUMMARIES,
     add_common,
     add_ground,
     inputs_of,
@@ -24,7 +25,7 @@ def add_parser(sub: Any) -> None:
     """Register the command."""
     p = sub.add_parser(
         NAME,
-        help="printable PDF plan-and-profile sheets with curve and station tables",
+        help=SUMMARIES[NAME],
         description=(
             "Plan above, profile below, at true scale on ANSI D/B or ISO A1/A3 sheets split "
             "at match lines; then the horizontal and vertical curve tables and the "

@@ -9,6 +9,7 @@ from typing import Any
 from gradeline.cli._common import (
     E_MAX,
     SPEED,
+    SUMMARIES,
     add_superelevation,
     distinct_outputs,
     emit,
@@ -24,8 +25,7 @@ def add_parser(sub: Any) -> None:
     """Register the command."""
     p = sub.add_parser(
         NAME,
-        help="propose each horizontal curve's superelevation rate and transition for a "
-        "design speed; write it into LandXML",
+        help=SUMMARIES[NAME],
         description=(
             "For a design speed and e max, the rate each horizontal curve needs (the "
             "open-highway distribution of e and f, or low-speed urban streets), the runoff "

@@ -7,6 +7,7 @@ from typing import Any
 
 from gradeline.cli._common import (
     STEP,
+    SUMMARIES,
     add_common,
     add_ground,
     add_output,
@@ -23,7 +24,7 @@ def add_parser(sub: Any) -> None:
     """Register the command."""
     p = sub.add_parser(
         NAME,
-        help="finished-grade elevation and grade at regular stations and key points",
+        help=SUMMARIES[NAME],
         description=(
             "Rows at every multiple of --interval plus every key point (START, BVC, "
             "PVI, HIGH/LOW, EVC, END), or exactly at the --at stations. grade is in "
