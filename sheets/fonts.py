@@ -23,7 +23,9 @@ from reportlab.pdfbase import pdfmetrics
 from reportlab.pdfbase.cidfonts import UnicodeCIDFont
 from reportlab.pdfbase.ttfonts import TTFont
 
-__all__ = ["BASE", "BASE_BOLD", "draw", "runs", "text_width", "wide_font_path"]
+from gradeline.sheets import operators
+
+__all__ = ["BASE", "BASE_BOLD", "draw", "draw_turned", "runs", "text_width", "wide_font_path"]
 
 BASE = "Helvetica"
 BASE_BOLD = "Helvetica-Bold"
@@ -164,7 +166,28 @@ def _runs(text: str, bold: bool) -> tuple[tuple[str, str], ...]:
 @lru_cache(maxsize=1 << 16)
 def text_width(text: str, size: float, bold: bool = False) -> float:
     """Width of ``text`` in points, each run in its own font."""
-    return sum(pdfmetrics.stringWidth(piece, font, size) for font, piece in _runs(text, bold))
+    pieces = _runs(text, bold)
+    if len(pieces) == 1:  # the common case, without the sum's generator
+        font, piece = pieces[0]
+        return pdfmetrics.getFont(font).stringWidth(piece, size)
+    return sum(pdfmetrics.stringWidth(piece, font, size) for font, piece in pieces)
+
+
+def _placed(
+    x: float, y: float, text: str, size: float, bold: bool, align: str
+) -> list[tuple[str, float, float, float, str]]:
+    """(font, size, x, y, piece) of each run of ``text`` aligned at (x, y)."""
+    if align != "left":
+        w = text_width(text, size, bold)
+        x -= w / 2 if align == "center" else w
+    pieces = _runs(text, bold)
+    last = len(pieces) - 1
+    out = []
+    for i, (font, piece) in enumerate(pieces):
+        out.append((font, size, x, y, piece))
+        if i < last:
+            x += pdfmetrics.stringWidth(piece, font, size)
+    return out
 
 
 def draw(
@@ -177,13 +200,23 @@ def draw(
     align: str = "left",
 ) -> None:
     """Draw ``text`` at (x, y) run by run; ``align`` left, center or right."""
-    if align != "left":
-        w = text_width(text, size, bold)
-        x -= w / 2 if align == "center" else w
-    pieces = _runs(text, bold)
-    last = len(pieces) - 1
-    for i, (font, piece) in enumerate(pieces):
-        canvas.setFont(font, size)  # type: ignore[attr-defined]
-        canvas.drawString(x, y, piece)  # type: ignore[attr-defined]
-        if i < last:
-            x += pdfmetrics.stringWidth(piece, font, size)
+    direct = operators.ready(canvas)
+    for font, size_, px, py, piece in _placed(x, y, text, size, bold, align):
+        operators.text(canvas, font, size_, px, py, piece, direct)
+
+
+def draw_turned(
+    canvas: object,
+    origin: tuple[float, float],
+    angle: float,
+    x: float,
+    y: float,
+    text: str,
+    size: float,
+    bold: bool = False,
+    align: str = "left",
+) -> None:
+    """Draw ``text`` at (x, y) of a frame moved to ``origin`` and turned ``angle``
+    degrees counter-clockwise, the canvas state kept (save, translate, rotate, draw,
+    restore)."""
+    operators.turned_text(canvas, origin, angle, _placed(x, y, text, size, bold, align))

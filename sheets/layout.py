@@ -105,27 +105,44 @@ def _nan_min(a: float, b: float) -> float:
     return a if a != a else (b if b != b or b < a else a)
 
 
+def _clip_one(
+    row: list[float], x0: float, y0: float, x1: float, y1: float
+) -> tuple[float, float, bool]:
+    """:func:`clip_segments` of one segment (x0 y0 x1 y1) in plain floats (the same
+    operations, so the same results, without numpy's per-call cost)."""
+    sx0, sy0, sx1, sy1 = row
+    dx, dy = sx1 - sx0, sy1 - sy0
+    t0, t1, outside = 0.0, 1.0, False
+    for p, q in ((-dx, sx0 - x0), (dx, x1 - sx0), (-dy, sy0 - y0), (dy, y1 - sy0)):
+        if p == 0:
+            outside = outside or q < 0
+        elif p < 0:
+            t0 = _nan_max(t0, q / p)
+        elif p > 0:
+            t1 = _nan_min(t1, q / p)
+    return t0, t1, not outside and t0 <= t1
+
+
 def _clip_few(
     seg: np.ndarray, box: tuple[float, float, float, float]
 ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
-    """:func:`clip_segments` for a handful of segments, one at a time in plain floats
-    (the same operations, so the same results, without numpy's per-call cost)."""
+    """:func:`clip_segments` for a handful of segments, one at a time in plain floats."""
     x0, y0, x1, y1 = (float(v) for v in box)
-    t0s, t1s, ins = [], [], []
-    for sx0, sy0, sx1, sy1 in seg.tolist():
-        dx, dy = sx1 - sx0, sy1 - sy0
-        t0, t1, outside = 0.0, 1.0, False
-        for p, q in ((-dx, sx0 - x0), (dx, x1 - sx0), (-dy, sy0 - y0), (dy, y1 - sy0)):
-            if p == 0:
-                outside = outside or q < 0
-            elif p < 0:
-                t0 = _nan_max(t0, q / p)
-            elif p > 0:
-                t1 = _nan_min(t1, q / p)
-        t0s.append(t0)
-        t1s.append(t1)
-        ins.append(not outside and t0 <= t1)
+    out = [_clip_one(row, x0, y0, x1, y1) for row in seg.tolist()]
+    t0s, t1s, ins = zip(*out, strict=True) if out else ((), (), ())
     return np.array(t0s, dtype=float), np.array(t1s, dtype=float), np.array(ins, dtype=bool)
+
+
+def segments_meet(seg: np.ndarray, box: tuple[float, float, float, float]) -> bool:
+    """Whether any of the (n, 4) segments has a part inside ``box``: ``clip_segments``'s
+    mask, any of it, stopping at the first (in plain floats up to 64 segments)."""
+    if len(seg) > 64:
+        return bool(clip_segments(seg, box)[2].any())
+    x0, y0, x1, y1 = (float(v) for v in box)
+    try:
+        return any(_clip_one(row, x0, y0, x1, y1)[2] for row in seg.tolist())
+    except (OverflowError, ZeroDivisionError):  # absurd coordinates: numpy's rules
+        return bool(clip_segments(seg, box)[2].any())
 
 
 def clip_polyline(pts: np.ndarray, vp: Viewport) -> list[np.ndarray]:

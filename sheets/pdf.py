@@ -21,7 +21,7 @@ from gradeline.present.layout import DraftingLayout, default_layout
 from gradeline.present.plan_drawing import plan_drawing
 from gradeline.present.roles import ROLE_STYLE, Role
 from gradeline.present.super_diagram import super_panels
-from gradeline.sheets import fonts, tables
+from gradeline.sheets import fonts, operators, tables
 from gradeline.sheets.layout import (
     TABLE_ROW,
     Frame,
@@ -96,13 +96,11 @@ def _paper_text(c, paper: Text, vp: Viewport | None, bold: bool = False) -> None
     """Draw a text already on paper, unless it would leave ``vp``."""
     if vp is not None and not _inside(paper, vp):
         return
-    size, rot = paper.height, paper.rotation
-    c.saveState()
-    c.translate(paper.x, paper.y)
-    c.rotate(rot)
+    size = paper.height
     base = {"bottom": 0.0, "middle": -0.36 * size, "top": -0.72 * size}[paper.valign]
-    fonts.draw(c, 0.0, base, paper.text, size, bold, align=paper.halign)
-    c.restoreState()
+    fonts.draw_turned(
+        c, (paper.x, paper.y), paper.rotation, 0.0, base, paper.text, size, bold, paper.halign
+    )
 
 
 def _within(points, box: tuple[float, float, float, float]) -> bool:
@@ -129,11 +127,7 @@ def _draw_items(c, items, xf: _Xform, vp: Viewport, f: float) -> None:
             else:  # nothing invisible stays in the file
                 pieces = clip_polyline(xf.many(model) if paper is None else np.array(paper), vp)
             for piece in pieces:
-                path = c.beginPath()
-                path.moveTo(*piece[0])
-                for q in piece[1:]:
-                    path.lineTo(*q)
-                c.drawPath(path, stroke=1, fill=0)
+                operators.polyline(c, piece)
         elif isinstance(item, QuadCurve):
             p0, p1, p2 = (np.array(xf(*q)) for q in item.control)
             c1, c2 = p0 + 2.0 / 3.0 * (p1 - p0), p2 + 2.0 / 3.0 * (p1 - p2)  # exact cubic form

@@ -6,6 +6,7 @@ from __future__ import annotations
 import functools
 
 from gradeline.present.roles import ROLE_STYLE, Role
+from gradeline.sheets import operators
 
 __all__ = ["pen", "style"]
 
@@ -20,8 +21,4 @@ def pen(role: str, f: float) -> tuple[tuple[float, float, float], float, tuple[f
 
 def style(c, role: str, f: float) -> None:
     """Set the canvas ``c`` to draw as ``role``."""
-    rgb, width, dash = pen(role, f)
-    c.setStrokeColorRGB(*rgb)
-    c.setFillColorRGB(*rgb)
-    c.setLineWidth(width)
-    c.setDash(list(dash))
+    operators.pen(c, *pen(role, f))
