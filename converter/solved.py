@@ -142,6 +142,22 @@ class SolvedAlignment:
         return curve_data(self.horizontal) if self.horizontal is not None else ()
 
     @cached_property
+    def ground_arrays(
+        self,
+    ) -> tuple[tuple[tuple[NDArray[np.float64], NDArray[np.float64]], ...], ...]:
+        """Stations and elevations of each piece of each ground profile, as read-only
+        arrays (for drawing every sheet's window without converting them again)."""
+        out = []
+        for gr in self.alignment.grounds:
+            pieces = []
+            for piece in gr.pieces:
+                s, z = np.array(piece.stations), np.array(piece.elevations)
+                s.flags.writeable = z.flags.writeable = False
+                pieces.append((s, z))
+            out.append(tuple(pieces))
+        return tuple(out)
+
+    @cached_property
     def plan_key_points(self) -> tuple[tuple[float, str], ...]:
         """(station, tag) of POB, POE and every PC, PT, TS, SC, CS, ST."""
         if self.horizontal is None:

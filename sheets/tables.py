@@ -326,9 +326,8 @@ def plan_station_table(ctx: SolvedAlignment, interval: float) -> TextTable:
 
 def _ground_at(ctx: SolvedAlignment, stations: np.ndarray) -> np.ndarray:
     out = np.full(len(stations), np.nan)
-    for gr in ctx.alignment.grounds[:1]:
-        for p in gr.pieces:
-            s, z = np.array(p.stations), np.array(p.elevations)
+    for pieces in ctx.ground_arrays[:1]:
+        for s, z in pieces:
             inside = (stations >= s[0]) & (stations <= s[-1])
             out[inside] = np.interp(stations[inside], s, z)
     return out

@@ -137,9 +137,8 @@ class ProfileDraft:
         """Ground pieces in the window, dense stations, lowest and highest elevation."""
         g = self.geom
         grounds = []
-        for gr in self.ctx.alignment.grounds:
-            for p in gr.pieces:
-                s, z = np.array(p.stations), np.array(p.elevations)
+        for pieces in self.ctx.ground_arrays:
+            for s, z in pieces:
                 keep = (s > self.x0) & (s < self.x1)
                 lo, hi = max(self.x0, s[0]), min(self.x1, s[-1])
                 if hi <= lo:
@@ -208,7 +207,10 @@ class ProfileDraft:
     def _grade_line(self) -> None:
         g, tol = self.geom, self.lay.chord_tolerance
         ends = np.append(g.starts[1:], g.end)
-        for i in range(len(g.starts)):
+        # only the pieces that can reach the window (starts and ends run in order)
+        first = int(np.searchsorted(ends, self.s0, side="right"))
+        last = int(np.searchsorted(g.starts, self.s1, side="left"))
+        for i in range(first, max(first, last)):
             a, b = max(float(g.starts[i]), self.s0), min(float(ends[i]), self.s1)
             if b <= a:
                 continue
@@ -472,7 +474,13 @@ class ProfileDraft:
         g, h, exag = self.geom, self.h, self.lay.exaggeration
         taken = _BoxIndex([t.corners() for t in self.items if isinstance(t, Text)])
         curve_at = {c.index: c for c in g.curves}
-        for i in range(len(g.pvi_stations) - 1):
+        # only the grades between PVIs that can reach the window (a grade's straight
+        # part lies between its two PVIs)
+        first = max(int(np.searchsorted(g.pvi_stations, self.x0, side="right")) - 1, 0)
+        last = min(
+            int(np.searchsorted(g.pvi_stations, self.x1, side="left")), len(g.pvi_stations) - 1
+        )
+        for i in range(first, max(first, last)):
             s0, s1 = float(g.pvi_stations[i]), float(g.pvi_stations[i + 1])
             z0, z1 = float(g.pvi_elevations[i]), float(g.pvi_elevations[i + 1])
             grade = (z1 - z0) / (s1 - s0)
