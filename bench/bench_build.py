@@ -5,8 +5,8 @@ spiral, arc, spiral) with a 401-PVI profile; the TIN is a 590 x 1,700 grid of
 points (1,003,000 points, 1,999,998 faces, about 100 MiB) covering it. Each run
 is a fresh ``gradeline build`` process (every deliverable: profile and plan
 DXF, PDF sheets at the default scale, curve and station tables, check report);
-peak memory is the largest resident set of that process (with workers: of the
-largest process).
+peak memory is the largest resident set of that process or of any of its
+workers (``ru_maxrss`` of the process and of its children).
 
 Printed beside each other, all measured in the same run:
 
@@ -61,7 +61,8 @@ def road(path: str, copies: int = 1) -> tuple[float, tuple[float, float, float, 
 _WRAP = (
     "import atexit, resource, sys\n"
     "atexit.register(lambda: sys.stderr.write("
-    "'peak-kb %d\\n' % resource.getrusage(resource.RUSAGE_SELF).ru_maxrss))\n"
+    "'peak-kb %d\\n' % max(resource.getrusage(resource.RUSAGE_SELF).ru_maxrss,"
+    " resource.getrusage(resource.RUSAGE_CHILDREN).ru_maxrss)))\n"
     "from gradeline.cli import main\n"
     "sys.exit(main(sys.argv[1:]))\n"
 )

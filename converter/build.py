@@ -9,11 +9,13 @@ and what failed. Folders are processed in parallel with a process pool.
 
 from __future__ import annotations
 
+import collections
+import contextlib
 import hashlib
 import os
 import re
 from collections.abc import Callable, Sequence
-from concurrent.futures import ProcessPoolExecutor
+from concurrent.futures import FIRST_COMPLETED, Future, ProcessPoolExecutor, wait
 from dataclasses import dataclass, field, replace
 from pathlib import Path
 from typing import Any
@@ -160,10 +162,9 @@ def _deliverable(name: str) -> tuple[str, str | bytes, Any]:
 
     c = _CURRENT
     solved, opts, doc = c["solved"], c["opts"], c["doc"]
-    if name in ("profile.dxf", "plan.dxf"):  # each audited where it is made (self-check)
+    if name in _AUDITED:  # the self-check (_audit) reads the drawing back
         make = dl.profile_dxf if name == "profile.dxf" else dl.plan_dxf
-        data = make(solved, c["drawing"])
-        return name, data, dl.drawing_audit_of(solved, data, name, dl.CheckOptions().tolerances())
+        return name, make(solved, c["drawing"]), None
     if name == "superelevation.dxf":
         return name, dl.superelevation_dxf(solved, c["drawing"]), None
     if name == "sheets.pdf":
@@ -183,6 +184,15 @@ def _deliverable(name: str) -> tuple[str, str | bytes, Any]:
     raise ValueError(name)
 
 
+def _audit(name: str, data: bytes) -> tuple[str, None, Any]:
+    """The self-check of a drawing just made: read back, its linework and every label
+    against the geometry of :data:`_CURRENT`. (name, None, the audit)."""
+    from gradeline import deliverables as dl
+
+    tol = dl.CheckOptions().tolerances()
+    return name, None, dl.drawing_audit_of(_CURRENT["solved"], data, name, tol)
+
+
 def _check_text(solved: Any, findings: list, audits: list) -> tuple[str, int]:
     """check.txt: the file's own values, and the self-check of the drawings made (their
     linework and every label against the geometry). Returns the text and the number of
@@ -196,24 +206,99 @@ def _check_text(solved: Any, findings: list, audits: list) -> tuple[str, int]:
     return text, over
 
 
-def _render_all(names: list[str], workers: int) -> dict[str, tuple[str | bytes, Any]]:
-    """Every deliverable of :data:`_CURRENT`; with ``workers`` > 1, in forked processes
-    (the longest, the sheets, first), which inherit the solved alignment."""
-    if workers > 1 and len(names) > 1:
-        import multiprocessing
+#: Drawings audited after they are made (the build's self-check, in check.txt).
+_AUDITED = ("profile.dxf", "plan.dxf")
+#: Deliverables that do not draw or tabulate the ground: with a surface to sample, a
+#: build of more than one process makes them while the surface is read.
+_GROUNDLESS = ("plan.dxf", "superelevation.dxf", "curves.csv")
 
-        if "fork" in multiprocessing.get_all_start_methods():
-            order = sorted(names, key=lambda n: n != "sheets.pdf")
-            ctx = multiprocessing.get_context("fork")
-            with ProcessPoolExecutor(
-                max_workers=min(workers, len(names)),
-                mp_context=ctx,
-                initializer=die_with_parent,
-                initargs=(os.getpid(),),
-            ) as pool:
-                got = list(pool.map(_deliverable, order))
-            return {name: (data, extra) for name, data, extra in got}
-    return {name: _deliverable(name)[1:] for name in names}
+
+def _render_all(
+    names: list[str], workers: int, attach: Callable[[], Any] | None = None
+) -> dict[str, tuple[str | bytes, Any]]:
+    """Every deliverable of :data:`_CURRENT` and the audit of each drawing, after
+    ``attach`` (if given) has put the sampled ground into its solved alignment.
+
+    With ``workers`` > 1 they are made in forked processes, which inherit the solved
+    alignment: the ground-free ones in one process forked before the surface is read
+    (while it is read), the rest in ``workers`` processes forked after, the sheets
+    first; each drawing's audit is queued the moment the drawing is done. The
+    results are the same bytes as one process makes.
+    """
+    import multiprocessing
+
+    if workers <= 1 or len(names) <= 1 or "fork" not in multiprocessing.get_all_start_methods():
+        if attach is not None:
+            _CURRENT["solved"] = attach()
+        alone: dict[str, tuple[str | bytes, Any]] = {}
+        for name in names:
+            data, extra = _deliverable(name)[1:]
+            if name in _AUDITED:
+                extra = _audit(name, data)[2]  # type: ignore[arg-type]
+            alone[name] = (data, extra)
+        return alone
+    ctx = multiprocessing.get_context("fork")
+
+    def pool(size: int) -> ProcessPoolExecutor:
+        return ProcessPoolExecutor(
+            max_workers=size, mp_context=ctx, initializer=die_with_parent, initargs=(os.getpid(),)
+        )
+
+    early = [n for n in names if n in _GROUNDLESS] if attach is not None else []
+    late = sorted((n for n in names if n not in early), key=lambda n: n != "sheets.pdf")
+    done: dict[str, tuple[str | bytes, Any]] = {}
+    pending: dict[Future, _Lane] = {}
+
+    def feed(lane: _Lane) -> None:  # keep each of the lane's processes busy
+        while lane.queue and lane.busy < lane.size:
+            fn, args = lane.queue.popleft()
+            pending[lane.pool.submit(fn, *args)] = lane
+            lane.busy += 1
+
+    with contextlib.ExitStack() as stack:
+        lanes = []
+        if early:  # its first task forks its process: before the surface is read
+            lanes.append(_Lane(stack.enter_context(pool(1)), 1, early))
+            feed(lanes[-1])
+        if attach is not None:
+            try:
+                _CURRENT["solved"] = attach()
+            except BaseException:
+                for fut in pending:  # the one started finishes; nothing more starts
+                    fut.cancel()
+                raise
+        if late:
+            size = min(workers, len(late))
+            lanes.append(_Lane(stack.enter_context(pool(size)), size, late))
+            feed(lanes[-1])
+        try:
+            while pending:
+                finished, _ = wait(pending, return_when=FIRST_COMPLETED)
+                for fut in finished:
+                    lane = pending.pop(fut)
+                    lane.busy -= 1
+                    name, data, extra = fut.result()
+                    if data is None:  # an audit
+                        done[name] = (done[name][0], extra)
+                    else:
+                        done[name] = (data, extra)
+                        if name in _AUDITED:  # next in the lane that made it (its solved)
+                            lane.queue.appendleft((_audit, (name, data)))
+                    feed(lane)
+        except BaseException:
+            for fut in pending:
+                fut.cancel()
+            raise
+    return done
+
+
+class _Lane:
+    """A process pool of the build and the tasks waiting for it: a drawing's audit
+    goes to the front, so that it starts the moment a process is free."""
+
+    def __init__(self, pool: ProcessPoolExecutor, size: int, names: Sequence[str]) -> None:
+        self.pool, self.size, self.busy = pool, size, 0
+        self.queue: collections.deque = collections.deque((_deliverable, (n,)) for n in names)
 
 
 def _build_alignment(
@@ -231,13 +316,13 @@ def _build_alignment(
     written: list[str] = []
     notes: list[str] = []
     solved = solve_alignment(doc, al, prof, need_profile=False)
+    attach = None
     if (opts.ground or opts.surface) and solved.horizontal is not None:
-        solved, _ = dl.attach_ground(solved, opts.ground, opts.surface)
-        source = Path(opts.ground).name if opts.ground else "this file"
-        notes.append(
-            f"ground sampled from surface {solved.alignment.grounds[0].name!r} of {source}"
-        )
-    outdir.mkdir(parents=True, exist_ok=True)
+        bare = solved
+
+        def attach() -> Any:
+            return dl.attach_ground(bare, opts.ground, opts.surface)[0]
+
     sheet = opts.sheet
     names = []
     if solved.geometry is not None:
@@ -267,9 +352,16 @@ def _build_alignment(
         sheet_opts=dl.sheet_options(solved, {k: v for k, v in sheet.items() if k in dl.SHEET_KEYS}),
     )
     try:
-        done = _render_all(names, workers)
+        done = _render_all(names, workers, attach)
+        solved = _CURRENT["solved"]
     finally:
         _CURRENT.clear()
+    if attach is not None:
+        source = Path(opts.ground).name if opts.ground else "this file"
+        notes.insert(
+            0, f"ground sampled from surface {solved.alignment.grounds[0].name!r} of {source}"
+        )
+    outdir.mkdir(parents=True, exist_ok=True)
     over = 0
     review_failed = None
     try:  # an alignment gets its whole set of outputs or none

@@ -445,14 +445,15 @@ def test_chunks_and_lookup_give_the_same_bits(n, seed):
     # property (no outside source): the bucket lookup equals searchsorted, and a
     # station's coordinates do not depend on what else is evaluated in the call
     from bench._common import synthetic_plan
-    from gradeline.geometry.horizontal import _last_at_or_before
 
     geom = _BENCH_PLAN.setdefault("g", H.solve(synthetic_plan(12), 0.0))
     rng = np.random.default_rng(seed)
     s = rng.uniform(geom.start - 5, geom.end + 5, n)
     s[: min(n, 50)] = rng.choice(np.concatenate([geom.s0, geom.panel_s]), min(n, 50))
     want = np.maximum(np.searchsorted(geom.s0, s, side="right") - 1, 0)
-    assert np.array_equal(_last_at_or_before(geom.s0, s), want)
+    assert np.array_equal(geom.element_lookup.find(s), want)
+    want = np.maximum(np.searchsorted(geom.panel_s, s, side="right") - 1, 0)
+    assert np.array_equal(geom.panel_lookup.find(s), want)
     n_all, e_all, h_all = H.evaluate(geom, s)
     pick = rng.integers(0, n, min(n, 7))
     n_one, e_one, h_one = H.evaluate(geom, s[pick])

@@ -309,16 +309,27 @@ def label_blocks(texts: Iterable[DrawnText]) -> list[Block]:
 
 
 def _collect(items, h) -> list[Block]:
-    """Chain lines (sorted top down) onto the block whose last line sits just above."""
+    """Chain lines (sorted top down) onto the first block whose last line sits just
+    above. The lines come top down, so a block whose last line is more than 2.2
+    heights above the current one never takes another: it is no longer looked at."""
     blocks: list[list[tuple[float, float, DrawnText]]] = []
+    live: list[int] = []  # blocks that may still take a line, in the order made
     for u, v, t in items:
-        for blk in blocks:
-            bu, bv, _ = blk[-1]
-            if abs(u - bu) <= 0.75 * h and 0 < bv - v <= 2.2 * h:
-                blk.append((u, v, t))
-                break
+        found = None
+        still = []
+        for i in live:
+            bu, bv, _ = blocks[i][-1]
+            if bv - v > 2.2 * h:
+                continue  # closed for good
+            still.append(i)
+            if found is None and abs(u - bu) <= 0.75 * h and 0 < bv - v <= 2.2 * h:
+                found = i
+        if found is not None:
+            blocks[found].append((u, v, t))
         else:
+            still.append(len(blocks))
             blocks.append([(u, v, t)])
+        live = still
     return [Block(tuple(x[2] for x in b)) for b in blocks]
 
 
@@ -454,13 +465,18 @@ def _clauses(
 
 
 def _nearest(cands, key_stations: list[float]) -> int:
-    """Index of the candidate (station first) nearest any of ``key_stations``."""
-    best, best_d = 0, math.inf
-    for i, c in enumerate(cands):
-        d = min(abs(c[0] - k) for k in key_stations if k is not None and math.isfinite(k))
-        if d < best_d:
-            best, best_d = i, d
-    return best
+    """Index of the candidate (station first) nearest any of ``key_stations``: the
+    first of the nearest; 0 when none has a distance (no candidate, no finite key,
+    every station NaN)."""
+    keys = [k for k in key_stations if k is not None and math.isfinite(k)]
+    if not keys or not len(cands):
+        return 0
+    s = np.fromiter((c[0] for c in cands), dtype=float, count=len(cands))
+    d = np.abs(s - keys[0])
+    for k in keys[1:]:
+        np.minimum(d, np.abs(s - k), out=d)
+    d[np.isnan(d)] = math.inf
+    return int(np.argmin(d))
 
 
 # --------------------------------------------------------------------------- profile

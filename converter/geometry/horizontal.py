@@ -22,6 +22,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
+from functools import cached_property
 
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
@@ -139,6 +140,32 @@ class HorizontalGeometry:
     def start(self) -> float:
         """Station of the point of beginning (POB)."""
         return float(self.s0[0])
+
+    # lookup tables of the evaluation, built on first use
+    @cached_property
+    def element_lookup(self) -> _Buckets:
+        """The element of a station."""
+        return _Buckets(self.s0)
+
+    @cached_property
+    def panel_lookup(self) -> _Buckets:
+        """The quadrature panel of a spiral station."""
+        return _Buckets(self.panel_s)
+
+    @cached_property
+    def spiral_laws(self) -> frozenset[int]:
+        """Law codes of the spirals integrated by panels."""
+        return frozenset(int(v) for v in self.law if 0 < v != TANGENT_LAW)
+
+    @cached_property
+    def has_tangent_forms(self) -> bool:
+        """Whether any spiral is a form defined from the tangent."""
+        return bool((self.law == TANGENT_LAW).any())
+
+    @cached_property
+    def first_panel(self) -> NDArray[np.intp]:
+        """Index of each element's first quadrature panel."""
+        return np.searchsorted(self.panel_s, self.s0, side="left")
 
     @property
     def end(self) -> float:
@@ -493,31 +520,38 @@ def _assemble(horizontal, geoms, findings, convention, matches) -> HorizontalGeo
 _CHUNK = 1 << 16
 
 
-def _last_at_or_before(starts: NDArray[np.float64], s: NDArray[np.float64]) -> NDArray[np.intp]:
-    """For each station, the last index i with ``starts[i] <= s`` (0 if none): the same
-    as ``searchsorted(starts, s, "right") - 1`` clipped at 0, by a uniform bucket table
-    of the starts and a few steps forward, without a binary search per station."""
-    n = len(starts)
-    if n < 8 or len(s) < 16 * n:  # few stations: the table would cost more than it saves
-        return np.maximum(np.searchsorted(starts, s, side="right") - 1, 0)
-    lo, hi = float(starts[0]), float(starts[-1])
-    nb = 4 * n
-    width = (hi - lo) / nb if hi > lo else 1.0
-    edges = lo + width * np.arange(nb)
-    table = np.maximum(np.searchsorted(starts, edges, side="right") - 1, 0)
-    b = np.clip(((s - lo) / width).astype(np.intp), 0, nb - 1)
-    idx = table[b]
-    # a bucket edge computed in floating point may sit a hair past its station
-    back = (starts[idx] > s) & (idx > 0)
-    while back.any():
-        idx[back] -= 1
+class _Buckets:
+    """A uniform bucket table of sorted starts, built once per geometry: for each
+    station the last index i with ``starts[i] <= s`` (0 if none), the same as
+    ``searchsorted(starts, s, "right") - 1`` clipped at 0, without a binary search
+    per station."""
+
+    def __init__(self, starts: NDArray[np.float64]) -> None:
+        self.starts = starts
+        n = len(starts)
+        self.lo, hi = float(starts[0]), float(starts[-1])
+        self.nb = 4 * n
+        self.width = (hi - self.lo) / self.nb if hi > self.lo else 1.0
+        edges = self.lo + self.width * np.arange(self.nb)
+        self.table = np.maximum(np.searchsorted(starts, edges, side="right") - 1, 0)
+
+    def find(self, s: NDArray[np.float64]) -> NDArray[np.intp]:
+        starts, n = self.starts, len(self.starts)
+        if n < 8 or len(s) < 64:  # few: a binary search each costs less than the steps
+            return np.maximum(np.searchsorted(starts, s, side="right") - 1, 0)
+        b = np.clip(((s - self.lo) / self.width).astype(np.intp), 0, self.nb - 1)
+        idx = self.table[b]
+        # a bucket edge computed in floating point may sit a hair past its station
         back = (starts[idx] > s) & (idx > 0)
-    while True:
-        ahead = idx + 1 < n
-        ahead[ahead] = starts[idx[ahead] + 1] <= s[ahead]
-        if not ahead.any():
-            return idx
-        idx[ahead] += 1
+        while back.any():
+            idx[back] -= 1
+            back = (starts[idx] > s) & (idx > 0)
+        while True:
+            ahead = idx + 1 < n
+            ahead[ahead] = starts[idx[ahead] + 1] <= s[ahead]
+            if not ahead.any():
+                return idx
+            idx[ahead] += 1
 
 
 def _state(geom: HorizontalGeometry, s: NDArray[np.float64]):
@@ -532,7 +566,7 @@ def _state(geom: HorizontalGeometry, s: NDArray[np.float64]):
 
 
 def _state_chunk(geom: HorizontalGeometry, s: NDArray[np.float64]):
-    idx = np.minimum(_last_at_or_before(geom.s0, s), len(geom.s0) - 1)
+    idx = np.minimum(geom.element_lookup.find(s), len(geom.s0) - 1)
     d = s - geom.s0[idx]
     law = geom.law[idx]
     x, y = np.empty(len(s)), np.empty(len(s))
@@ -557,7 +591,7 @@ def _state_chunk(geom: HorizontalGeometry, s: NDArray[np.float64]):
         chord = dl * np.sinc(half / np.pi)
         x[la] = geom.x0[e] + chord * np.cos(h0 + half)
         y[la] = geom.y0[e] + chord * np.sin(h0 + half)
-    for e in np.unique(idx[law == TANGENT_LAW]):
+    for e in np.unique(idx[law == TANGENT_LAW]) if geom.has_tangent_forms else ():
         m = idx == e
         form = geom.elements[e].form
         assert form is not None
@@ -569,19 +603,20 @@ def _state_chunk(geom: HorizontalGeometry, s: NDArray[np.float64]):
         ds = d[sp]
         Ls, h0s, k0s, dks = geom.length[e], geom.h0[e], geom.k0[e], geom.dk[e]
         t = ds / Ls
-        heading[sp] = h0s + k0s * ds + dks * Ls * _shape_integral(lw, t)
-        kappa[sp] = k0s + dks * _shape(lw, t)
-        p = _last_at_or_before(geom.panel_s, s[sp])
-        first_panel = np.searchsorted(geom.panel_s, geom.s0, side="left")  # of each element
-        p = np.maximum(p, first_panel[e])
+        laws = geom.spiral_laws
+        heading[sp] = h0s + k0s * ds + dks * Ls * _shape_integral(lw, t, laws)
+        kappa[sp] = k0s + dks * _shape(lw, t, laws)
+        p = geom.panel_lookup.find(s[sp])
+        p = np.maximum(p, geom.first_panel[e])
         a = geom.panel_s[p] - geom.s0[e]
         b = ds
         u = a[:, None] + (b - a)[:, None] * (1.0 + _GL_T[None, :]) / 2.0
-        lw2 = np.repeat(lw[:, None], len(_GL_T), axis=1)
+        # the law of each node (only the clothoid's F needs none)
+        lw2 = lw[:, None] if laws <= {1} else np.repeat(lw[:, None], len(_GL_T), axis=1)
         th = (
             h0s[:, None]
             + k0s[:, None] * u
-            + (dks * Ls)[:, None] * _shape_integral(lw2, u / Ls[:, None])
+            + (dks * Ls)[:, None] * _shape_integral(lw2, u / Ls[:, None], laws)
         )
         halfw = (b - a) / 2.0
         x[sp] = geom.panel_x[p] + halfw * (np.cos(th) @ _GL_W)
@@ -600,7 +635,7 @@ def evaluate(
     s = s_in.reshape(-1)
     north, east, heading = np.empty(len(s)), np.empty(len(s)), np.empty(len(s))
     # a chunk at a time: the work arrays stay a fraction of the outputs
-    step = min(_CHUNK, max(16384, len(s) // 8))
+    step = len(s) if len(s) <= 2 * 8192 else min(_CHUNK, max(8192, len(s) // 16))
     for lo in range(0, len(s), step):
         part = s[lo : lo + step]
         # a station within rounding (1e-6) of an end counts as that end

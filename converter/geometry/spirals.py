@@ -55,52 +55,58 @@ _GL_T, _GL_W = np.polynomial.legendre.leggauss(8)
 _PANEL_TURN = 0.25  # radians of turning per quadrature panel
 
 
-def _shape(law: NDArray[np.intp], t: NDArray[np.float64]) -> NDArray[np.float64]:
-    """f(t): normalised curvature change of each law (0 at t=0, 1 at t=1)."""
+def _shape(
+    law: NDArray[np.intp], t: NDArray[np.float64], present: frozenset[int] | None = None
+) -> NDArray[np.float64]:
+    """f(t): normalised curvature change of each law (0 at t=0, 1 at t=1); only the
+    laws in ``present`` (all when None) are looked for."""
     out = t.copy()  # clothoid, and lines/arcs where dk = 0 anyway
-    m = law == 2
-    if m.any():
+    m = law == 2 if present is None or 2 in present else None
+    if m is not None and m.any():
         tt = t[m]
         out[m] = tt * tt * (3.0 - 2.0 * tt)
-    m = law == 3
-    if m.any():
+    m = law == 3 if present is None or 3 in present else None
+    if m is not None and m.any():
         out[m] = 0.5 * (1.0 - np.cos(np.pi * t[m]))
-    m = law == 4
-    if m.any():
+    m = law == 4 if present is None or 4 in present else None
+    if m is not None and m.any():
         tt = t[m]
         out[m] = tt - np.sin(TWO_PI * tt) / TWO_PI
-    m = law == 5
-    if m.any():
+    m = law == 5 if present is None or 5 in present else None
+    if m is not None and m.any():
         tt = t[m]
         out[m] = np.where(tt <= 0.5, 2.0 * tt * tt, 1.0 - 2.0 * (1.0 - tt) ** 2)
-    m = law == 6
-    if m.any():
+    m = law == 6 if present is None or 6 in present else None
+    if m is not None and m.any():
         tt = t[m]
         out[m] = tt**4 * (35.0 - 84.0 * tt + 70.0 * tt * tt - 20.0 * tt**3)
     return out
 
 
-def _shape_integral(law: NDArray[np.intp], t: NDArray[np.float64]) -> NDArray[np.float64]:
-    """F(t) = integral of f from 0 to t, in closed form for each law."""
+def _shape_integral(
+    law: NDArray[np.intp], t: NDArray[np.float64], present: frozenset[int] | None = None
+) -> NDArray[np.float64]:
+    """F(t) = integral of f from 0 to t, in closed form for each law (only those in
+    ``present``, all when None)."""
     out = 0.5 * t * t
-    m = law == 2
-    if m.any():
+    m = law == 2 if present is None or 2 in present else None
+    if m is not None and m.any():
         tt = t[m]
         out[m] = tt**3 - 0.5 * tt**4
-    m = law == 3
-    if m.any():
+    m = law == 3 if present is None or 3 in present else None
+    if m is not None and m.any():
         tt = t[m]
         out[m] = 0.5 * (tt - np.sin(np.pi * tt) / np.pi)
-    m = law == 4
-    if m.any():
+    m = law == 4 if present is None or 4 in present else None
+    if m is not None and m.any():
         tt = t[m]
         out[m] = 0.5 * tt * tt - (1.0 - np.cos(TWO_PI * tt)) / (4.0 * np.pi**2)
-    m = law == 5
-    if m.any():
+    m = law == 5 if present is None or 5 in present else None
+    if m is not None and m.any():
         tt = t[m]
         out[m] = np.where(tt <= 0.5, 2.0 * tt**3 / 3.0, tt + 2.0 * (1.0 - tt) ** 3 / 3.0 - 0.5)
-    m = law == 6
-    if m.any():
+    m = law == 6 if present is None or 6 in present else None
+    if m is not None and m.any():
         tt = t[m]
         out[m] = tt**5 * (7.0 - 14.0 * tt + 10.0 * tt * tt - 2.5 * tt**3)
     return out
