@@ -210,13 +210,16 @@ def _verified() -> bool:
 
 
 def ready(c: Any) -> bool:
-    """Whether ``c`` takes the direct path (a plain canvas, and the check passed)."""
-    return (
-        type(c) is _CANVAS
-        and bool(c.bottomup)
-        and not getattr(c, "_enforceColorSpace", None)
-        and _verified()
-    )
+    """Whether ``c`` takes the direct path (a plain canvas, and the check passed);
+    decided once a canvas (gradeline never changes a canvas's direction or colour
+    space while drawing)."""
+    if type(c) is not _CANVAS:
+        return False
+    known = c.__dict__.get("_gradeline_direct")
+    if known is None:
+        known = bool(c.bottomup) and not getattr(c, "_enforceColorSpace", None) and _verified()
+        c.__dict__["_gradeline_direct"] = known
+    return known
 
 
 def text(c: Any, name: str, size: float, x: float, y: float, s: str, direct: bool) -> None:
