@@ -175,8 +175,14 @@ def _crossings(
         index.cells_of(bx, ay),
     ]
     pairs_seg, pairs_tri = [], []
+    seen: list[NDArray[np.intp]] = []
     for cells in seg_cells:
-        ok = np.flatnonzero(cells >= 0)
+        # a cell already looked up for the same segment adds only repeats
+        fresh = cells >= 0
+        for before in seen:
+            fresh &= cells != before
+        seen.append(cells)
+        ok = np.flatnonzero(fresh)
         n = index.start[cells[ok] + 1] - index.start[cells[ok]]
         seg = np.repeat(ok, n)
         pos = np.repeat(index.start[cells[ok]], n) + (
@@ -184,10 +190,10 @@ def _crossings(
         )
         pairs_seg.append(seg)
         pairs_tri.append(index.items[pos])
+    # a triangle registered in two cells of a segment is tested twice: its crossing
+    # comes out twice, the same number, which the unique below keeps once
     seg = np.concatenate(pairs_seg)
     trs = np.concatenate(pairs_tri)
-    key = np.unique(seg * (len(tri) + 1) + trs)
-    seg, trs = key // (len(tri) + 1), key % (len(tri) + 1)
     for k0, k1 in ((0, 1), (1, 2), (2, 0)):
         p, q = tri[trs, k0], tri[trs, k1]
         ex, ey = x[q] - x[p], y[q] - y[p]
