@@ -381,6 +381,8 @@ def _build_alignment(
                 os.unlink(path)
             except OSError:
                 pass
+        with contextlib.suppress(OSError):  # the folder too, when nothing else is in it
+            outdir.rmdir()
         raise
     if solved.horizontal is not None and solved.horizontal.findings:
         notes.append(f"{len(solved.horizontal.findings)} plan geometry findings (see check.txt)")
