@@ -250,58 +250,22 @@ def _segments(items, xf: PaperXform) -> np.ndarray:
 
 
 class _Segments:
-    """Paper segments (n, 4) with their extents kept, for many box tests.
-
-    The segments no wider than an eighth of the whole set's width are sorted by their
-    left end, so that a box test looks only at those starting within that width of
-    the box; the wider ones (and any with a NaN end) are always looked at.
-    """
+    """Paper segments (n, 4) with their extents kept, for many box tests."""
 
     def __init__(self, seg: np.ndarray) -> None:
         self.seg = seg
-        xmax = np.maximum(seg[:, 0], seg[:, 2])
-        xmin = np.minimum(seg[:, 0], seg[:, 2])
-        ymax = np.maximum(seg[:, 1], seg[:, 3])
-        ymin = np.minimum(seg[:, 1], seg[:, 3])
-        span = xmax - xmin
-        finite = np.isfinite(xmin) & np.isfinite(xmax) & np.isfinite(ymin) & np.isfinite(ymax)
-        self.reach = 0.0
-        if finite.any():
-            self.reach = float(xmax[finite].max() - xmin[finite].min()) / 8.0
-        short = finite & (span <= self.reach)
-        order = np.flatnonzero(short)[np.argsort(xmin[short], kind="stable")]
-        wide = np.flatnonzero(~short)
-        self.order = np.concatenate([order, wide])  # sorted short ones, then the wide
-        self.short = len(order)
-        self.left = xmin[order]
-        self.xmin, self.xmax = xmin[self.order], xmax[self.order]
-        self.ymin, self.ymax = ymin[self.order], ymax[self.order]
-        self.sorted_seg = seg[self.order]
+        self.xmax = np.maximum(seg[:, 0], seg[:, 2])
+        self.xmin = np.minimum(seg[:, 0], seg[:, 2])
+        self.ymax = np.maximum(seg[:, 1], seg[:, 3])
+        self.ymin = np.minimum(seg[:, 1], seg[:, 3])
 
     def hit(self, box: tuple[float, float, float, float]) -> bool:
         """True when any segment meets the axis-aligned ``box``."""
         if not len(self.seg):
             return False
         x0, y0, x1, y1 = box
-        parts: tuple[tuple[int, int], ...]
-        if math.isfinite(x0) and math.isfinite(x1):
-            lo = int(np.searchsorted(self.left, x0 - self.reach, side="left"))
-            hi = int(np.searchsorted(self.left, x1, side="right"))
-            parts = ((lo, hi), (self.short, len(self.order)))
-        else:  # NaN compares false: every segment is near, as numpy has it
-            parts = ((0, len(self.order)),)
-        for a, b in parts:
-            if a >= b:
-                continue
-            near = ~(
-                (self.xmax[a:b] < x0)
-                | (self.xmin[a:b] > x1)
-                | (self.ymax[a:b] < y0)
-                | (self.ymin[a:b] > y1)
-            )
-            if near.any() and segments_meet(self.sorted_seg[a:b][near], box):
-                return True
-        return False
+        near = ~((self.xmax < x0) | (self.xmin > x1) | (self.ymax < y0) | (self.ymin > y1))
+        return bool(near.any() and segments_meet(self.seg[near], box))
 
 
 def _extent(box: np.ndarray) -> tuple[float, float, float, float]:
