@@ -256,22 +256,14 @@ def _render_all(
             lane.busy += 1
 
     with contextlib.ExitStack() as stack:
-        lanes = []
-        if early:  # its first task forks its process: before the surface is read
-            lanes.append(_Lane(stack.enter_context(pool(1)), 1, early))
-            feed(lanes[-1])
-        if attach is not None:
-            try:
-                _CURRENT["solved"] = attach()
-            except BaseException:
-                for fut in pending:  # the one started finishes; nothing more starts
-                    fut.cancel()
-                raise
-        if late:
-            size = min(workers, len(late))
-            lanes.append(_Lane(stack.enter_context(pool(size)), size, late))
-            feed(lanes[-1])
         try:
+            if early:  # its first task forks its process: before the surface is read
+                feed(_Lane(stack.enter_context(pool(1)), 1, early))
+            if attach is not None:
+                _CURRENT["solved"] = attach()
+            if late:
+                size = min(workers, len(late))
+                feed(_Lane(stack.enter_context(pool(size)), size, late))
             while pending:
                 finished, _ = wait(pending, return_when=FIRST_COMPLETED)
                 for fut in finished:
@@ -286,7 +278,7 @@ def _render_all(
                             lane.queue.appendleft((_audit, (name, data)))
                     feed(lane)
         except BaseException:
-            for fut in pending:
+            for fut in pending:  # what has started finishes; nothing more starts
                 fut.cancel()
             raise
     return done
