@@ -476,8 +476,10 @@ def die_with_parent(parent: int | None = None) -> None:
     import sys
 
     # a forked worker inherits the parent's SIGTERM handler (which stops a build
-    # cleanly); in a worker SIGTERM must simply end the process
+    # cleanly); in a worker SIGTERM must simply end the process. A Ctrl-C reaches
+    # the whole process group: the parent decides (what has started finishes)
     signal.signal(signal.SIGTERM, signal.SIG_DFL)
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
     if not sys.platform.startswith("linux"):
         return
     import ctypes

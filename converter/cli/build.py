@@ -54,6 +54,39 @@ def add_parser(sub: Any) -> None:
     p.set_defaults(func=run)
 
 
+class Stopped(KeyboardInterrupt):
+    """A build stopped by SIGTERM or Ctrl-C: caught wherever a ``KeyboardInterrupt`` is.
+
+    Its own class, not ``KeyboardInterrupt`` itself: CPython (3.11, 3.12) remembers a
+    ``KeyboardInterrupt`` that leaves code run by ``exec`` of a string (scipy runs its
+    imports that way) and then ends the process by SIGINT, even though the build
+    caught it and wrote its index. It compares the exact class, so a subclass is not
+    remembered.
+    """
+
+
+def _stop(signum: int, frame: object) -> None:
+    raise Stopped
+
+
+def _catch_stops() -> dict[int, Any]:
+    """SIGTERM, and Ctrl-C unless it is ignored, raise :class:`Stopped`; the old
+    handlers, for :func:`_restore`."""
+    import signal
+
+    old: dict[int, Any] = {signal.SIGTERM: signal.signal(signal.SIGTERM, _stop)}
+    if signal.getsignal(signal.SIGINT) is signal.default_int_handler:
+        old[signal.SIGINT] = signal.signal(signal.SIGINT, _stop)
+    return old
+
+
+def _restore(old: dict[int, Any]) -> None:
+    import signal
+
+    for signum, handler in old.items():
+        signal.signal(signum, handler)
+
+
 def run_jobs(jobs: list[Any], outdir: str, workers: int) -> int:
     """Build the jobs with a progress bar on a terminal; print the index; exit code."""
     from gradeline.build import build, write_index
@@ -66,16 +99,11 @@ def run_jobs(jobs: list[Any], outdir: str, workers: int) -> int:
         from tqdm import tqdm
 
         bar = tqdm(total=len(jobs), unit="file", desc="gradeline build", file=sys.stderr)
-    import signal
-
-    def stop(signum: int, frame: object) -> None:
-        raise KeyboardInterrupt
-
-    old = signal.signal(signal.SIGTERM, stop)  # a stopped build still writes its index
+    old = _catch_stops()  # a stopped build still writes its index
     try:
         results = build(jobs, outdir, workers=workers, progress=bar.update if bar else None)
     finally:
-        signal.signal(signal.SIGTERM, old)
+        _restore(old)
         if bar is not None:
             bar.close()
     text, _ = write_index(results, outdir)
