@@ -193,6 +193,15 @@ def _audit(name: str, data: bytes) -> tuple[str, None, Any]:
     return name, None, dl.drawing_audit_of(_CURRENT["solved"], data, name, tol)
 
 
+def _audited(name: str) -> tuple[str, str | bytes, Any]:
+    """A deliverable and, for a drawing, its audit, in one task: (name, data, the
+    audit or what the deliverable found)."""
+    name, data, extra = _deliverable(name)
+    if name in _AUDITED:
+        extra = _audit(name, data)[2]  # type: ignore[arg-type]
+    return name, data, extra
+
+
 def _check_text(solved: Any, findings: list, audits: list) -> tuple[str, int]:
     """check.txt: the file's own values, and the self-check of the drawings made (their
     linework and every label against the geometry). Returns the text and the number of
@@ -221,22 +230,17 @@ def _render_all(
 
     With ``workers`` > 1 they are made in forked processes, which inherit the solved
     alignment: the ground-free ones in one process forked before the surface is read
-    (while it is read), the rest in ``workers`` processes forked after, the sheets
-    first; each drawing's audit is queued the moment the drawing is done. The
-    results are the same bytes as one process makes.
+    (while it is read; all queued at once, each drawing followed by its audit), the
+    rest in ``workers`` processes forked after, the sheets first, each drawing's
+    audit queued the moment the drawing is done. The results are the same bytes as
+    one process makes.
     """
     import multiprocessing
 
     if workers <= 1 or len(names) <= 1 or "fork" not in multiprocessing.get_all_start_methods():
         if attach is not None:
             _CURRENT["solved"] = attach()
-        alone: dict[str, tuple[str | bytes, Any]] = {}
-        for name in names:
-            data, extra = _deliverable(name)[1:]
-            if name in _AUDITED:
-                extra = _audit(name, data)[2]  # type: ignore[arg-type]
-            alone[name] = (data, extra)
-        return alone
+        return {name: _audited(name)[1:] for name in names}
     ctx = multiprocessing.get_context("fork")
 
     def pool(size: int) -> ProcessPoolExecutor:
@@ -247,7 +251,7 @@ def _render_all(
     early = [n for n in names if n in _GROUNDLESS] if attach is not None else []
     late = sorted((n for n in names if n not in early), key=lambda n: n != "sheets.pdf")
     done: dict[str, tuple[str | bytes, Any]] = {}
-    pending: dict[Future, _Lane] = {}
+    pending: dict[Future, _Lane | None] = {}
 
     def feed(lane: _Lane) -> None:  # keep each of the lane's processes busy
         while lane.queue and lane.busy < lane.size:
@@ -257,8 +261,12 @@ def _render_all(
 
     with contextlib.ExitStack() as stack:
         try:
-            if early:  # its first task forks its process: before the surface is read
-                feed(_Lane(stack.enter_context(pool(1)), 1, early))
+            if early:  # its first task forks its process: before the surface is read.
+                # All of its tasks are queued at once, each drawing with its audit: the
+                # process works through them while this one reads the surface
+                ahead = stack.enter_context(pool(1))
+                for name in early:
+                    pending[ahead.submit(_audited, name)] = None
             if attach is not None:
                 _CURRENT["solved"] = attach()
             if late:
@@ -268,8 +276,11 @@ def _render_all(
                 finished, _ = wait(pending, return_when=FIRST_COMPLETED)
                 for fut in finished:
                     lane = pending.pop(fut)
-                    lane.busy -= 1
                     name, data, extra = fut.result()
+                    if lane is None:  # the early lane's: done with its audit
+                        done[name] = (data, extra)
+                        continue
+                    lane.busy -= 1
                     if data is None:  # an audit
                         done[name] = (done[name][0], extra)
                     else:
