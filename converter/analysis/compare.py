@@ -184,13 +184,12 @@ def compare_representation(a, plan, curve3d, tol: Tolerances) -> list[Finding]:
     """The geometric representation a file carries (evaluated points) against the
     alignment solved from its business logic: the largest offset from the plan and,
     for a 3D curve, the largest elevation difference at the same station."""
-    from gradeline.geometry.station_offset import Projector
 
     c = Collector(a.alignment.name, tol)
     unit = a.document.units.symbol
     if a.horizontal is None:
         return c.items
-    proj = Projector(a.horizontal)
+    proj = a.horizontal.projector
     what = "geometric representation against the business logic"
     for name, pts in (("IfcCompositeCurve", plan), ("IfcGradientCurve", curve3d)):
         if pts is None or not len(pts):

@@ -195,10 +195,9 @@ def _plan_layer(view: WorldView, opts: AuditOptions, solved, transform, name: st
             "with linework: " + (", ".join(names) or "none")
         )
     # the layer whose linework lies nearest the alignment
-    from gradeline.geometry.station_offset import Projector
 
     t = transform if isinstance(transform, plan_audit.Similarity) else plan_audit.Similarity()
-    proj = Projector(solved.horizontal)
+    proj = solved.horizontal.projector
     best, best_d = "", math.inf
     for layer in names:
         pts = np.concatenate([p.points for p in _on(view, layer)])

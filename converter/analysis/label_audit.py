@@ -746,14 +746,13 @@ def audit_plan_labels(
 ) -> list[LabelCheck]:
     """Every statement of a plan drawing's texts; positions mapped by ``to_world``."""
     from gradeline.geometry.curve_data import curve_data, key_points
-    from gradeline.geometry.station_offset import Projector
 
     hz = ctx.horizontal
     stationing = ctx.stationing
     label = stationing.label_value
     audit = _Audit(tol, angle_tol_sec, ctx.document.units.symbol)
     curves = curve_data(hz)
-    proj = Projector(hz)
+    proj = hz.projector
     blocks = label_blocks(texts)
     if not blocks:
         return []

@@ -149,7 +149,7 @@ def fit_similarity(
     """
     if not pieces:
         raise GradelineError("no linework to fit a transform to", choice="transform")
-    proj = Projector(hz)
+    proj = hz.projector
     drawn = _sample(pieces, _step(pieces, hz))
     if len(drawn) > 4000:
         drawn = drawn[np.linspace(0, len(drawn) - 1, 4000).astype(np.int64)]
@@ -271,7 +271,7 @@ def audit_plan(
     t = transform or Similarity()
     step = _step(pieces, hz)
     world = t.apply(_sample(pieces, step))
-    proj = Projector(hz)
+    proj = hz.projector
     st, off, status = proj(world[:, 1], world[:, 0])
     on = status == 0
     s, o = st[on], off[on]

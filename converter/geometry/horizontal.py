@@ -23,6 +23,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, field
 from functools import cached_property
+from typing import TYPE_CHECKING
 
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
@@ -51,6 +52,9 @@ from gradeline.model import (
     HSpiral,
     SourceRef,
 )
+
+if TYPE_CHECKING:
+    from gradeline.geometry.station_offset import Projector
 
 __all__ = [
     "SPIRAL_TYPES",
@@ -161,6 +165,14 @@ class HorizontalGeometry:
     def has_tangent_forms(self) -> bool:
         """Whether any spiral is a form defined from the tangent."""
         return bool((self.law == TANGENT_LAW).any())
+
+    @cached_property
+    def projector(self) -> Projector:
+        """Station and offset of points, its index of samples built once for every
+        caller (the audits of a build project many points each)."""
+        from gradeline.geometry.station_offset import Projector
+
+        return Projector(self)
 
     @cached_property
     def first_panel(self) -> NDArray[np.intp]:

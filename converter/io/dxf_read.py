@@ -301,6 +301,15 @@ def _pieces(e: Any, kind: str, layer: str, tol: float) -> list[DrawnPiece]:
         pts = np.array([(p[0], p[1]) for p in e.construction_tool().flattening(tol)], float)
         return [DrawnPiece("curve", pts, layer, handle)]
     if kind == "LWPOLYLINE":
+        ocs = e.ocs()
+        flat = None if ocs.transform else _straight_lwpolyline(e)
+        if flat is not None:  # no bulges, in WCS: the parts straight from the vertex array
+            if e.closed and len(flat) > 1:
+                flat = np.vstack([flat, flat[:1]])
+            flat.setflags(write=False)
+            return [
+                DrawnPiece("line", flat[i : i + 2], layer, handle) for i in range(len(flat) - 1)
+            ]
         verts = [(x, y, b) for x, y, b in e.get_points("xyb")]
         closed, elevation = bool(e.closed), float(e.dxf.get("elevation", 0.0))
     elif e.is_2d_polyline:
