@@ -84,6 +84,12 @@ def test_fhwa_curve_lengths_and_tangent_runs(fhwa):
     assert h.findings == ()  # tangent throughout, no gaps
 
 
+def test_no_stations_give_empty_coordinates(fhwa):
+    # a plan without placeable curves asks for none (found by the plan drawing)
+    n, e, hd = H.evaluate(fhwa.horizontal, [])
+    assert n.shape == e.shape == hd.shape == (0,)
+
+
 def test_fhwa_pc_pt_at_computed_stations(fhwa):
     h = fhwa.horizontal
     curves = curve_data(h)

@@ -647,7 +647,7 @@ def evaluate(
     s = s_in.reshape(-1)
     north, east, heading = np.empty(len(s)), np.empty(len(s)), np.empty(len(s))
     # a chunk at a time: the work arrays stay a fraction of the outputs
-    step = len(s) if len(s) <= 2 * 8192 else min(_CHUNK, max(8192, len(s) // 16))
+    step = max(1, len(s)) if len(s) <= 2 * 8192 else min(_CHUNK, max(8192, len(s) // 16))
     for lo in range(0, len(s), step):
         part = s[lo : lo + step]
         # a station within rounding (1e-6) of an end counts as that end

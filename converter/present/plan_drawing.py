@@ -63,17 +63,24 @@ def plan_drawing(ctx: SolvedAlignment, layout: DraftingLayout) -> Drawing:
     st = ctx.stationing
     units = ctx.document.units
     items: list[Any] = []
+    spans = []  # the stations of each curved element, all evaluated in one call
     for el in hz.elements:
-        s = np.array([el.start_station, el.end_station])
         if el.kind == "line":
-            items.append(Path("plan", ((el.x0, el.y0), (el.x1, el.y1))))
             continue
         kmax = max(abs(el.k0), abs(el.k1))
         step = math.sqrt(8.0 * tol / kmax) if kmax > 0 else el.length
         guard_count(el.length / step, "plan polyline vertices")
         n = max(2, math.ceil(el.length / step) + 1)
-        s = np.linspace(el.start_station, el.end_station, n)
-        north, east, _ = ctx.plan_at(s)
+        spans.append(np.linspace(el.start_station, el.end_station, n))
+    if spans:
+        north_all, east_all, _ = ctx.plan_at(np.concatenate(spans))
+        cuts = np.cumsum([len(v) for v in spans])[:-1]
+        traced = iter(zip(np.split(east_all, cuts), np.split(north_all, cuts), strict=True))
+    for el in hz.elements:
+        if el.kind == "line":
+            items.append(Path("plan", ((el.x0, el.y0), (el.x1, el.y1))))
+            continue
+        east, north = next(traced)
         pts = tuple(zip(east.tolist(), north.tolist(), strict=True))
         if el.kind == "arc":
             assert el.center is not None
@@ -122,8 +129,9 @@ def plan_drawing(ctx: SolvedAlignment, layout: DraftingLayout) -> Drawing:
     for key_s, tag in keys:
         near = next((k for k in merged if abs(k - key_s) < 1e-6), None)
         merged.setdefault(near if near is not None else key_s, []).append(tag)
-    for key_s, tags in sorted(merged.items()):
-        n_, e_, hd = (float(v) for v in ctx.plan_at(key_s))
+    key_rows = sorted(merged.items())
+    key_at = ctx.plan_at([k for k, _ in key_rows])
+    for (key_s, tags), n_, e_, hd in zip(key_rows, *(v.tolist() for v in key_at), strict=True):
         items.append(Circle("plan_points", (e_, n_), 0.4 * h))
         rx, ry = math.sin(hd), -math.cos(hd)  # right normal
         rot, flipped = _readable_flag(math.degrees(hd) - 90.0)
@@ -169,13 +177,13 @@ def plan_drawing(ctx: SolvedAlignment, layout: DraftingLayout) -> Drawing:
                 break
         put(item)
     notes: list[CurveNote] = []
-    for c in ctx.curves:
-        if c.pi_northing is None or c.pi_easting is None:
-            continue
+    placed = [c for c in ctx.curves if c.pi_northing is not None and c.pi_easting is not None]
+    mids = [(c.start_station + c.end_station) / 2 for c in placed]
+    mid_n, mid_e, _ = (v.tolist() for v in ctx.plan_at(mids))
+    for c, mid, mn, me in zip(placed, mids, mid_n, mid_e, strict=True):
+        assert c.pi_northing is not None and c.pi_easting is not None
         note = labels.plan_curve_note(c, units)
         lines = [note[0], labels.plan_point_label("PI", st.label(c.pi_station))] + note[1:]
-        mid = (c.start_station + c.end_station) / 2
-        mn, me, _ = (float(v) for v in ctx.plan_at(mid))
         ox, oy = c.pi_easting - me, c.pi_northing - mn
         dist = math.hypot(ox, oy) or 1.0
         ux, uy = ox / dist, oy / dist
