@@ -718,3 +718,72 @@ def test_hostile_text_in_a_profile_is_listed(tmp_path, capsys):
     code, rep = _audit([*base, "--dxf", str(prof)], capsys)
     assert [c["note"] for c in _labels(rep, "unread")] == ["longer than 1000 characters: not read"]
     assert code == 0
+
+
+#: Words and values of labels, the patterns' literal parts among them.
+_WORDS = (
+    "STA|STA.|STATION|PVI|BVC|EVC|HIGH PT|LOW POINT|PC|PT|TS|SC|CS|ST|PI|EL|EL.|ELEV|"
+    "ELEVATION|A|G|GRADE|S|L1|L2|LS|Ts|LC|ES|LVC|VCL|LENGTH|L|VC|V.C.|K|E|R|RADIUS|T|"
+    "TANGENT|Δ|DELTA|I|IC|D|DC|CURVE|CRV|C|NO.|SHEET|OF|BK|BACK|AHEAD|AHD|EQ|X|=|:|%|'|FT|"
+    "M|US FT|°|LT|RT|/|-|+|12+34.56|1+00|852.70|-1.850|400|3|28°00'00\"|5-58-05.9|12.5°|"
+    "0.75|%%d|lt|sta"
+).split("|")
+
+
+def test_skipped_patterns_could_not_have_matched():
+    # a pattern is skipped when none of its literal parts is in the text; the reading
+    # must be the same as trying every pattern on every text: every pair of words
+    # (with and without a space), 4,000 random runs of three to six, the sample's labels
+    import random
+
+    from gradeline.analysis import label_audit
+
+    labels = [  # a label of each pattern, as drawings state them (common practice)
+        "A = 1.25%",
+        "A: 0.75",
+        "I = 28°00'00\" RT",
+        "Δ = 12.5°",
+        "DELTA = 5-58-05.9 LT",
+        "IC = 5°58'05.9\"",
+        "L1 = 400'",
+        "L2 = 300",
+        "LS = 250 FT / 250 FT",
+        "TS = 1200.00'",
+        "LC = 800.00",
+        "ES = 20.5",
+        "K = 150",
+        "E = 1.25'",
+        "T = 400.00'",
+        "R = 1800'",
+        "RADIUS 950 FT",
+        "D = 3°49'11.0\"",
+        "DC: 2-00-00",
+        "EL. 852.70",
+        "ELEV: 610.2 M",
+        "STA 12+34.56",
+        "PVI STA 12+34.56 EL 852.70",
+        "-1.850%",
+        "G = +2.0 %",
+        "400' VC",
+        "LVC = 400",
+        "12+00 BK = 12+50 AH",
+        "STA EQ 10+00 BACK = 10+20 AHEAD",
+        "X = STATION",
+        "SHEET 2 OF 9",
+        "CURVE NO. 3",
+        "C3",
+        "852.70",
+    ]
+    texts = labels + [a + sep + b for a in _WORDS for b in _WORDS for sep in ("", " ")]
+    rng = random.Random(16)
+    texts += [" ".join(rng.choices(_WORDS, k=rng.randint(3, 6))) for _ in range(4000)]
+    saved = label_audit._NEEDS
+    fast = [read_statements(t) for t in texts]
+    try:
+        label_audit._NEEDS = {}
+        slow = [read_statements(t) for t in texts]
+    finally:
+        label_audit._NEEDS = saved
+    differ = [t for t, a, b in zip(texts, fast, slow, strict=True) if a != b]
+    assert differ == []
+    assert sum(bool(b[0]) for b in slow) > 1000  # many texts state something

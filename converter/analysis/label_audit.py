@@ -148,6 +148,34 @@ _PATTERNS: list[tuple[str, re.Pattern[str]]] = [
 ]
 
 
+#: For each pattern, strings one of which a text must hold for it to match (each
+#: pattern's literal parts; upper case, as :func:`normalize` leaves a text): a pattern
+#: none of whose strings is in the text is not tried. A test holds every pattern to it.
+_NEEDS: dict[str, tuple[str, ...]] = {
+    "mapping": ("STATION",),
+    "equation": ("+",),
+    "curve_name": ("C",),
+    "sheet": ("SHEET",),
+    "station": ("+",),
+    "elevation": ("EL",),
+    "A": ("A",),
+    "grade": ("%",),
+    "L1": ("L1",),
+    "L2": ("L2",),
+    "Ls": ("LS",),
+    "Ts": ("TS",),
+    "Lc": ("LC",),
+    "Es": ("ES",),
+    "L": ("L", "V"),
+    "K": ("K",),
+    "E": ("E",),
+    "R": ("R",),
+    "T": ("T",),
+    "delta": ("Δ", "I", "DELTA"),
+    "D": ("D",),
+}
+
+
 def _decimals(text: str) -> int:
     return len(text.split(".", 1)[1]) if "." in text else 0
 
@@ -220,6 +248,9 @@ def read_statements(text: str) -> tuple[list[Statement], str]:
     work = normalize(text)
     found: list[tuple[int, Statement]] = []
     for name, pat in _PATTERNS:
+        needs = _NEEDS.get(name)
+        if needs is not None and not any(n in work for n in needs):
+            continue
         for m in list(pat.finditer(work)):
             if not m.group(0).strip():
                 continue
