@@ -251,7 +251,7 @@ def _render_all(
     early = [n for n in names if n in _GROUNDLESS] if attach is not None else []
     late = sorted((n for n in names if n not in early), key=lambda n: n != "sheets.pdf")
     done: dict[str, tuple[str | bytes, Any]] = {}
-    pending: dict[Future, _Lane | None] = {}
+    pending: dict[Future, _Lane] = {}
 
     def feed(lane: _Lane) -> None:  # keep each of the lane's processes busy
         while lane.queue and lane.busy < lane.size:
@@ -262,11 +262,9 @@ def _render_all(
     with contextlib.ExitStack() as stack:
         try:
             if early:  # its first task forks its process: before the surface is read.
-                # All of its tasks are queued at once, each drawing with its audit: the
-                # process works through them while this one reads the surface
-                ahead = stack.enter_context(pool(1))
-                for name in early:
-                    pending[ahead.submit(_audited, name)] = None
+                # All of its tasks are handed over at once, each drawing with its audit:
+                # the process works through them while this one reads the surface
+                feed(_Lane(stack.enter_context(pool(1)), len(early), early, together=True))
             if attach is not None:
                 _CURRENT["solved"] = attach()
             if late:
@@ -276,16 +274,13 @@ def _render_all(
                 finished, _ = wait(pending, return_when=FIRST_COMPLETED)
                 for fut in finished:
                     lane = pending.pop(fut)
-                    name, data, extra = fut.result()
-                    if lane is None:  # the early lane's: done with its audit
-                        done[name] = (data, extra)
-                        continue
                     lane.busy -= 1
+                    name, data, extra = fut.result()
                     if data is None:  # an audit
                         done[name] = (done[name][0], extra)
                     else:
                         done[name] = (data, extra)
-                        if name in _AUDITED:  # next in the lane that made it (its solved)
+                        if name in _AUDITED and not lane.together:  # next in its lane
                             lane.queue.appendleft((_audit, (name, data)))
                     feed(lane)
         except BaseException:
@@ -296,12 +291,18 @@ def _render_all(
 
 
 class _Lane:
-    """A process pool of the build and the tasks waiting for it: a drawing's audit
-    goes to the front, so that it starts the moment a process is free."""
+    """A process pool of the build and the tasks waiting for it: ``size`` tasks are
+    handed to the pool at a time (one a process, or all at once for a pool the
+    parent cannot feed while it reads the surface). A drawing's audit goes to the
+    front of the queue, so that it starts the moment a process is free; with
+    ``together`` each drawing's task makes its audit too."""
 
-    def __init__(self, pool: ProcessPoolExecutor, size: int, names: Sequence[str]) -> None:
-        self.pool, self.size, self.busy = pool, size, 0
-        self.queue: collections.deque = collections.deque((_deliverable, (n,)) for n in names)
+    def __init__(
+        self, pool: ProcessPoolExecutor, size: int, names: Sequence[str], together: bool = False
+    ) -> None:
+        self.pool, self.size, self.busy, self.together = pool, size, 0, together
+        task = _audited if together else _deliverable
+        self.queue: collections.deque = collections.deque((task, (n,)) for n in names)
 
 
 def _build_alignment(

@@ -13,6 +13,10 @@ from gradeline.geometry.horizontal import HorizontalGeometry, _state
 
 __all__ = ["Projector", "foot_points", "station_offset"]
 
+#: Nearest samples refined for each point (the default; a geometry's own projector,
+#: ``HorizontalGeometry.projector``, is built with it).
+_CANDIDATES = 3
+
 
 def _samples(geom: HorizontalGeometry) -> NDArray[np.float64]:
     total = geom.end - geom.start
@@ -60,7 +64,11 @@ def foot_points(
 
 
 def station_offset(
-    geom: HorizontalGeometry, northing: ArrayLike, easting: ArrayLike, *, candidates: int = 3
+    geom: HorizontalGeometry,
+    northing: ArrayLike,
+    easting: ArrayLike,
+    *,
+    candidates: int = _CANDIDATES,
 ) -> tuple[NDArray[np.float64], NDArray[np.float64], NDArray[np.int8]]:
     """Station and offset of points; offset is positive to the right of the alignment.
 
@@ -76,13 +84,14 @@ def station_offset(
     status : ndarray of int8
         0 on the alignment, -1 before its start, +1 after its end.
     """
-    return Projector(geom, candidates)(northing, easting)
+    proj = geom.projector if candidates == _CANDIDATES else Projector(geom, candidates)
+    return proj(northing, easting)
 
 
 class Projector:
     """:func:`station_offset` with its sample index built once, for many calls."""
 
-    def __init__(self, geom: HorizontalGeometry, candidates: int = 3) -> None:
+    def __init__(self, geom: HorizontalGeometry, candidates: int = _CANDIDATES) -> None:
         from scipy.spatial import cKDTree  # nearest-neighbour index; heavy import kept local
 
         self.geom = geom

@@ -300,8 +300,8 @@ def _pieces(e: Any, kind: str, layer: str, tol: float) -> list[DrawnPiece]:
     if kind == "SPLINE":
         pts = np.array([(p[0], p[1]) for p in e.construction_tool().flattening(tol)], float)
         return [DrawnPiece("curve", pts, layer, handle)]
+    ocs = e.ocs()
     if kind == "LWPOLYLINE":
-        ocs = e.ocs()
         flat = None if ocs.transform else _straight_lwpolyline(e)
         if flat is not None:  # no bulges, in WCS: the parts straight from the vertex array
             if e.closed and len(flat) > 1:
@@ -325,7 +325,7 @@ def _pieces(e: Any, kind: str, layer: str, tol: float) -> list[DrawnPiece]:
         ]
     else:
         return []  # meshes and polyface: no linework to compare
-    return _polyline_parts(verts, closed, elevation, e.ocs(), layer, handle, tol)
+    return _polyline_parts(verts, closed, elevation, ocs, layer, handle, tol)
 
 
 def _polyline_parts(verts, closed, elevation, ocs, layer, handle, tol) -> list[DrawnPiece]:
